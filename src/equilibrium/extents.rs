@@ -1,0 +1,443 @@
+//! The ideal-gas equilibrium of a set of independent reactions, solved in their extents.
+//!
+//! With amounts n = n0 + nu^T xi, the conditions sum_i nu_ji ln(y_i P / P0) = ln K_j are the
+//! stationary point of the strictly convex function
+//!
+//! ```text
+//! F(xi) = -sum_j xi_j ln K_j + sum_i n_i ln(n_i P / (n_T P0))
+//! ```
+//!
+//! over the region where every amount is non-negative (the Gibbs energy of an ideal-gas mixture
+//! divided by RT, up to a constant; e.g. Smith & Missen, Chemical Reaction Equilibrium Analysis,
+//! 1982, ch. 4), so there is exactly one physical root. It is found by Newton's method on the
+//! gradient, g_j = sum_i nu_ji ln(n_i/n_T) + dnu_j ln(P/P0) - ln K_j, with the exact Hessian
+//! H_jk = sum_i nu_ji nu_ki / n_i - dnu_j dnu_k / n_T, a fraction-to-boundary rule that keeps
+//! every amount positive, and a backtracking line search on |g|^2 (Nocedal & Wright, Numerical
+//! Optimization, 2nd ed., ch. 3 and 11). The amounts are updated directly, so a species driven
+//! to 1e-15 of the total keeps its full relative precision.
+//!
+//! This module is pure numerics: it knows nothing of species data, units or files.
+
+use super::linalg;
+use crate::error::{Error, Result};
+
+/// Fraction of the distance to the boundary (an amount reaching zero) a step may take.
+const FRACTION_TO_BOUNDARY: f64 = 0.99;
+/// Convergence tolerance on the largest equilibrium residual, ln-space.
+pub const RESIDUAL_TOLERANCE: f64 = 1e-11;
+/// Newton iterations allowed.
+const MAX_ITERATIONS: usize = 200;
+
+/// Stoichiometry of a set of independent reactions over a set of species.
+#[derive(Debug, Clone)]
+pub struct ExtentSystem {
+    n_species: usize,
+    n_reactions: usize,
+    /// Row-major coefficients, `nu[j * n_species + i]`, products positive.
+    nu: Vec<f64>,
+    /// Gas mole change per unit extent of each reaction.
+    dnu: Vec<f64>,
+    /// For each reaction, the species with a non-zero coefficient.
+    members: Vec<Vec<usize>>,
+}
+
+/// The answer of an extent solve.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ExtentSolution {
+    /// Equilibrium amounts of the system's species (same units as the inlet).
+    pub amounts: Vec<f64>,
+    /// Extent of each reaction (same units as the inlet).
+    pub extents: Vec<f64>,
+    /// Equilibrium residual of each reaction, sum nu ln(y P/P0) - ln K (zero for frozen ones).
+    pub residuals: Vec<f64>,
+    /// Reactions that could not proceed in either direction because a species on each side is
+    /// absent and cannot be formed; their extent stays zero.
+    pub frozen: Vec<bool>,
+    /// Newton iterations taken.
+    pub iterations: usize,
+    /// True when every active residual is within [`RESIDUAL_TOLERANCE`].
+    pub converged: bool,
+}
+
+impl ExtentSolution {
+    /// Largest residual magnitude over the active reactions.
+    pub fn max_residual(&self) -> f64 {
+        self.residuals.iter().fold(0.0f64, |m, r| m.max(r.abs()))
+    }
+}
+
+impl ExtentSystem {
+    /// Build from one coefficient row per reaction (each `n_species` long). The reactions must
+    /// be linearly independent.
+    pub fn new(n_species: usize, rows: &[Vec<f64>]) -> Result<ExtentSystem> {
+        let n_reactions = rows.len();
+        if n_reactions == 0 {
+            return Err(Error::Reaction {
+                reaction: "(none)".into(),
+                reason: "an equilibrium stage needs at least one reaction".into(),
+            });
+        }
+        if n_reactions > linalg::MAX_DIM {
+            return Err(Error::Reaction {
+                reaction: "(set)".into(),
+                reason: format!(
+                    "{n_reactions} reactions in one stage; at most {} are supported",
+                    linalg::MAX_DIM
+                ),
+            });
+        }
+        let mut nu = Vec::with_capacity(n_reactions * n_species);
+        for row in rows {
+            if row.len() != n_species {
+                return Err(Error::Reaction {
+                    reaction: "(set)".into(),
+                    reason: "coefficient row length differs from the species count".into(),
+                });
+            }
+            nu.extend_from_slice(row);
+        }
+        if linalg::rank(&nu, n_reactions, n_species) < n_reactions {
+            return Err(Error::Reaction {
+                reaction: "(set)".into(),
+                reason: "the reactions are not independent (one is a combination of others); \
+                         drop the redundant one"
+                    .into(),
+            });
+        }
+        let dnu = rows.iter().map(|r| r.iter().sum()).collect();
+        let members = rows
+            .iter()
+            .map(|r| (0..n_species).filter(|&i| r[i] != 0.0).collect())
+            .collect();
+        Ok(ExtentSystem {
+            n_species,
+            n_reactions,
+            nu,
+            dnu,
+            members,
+        })
+    }
+
+    /// Number of species.
+    pub fn n_species(&self) -> usize {
+        self.n_species
+    }
+
+    /// Number of reactions.
+    pub fn n_reactions(&self) -> usize {
+        self.n_reactions
+    }
+
+    /// Coefficient of species `i` in reaction `j`.
+    #[inline]
+    pub fn nu(&self, j: usize, i: usize) -> f64 {
+        self.nu[j * self.n_species + i]
+    }
+
+    /// Solve for equilibrium.
+    ///
+    /// `inlet`: amounts of the system's species; `inert`: amount of other gas species (they count
+    /// in the total only); `ln_k`: ln K of each reaction; `ln_p`: ln(P / P0).
+    /// `guess`: extents to start from (same units as `inlet`), used when they give positive
+    /// amounts. A failure to converge is reported in the solution (`converged` false), not as an
+    /// error; an error is returned only for input that cannot be solved at all.
+    pub fn solve(
+        &self,
+        inlet: &[f64],
+        inert: f64,
+        ln_k: &[f64],
+        ln_p: f64,
+        guess: Option<&[f64]>,
+    ) -> Result<ExtentSolution> {
+        let ns = self.n_species;
+        let nr = self.n_reactions;
+        if inlet.len() != ns || ln_k.len() != nr {
+            return Err(Error::InvalidValue {
+                field: "equilibrium inlet".into(),
+                value: format!("{} amounts, {} ln K", inlet.len(), ln_k.len()),
+                reason: format!("expected {ns} amounts and {nr} ln K values"),
+            });
+        }
+        let scale = inlet.iter().sum::<f64>() + inert;
+        if !(scale > 0.0 && scale.is_finite())
+            || inlet.iter().any(|n| !(*n >= 0.0 && n.is_finite()))
+            || !(inert >= 0.0)
+            || ln_k.iter().any(|k| !k.is_finite())
+            || !ln_p.is_finite()
+        {
+            return Err(Error::InvalidValue {
+                field: "equilibrium inlet".into(),
+                value: format!("{inlet:?} (+{inert} inert), ln K {ln_k:?}, ln(P/P0) {ln_p}"),
+                reason: "amounts must be finite and non-negative with a positive total, and \
+                         ln K and pressure finite"
+                    .into(),
+            });
+        }
+        let n0: Vec<f64> = inlet.iter().map(|n| n / scale).collect();
+        let inert = inert / scale;
+        let mut xi = vec![0.0; nr];
+        let mut n = n0.clone();
+
+        let mut warm = false;
+        if let Some(g) = guess {
+            if g.len() == nr {
+                let trial: Vec<f64> = (0..nr).map(|j| g[j] / scale).collect();
+                let amounts = self.amounts_at(&n0, &trial);
+                let ok = (0..nr).all(|j| self.members[j].iter().all(|&i| amounts[i] > 0.0));
+                if ok {
+                    xi = trial;
+                    n = amounts;
+                    warm = true;
+                }
+            }
+        }
+        if !warm {
+            self.make_interior(&mut n, &mut xi);
+        }
+        let frozen: Vec<bool> = (0..nr)
+            .map(|j| self.members[j].iter().any(|&i| !(n[i] > 0.0)))
+            .collect();
+        let active: Vec<usize> = (0..nr).filter(|&j| !frozen[j]).collect();
+
+        let mut ws = Workspace::new(ns, active.len());
+        let mut g = vec![0.0; active.len()];
+        let mut iterations = 0;
+        let mut merit = self.gradient(&n, inert, ln_k, ln_p, &active, &mut ws.ln_n, &mut g);
+        let mut converged = max_abs(&g) <= RESIDUAL_TOLERANCE;
+        while !converged && iterations < MAX_ITERATIONS {
+            iterations += 1;
+            // Newton direction: H d = -g.
+            self.hessian(&n, inert, &active, &mut ws.hessian);
+            for (k, gk) in g.iter().enumerate() {
+                ws.step[k] = -gk;
+            }
+            if !linalg::solve_spd(&ws.hessian, &mut ws.step, active.len()) {
+                self.hessian(&n, inert, &active, &mut ws.hessian);
+                for (k, gk) in g.iter().enumerate() {
+                    ws.step[k] = -gk;
+                }
+                if !linalg::solve_general(&mut ws.hessian, &mut ws.step, active.len()) {
+                    break;
+                }
+            }
+            // Change of amounts and the largest step that keeps them positive.
+            let mut alpha: f64 = 1.0;
+            for i in 0..ns {
+                let mut d = 0.0;
+                for (k, &j) in active.iter().enumerate() {
+                    d += self.nu(j, i) * ws.step[k];
+                }
+                ws.dn[i] = d;
+                if d < 0.0 && n[i] > 0.0 {
+                    alpha = alpha.min(FRACTION_TO_BOUNDARY * n[i] / -d);
+                }
+            }
+            // Backtracking on |g|^2 (the Newton direction always decreases it).
+            let mut accepted = false;
+            for _ in 0..60 {
+                for i in 0..ns {
+                    ws.trial[i] = n[i] + alpha * ws.dn[i];
+                }
+                if active
+                    .iter()
+                    .all(|&j| self.members[j].iter().all(|&i| ws.trial[i] > 0.0))
+                {
+                    let m = self.gradient(
+                        &ws.trial,
+                        inert,
+                        ln_k,
+                        ln_p,
+                        &active,
+                        &mut ws.ln_n,
+                        &mut ws.trial_g,
+                    );
+                    if m <= (1.0 - 1e-4 * alpha) * merit || m == 0.0 {
+                        merit = m;
+                        accepted = true;
+                        break;
+                    }
+                }
+                alpha *= 0.5;
+            }
+            if !accepted {
+                break;
+            }
+            std::mem::swap(&mut n, &mut ws.trial);
+            std::mem::swap(&mut g, &mut ws.trial_g);
+            for (k, &j) in active.iter().enumerate() {
+                xi[j] += alpha * ws.step[k];
+            }
+            converged = max_abs(&g) <= RESIDUAL_TOLERANCE;
+        }
+        let mut residuals = vec![0.0; nr];
+        for (k, &j) in active.iter().enumerate() {
+            residuals[j] = g[k];
+        }
+        Ok(ExtentSolution {
+            amounts: n.iter().map(|v| v * scale).collect(),
+            extents: xi.iter().map(|v| v * scale).collect(),
+            residuals,
+            frozen,
+            iterations,
+            converged,
+        })
+    }
+
+    /// Sensitivity of the equilibrium extents to the ln K values: solves H x = rhs at the given
+    /// equilibrium amounts (dxi/dT = H^-1 d lnK/dT). Frozen reactions get zero.
+    pub fn sensitivity(&self, solution: &ExtentSolution, inert: f64, rhs: &[f64]) -> Vec<f64> {
+        let active: Vec<usize> = (0..self.n_reactions)
+            .filter(|&j| !solution.frozen[j])
+            .collect();
+        let mut h = vec![0.0; active.len() * active.len()];
+        self.hessian(&solution.amounts, inert, &active, &mut h);
+        let mut x: Vec<f64> = active.iter().map(|&j| rhs[j]).collect();
+        let mut out = vec![0.0; self.n_reactions];
+        let ok = linalg::solve_spd(&h, &mut x, active.len()) || {
+            self.hessian(&solution.amounts, inert, &active, &mut h);
+            x = active.iter().map(|&j| rhs[j]).collect();
+            linalg::solve_general(&mut h, &mut x, active.len())
+        };
+        if ok {
+            for (k, &j) in active.iter().enumerate() {
+                out[j] = x[k];
+            }
+        }
+        out
+    }
+
+    fn amounts_at(&self, n0: &[f64], xi: &[f64]) -> Vec<f64> {
+        (0..self.n_species)
+            .map(|i| {
+                n0[i]
+                    + (0..self.n_reactions)
+                        .map(|j| self.nu(j, i) * xi[j])
+                        .sum::<f64>()
+            })
+            .collect()
+    }
+
+    /// Move from the inlet to a point where every species of every reaction that can proceed is
+    /// present: a reaction whose products are partly absent is run forward by half of what its
+    /// scarcest reactant allows, one whose reactants are partly absent backward likewise;
+    /// repeated so that species formed by one reaction can feed the next.
+    fn make_interior(&self, n: &mut [f64], xi: &mut [f64]) {
+        for _pass in 0..=self.n_reactions {
+            let mut changed = false;
+            for j in 0..self.n_reactions {
+                let members = &self.members[j];
+                if members.iter().all(|&i| n[i] > 0.0) {
+                    continue;
+                }
+                let reactants_present = members.iter().all(|&i| self.nu(j, i) > 0.0 || n[i] > 0.0);
+                let products_present = members.iter().all(|&i| self.nu(j, i) < 0.0 || n[i] > 0.0);
+                let direction = if reactants_present {
+                    1.0
+                } else if products_present {
+                    -1.0
+                } else {
+                    continue;
+                };
+                let limit = members
+                    .iter()
+                    .filter(|&&i| self.nu(j, i) * direction < 0.0)
+                    .map(|&i| n[i] / self.nu(j, i).abs())
+                    .fold(f64::INFINITY, f64::min);
+                if !(limit.is_finite() && limit > 0.0) {
+                    continue;
+                }
+                let step = 0.5 * limit * direction;
+                for &i in members {
+                    n[i] += self.nu(j, i) * step;
+                    if n[i] < 0.0 {
+                        n[i] = 0.0;
+                    }
+                }
+                xi[j] += step;
+                changed = true;
+            }
+            if !changed {
+                break;
+            }
+        }
+    }
+
+    /// Gradient over the active reactions into `g`; returns |g|^2.
+    #[allow(clippy::too_many_arguments)]
+    fn gradient(
+        &self,
+        n: &[f64],
+        inert: f64,
+        ln_k: &[f64],
+        ln_p: f64,
+        active: &[usize],
+        ln_n: &mut [f64],
+        g: &mut [f64],
+    ) -> f64 {
+        let total: f64 = n.iter().sum::<f64>() + inert;
+        let ln_total = total.ln();
+        for i in 0..self.n_species {
+            ln_n[i] = if n[i] > 0.0 { n[i].ln() } else { 0.0 };
+        }
+        let mut merit = 0.0;
+        for (k, &j) in active.iter().enumerate() {
+            let mut s = 0.0;
+            for &i in &self.members[j] {
+                s += self.nu(j, i) * ln_n[i];
+            }
+            let r = s + self.dnu[j] * (ln_p - ln_total) - ln_k[j];
+            g[k] = r;
+            merit += r * r;
+        }
+        merit
+    }
+
+    fn hessian(&self, n: &[f64], inert: f64, active: &[usize], h: &mut [f64]) {
+        let total: f64 = n.iter().sum::<f64>() + inert;
+        let m = active.len();
+        for (a, &j) in active.iter().enumerate() {
+            for (b, &k) in active.iter().enumerate().skip(a) {
+                let mut s = 0.0;
+                for &i in &self.members[j] {
+                    let nk = self.nu(k, i);
+                    if nk != 0.0 {
+                        s += self.nu(j, i) * nk / n[i];
+                    }
+                }
+                s -= self.dnu[j] * self.dnu[k] / total;
+                h[a * m + b] = s;
+                h[b * m + a] = s;
+            }
+        }
+    }
+}
+
+struct Workspace {
+    ln_n: Vec<f64>,
+    dn: Vec<f64>,
+    trial: Vec<f64>,
+    trial_g: Vec<f64>,
+    step: Vec<f64>,
+    hessian: Vec<f64>,
+}
+
+impl Workspace {
+    fn new(ns: usize, na: usize) -> Workspace {
+        Workspace {
+            ln_n: vec![0.0; ns],
+            dn: vec![0.0; ns],
+            trial: vec![0.0; ns],
+            trial_g: vec![0.0; na],
+            step: vec![0.0; na],
+            hessian: vec![0.0; na * na],
+        }
+    }
+}
+
+fn max_abs(v: &[f64]) -> f64 {
+    v.iter().fold(0.0f64, |m, x| m.max(x.abs()))
+}
+
+#[cfg(test)]
+#[path = "extents_tests.rs"]
+mod tests;

@@ -1,0 +1,170 @@
+//! Tests of the extent solver against worked examples and invariants.
+
+use super::*;
+
+/// Species order used below: CH4, H2O, CO, H2, CO2.
+fn reforming_and_shift() -> ExtentSystem {
+    ExtentSystem::new(
+        5,
+        &[
+            vec![-1.0, -1.0, 1.0, 3.0, 0.0],
+            vec![0.0, -1.0, -1.0, 1.0, 1.0],
+        ],
+    )
+    .unwrap()
+}
+
+/// Species order: CO, H2O, CO2, H2.
+fn shift_only() -> ExtentSystem {
+    ExtentSystem::new(4, &[vec![-1.0, -1.0, 1.0, 1.0]]).unwrap()
+}
+
+fn fractions(n: &[f64], inert: f64) -> Vec<f64> {
+    let t: f64 = n.iter().sum::<f64>() + inert;
+    n.iter().map(|v| v / t).collect()
+}
+
+#[test]
+fn shift_with_unit_k_reacts_half_the_steam_at_any_pressure_or_inert() {
+    // Smith, Van Ness & Abbott, Introduction to Chemical Engineering Thermodynamics, 7th ed.,
+    // Example 13.5: K = 1, 1 mol CO + 1 mol H2O -> half the steam reacted, independent of P and
+    // of inerts (no mole change).
+    let s = shift_only();
+    for (ln_p, inert) in [(0.0, 0.0), (3.0, 0.0), (0.0, 5.0), (-2.0, 1.0)] {
+        let sol = s
+            .solve(&[1.0, 1.0, 0.0, 0.0], inert, &[0.0], ln_p, None)
+            .unwrap();
+        assert!(sol.converged);
+        assert!((sol.extents[0] - 0.5).abs() < 1e-12, "{:?}", sol.extents);
+    }
+    // Same example: 2 H2O : 1 CO -> 2/3 of the CO (1/3 of the steam); 1 H2O : 2 CO -> 2/3 of
+    // the steam.
+    let sol = s
+        .solve(&[1.0, 2.0, 0.0, 0.0], 0.0, &[0.0], 0.0, None)
+        .unwrap();
+    assert!((sol.extents[0] - 2.0 / 3.0).abs() < 1e-12);
+    let sol = s
+        .solve(&[2.0, 1.0, 0.0, 0.0], 0.0, &[0.0], 0.0, None)
+        .unwrap();
+    assert!((sol.extents[0] - 2.0 / 3.0).abs() < 1e-12);
+}
+
+#[test]
+fn simultaneous_reforming_and_shift_worked_example_from_book_data() {
+    // Smith, Van Ness & Abbott, 7th ed., Example 13.14: 2 mol CH4 + 3 mol H2O at 1000 K, 1 bar,
+    // with the book's dfG(1000 K) (J/mol): CH4 19 720, H2O -192 420, CO -200 240, CO2 -395 790
+    // (values from memory, see ../shared/design.md). Book result y(CH4, H2O, CO, H2, CO2) =
+    // 0.0196, 0.0980, 0.1743, 0.6710, 0.0371.
+    let r = 8.314; // J/(mol K), as the book uses
+    let dg_reforming = -200_240.0 - 19_720.0 + 192_420.0;
+    let dg_shift = -395_790.0 + 200_240.0 + 192_420.0;
+    let ln_k = [-dg_reforming / (r * 1000.0), -dg_shift / (r * 1000.0)];
+    let s = reforming_and_shift();
+    let sol = s
+        .solve(&[2.0, 3.0, 0.0, 0.0, 0.0], 0.0, &ln_k, 0.0, None)
+        .unwrap();
+    assert!(sol.converged && sol.max_residual() < 1e-9);
+    let y = fractions(&sol.amounts, 0.0);
+    let book = [0.0196, 0.0980, 0.1743, 0.6710, 0.0371];
+    for (got, want) in y.iter().zip(book) {
+        assert!((got - want).abs() < 5e-4, "y = {y:?}, book {book:?}");
+    }
+}
+
+#[test]
+fn limiting_reactant_driven_to_1e_minus_15_keeps_precision() {
+    // Shift with a very large K: CO is driven to ~1e-15 of the total. Reference: the closed form
+    // of K = (1 - e)^2 / (e (9 + e)) for 1 CO + 10 H2O with e the CO left, solved by fixed point
+    // in double precision (common practice).
+    let k: f64 = 1.0e13;
+    let mut e: f64 = 1.0 / (9.0 * k);
+    for _ in 0..20 {
+        e = (1.0 - e).powi(2) / (k * (9.0 + e));
+    }
+    let s = shift_only();
+    let sol = s
+        .solve(&[1.0, 10.0, 0.0, 0.0], 0.0, &[k.ln()], 0.0, None)
+        .unwrap();
+    assert!(sol.converged);
+    assert!(sol.max_residual() < 1e-9);
+    let co = sol.amounts[0];
+    assert!(((co - e) / e).abs() < 1e-9, "CO {co:e} vs {e:e}");
+    assert!(co / 11.0 < 2e-15);
+    // Element balance (C, H, O) to 1e-12 relative.
+    let c = sol.amounts[0] + sol.amounts[2];
+    let o = sol.amounts[0] + sol.amounts[1] + 2.0 * sol.amounts[2];
+    let h = 2.0 * sol.amounts[1] + 2.0 * sol.amounts[3];
+    assert!((c - 1.0).abs() < 1e-12 && (o - 11.0).abs() < 11e-12 && (h - 20.0).abs() < 20e-12);
+}
+
+#[test]
+fn reverse_running_and_frozen_reactions() {
+    let s = shift_only();
+    // CO2 + H2 only: the shift runs backward (K = 1: symmetric, half converted).
+    let sol = s
+        .solve(&[0.0, 0.0, 1.0, 1.0], 0.0, &[0.0], 0.0, None)
+        .unwrap();
+    assert!(sol.converged);
+    assert!((sol.extents[0] + 0.5).abs() < 1e-12);
+    // CO + H2 only: nothing can react (no steam, no CO2); frozen, zero extent.
+    let sol = s
+        .solve(&[1.0, 0.0, 0.0, 1.0], 0.0, &[0.0], 0.0, None)
+        .unwrap();
+    assert!(sol.frozen[0] && sol.extents[0] == 0.0 && sol.converged);
+}
+
+#[test]
+fn scale_invariance_over_twelve_decades() {
+    // Scaling every inlet amount scales every outlet amount (common practice: equilibrium is
+    // intensive). Compared at 1e-6 ... 1e6.
+    let s = reforming_and_shift();
+    let ln_k = [2.0, 0.5];
+    let base = s
+        .solve(&[1.0, 3.0, 0.0, 0.1, 0.05], 0.2, &ln_k, 3.0, None)
+        .unwrap();
+    for scale in [1e-6, 1e-3, 1.0, 1e3, 1e6] {
+        let inlet: Vec<f64> = [1.0, 3.0, 0.0, 0.1, 0.05]
+            .iter()
+            .map(|v| v * scale)
+            .collect();
+        let sol = s.solve(&inlet, 0.2 * scale, &ln_k, 3.0, None).unwrap();
+        for (a, b) in sol.amounts.iter().zip(&base.amounts) {
+            assert!(
+                (a / scale - b).abs() <= 1e-12 * b.abs().max(1e-300),
+                "{a} {b}"
+            );
+        }
+    }
+}
+
+#[test]
+fn warm_start_converges_in_few_steps_and_bad_input_is_refused() {
+    let s = reforming_and_shift();
+    let ln_k = [1.0, 0.3];
+    let cold = s
+        .solve(&[1.0, 3.0, 0.0, 0.0, 0.0], 0.0, &ln_k, 2.0, None)
+        .unwrap();
+    let warm = s
+        .solve(
+            &[1.0, 3.0, 0.0, 0.0, 0.0],
+            0.0,
+            &[1.01, 0.3],
+            2.0,
+            Some(&cold.extents),
+        )
+        .unwrap();
+    assert!(
+        warm.converged && warm.iterations <= 4,
+        "{}",
+        warm.iterations
+    );
+    assert!(s
+        .solve(&[-1.0, 3.0, 0.0, 0.0, 0.0], 0.0, &ln_k, 0.0, None)
+        .is_err());
+    assert!(s.solve(&[0.0; 5], 0.0, &ln_k, 0.0, None).is_err());
+    assert!(s
+        .solve(&[1.0, 3.0, 0.0, 0.0, 0.0], 0.0, &[f64::NAN, 0.0], 0.0, None)
+        .is_err());
+    // Dependent reactions are refused when the system is built.
+    assert!(ExtentSystem::new(2, &[vec![1.0, -1.0], vec![-2.0, 2.0]]).is_err());
+}

@@ -1,0 +1,12 @@
+//! The equilibrium stage: extents of independent reactions at their approach temperatures, with
+//! the energy balance closed at a fixed outlet temperature, adiabatically, or at a fixed duty.
+//!
+//! [`extents`] is the numerical core (convex extent formulation, Newton with a positivity-keeping
+//! line search); [`stage`] adds the species data, approach temperatures and energy modes.
+
+pub mod extents;
+mod linalg;
+pub mod stage;
+
+pub use extents::{ExtentSolution, ExtentSystem};
+pub use stage::{Direction, EnergyMode, EquilibriumStage, StageInlet, StageReaction, StageResult};

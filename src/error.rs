@@ -1,0 +1,204 @@
+//! The library's one error type.
+//!
+//! Every variant carries the context an engineer needs to fix the input: which unit, stream,
+//! species or field, the value that was given, and a hint. The binary prints the whole chain once
+//! and exits non-zero; the library never prints and never exits.
+
+use std::path::PathBuf;
+
+/// Result alias used throughout the library.
+pub type Result<T, E = Error> = std::result::Result<T, E>;
+
+/// Everything that can go wrong in syntrain, with context.
+#[derive(Debug, thiserror::Error)]
+pub enum Error {
+    /// A quantity string could not be read ("850 degC", "25 barg", ...).
+    #[error("{field}: cannot read '{value}': {reason}")]
+    Quantity {
+        /// The field (YAML key or option) that held the quantity.
+        field: String,
+        /// The text as given.
+        value: String,
+        /// Why it failed and how to fix it.
+        reason: String,
+    },
+
+    /// A value is outside what is physically possible or allowed.
+    #[error("{field}: value {value} is not allowed: {reason}")]
+    InvalidValue {
+        /// The field (YAML key, option or argument).
+        field: String,
+        /// The value as given, formatted.
+        value: String,
+        /// Why it is not allowed and how to fix it.
+        reason: String,
+    },
+
+    /// A species name is not in the database.
+    #[error("unknown species '{name}'{context}; known species: {known}")]
+    UnknownSpecies {
+        /// The name as given.
+        name: String,
+        /// Where it was met (e.g. " in feed 'natural-gas'"), possibly empty.
+        context: String,
+        /// The names the database knows, comma separated.
+        known: String,
+    },
+
+    /// A reaction name is not known.
+    #[error("unknown reaction '{name}'{context}; known reactions: {known}")]
+    UnknownReaction {
+        /// The name as given.
+        name: String,
+        /// Where it was met, possibly empty.
+        context: String,
+        /// The names that are known, comma separated.
+        known: String,
+    },
+
+    /// A species property was asked for outside the temperature range of its data.
+    #[error(
+        "species {species}: temperature {temperature_k:.2} K is outside its data range \
+         {min_k:.2}-{max_k:.2} K (no extrapolation is done)"
+    )]
+    OutOfRange {
+        /// Species name.
+        species: String,
+        /// The temperature asked for, K.
+        temperature_k: f64,
+        /// Lowest temperature of the record, K.
+        min_k: f64,
+        /// Highest temperature of the record, K.
+        max_k: f64,
+    },
+
+    /// A species record is inconsistent or incomplete.
+    #[error("species record '{species}': {reason}")]
+    SpeciesRecord {
+        /// Species name.
+        species: String,
+        /// What is wrong with it.
+        reason: String,
+    },
+
+    /// A reaction does not balance its elements.
+    #[error("reaction '{reaction}' does not balance element {element}: net {imbalance} atoms")]
+    ElementBalance {
+        /// Reaction name or equation.
+        reaction: String,
+        /// Element symbol.
+        element: String,
+        /// Net atoms (products minus reactants).
+        imbalance: f64,
+    },
+
+    /// A reaction is defined in a way that cannot be used.
+    #[error("reaction '{reaction}': {reason}")]
+    Reaction {
+        /// Reaction name or equation.
+        reaction: String,
+        /// What is wrong and how to fix it.
+        reason: String,
+    },
+
+    /// A numerical solve did not converge; never silently returned as an answer.
+    #[error(
+        "{what} did not converge after {iterations} iterations (largest residual {residual:.3e}){hint}"
+    )]
+    NotConverged {
+        /// What failed (e.g. "equilibrium stage of unit 'reformer'").
+        what: String,
+        /// Iterations spent.
+        iterations: usize,
+        /// The largest residual left.
+        residual: f64,
+        /// A hint for the user, starting with "; " or empty.
+        hint: String,
+    },
+
+    /// A unit specification is missing, contradictory or impossible.
+    #[error("unit '{unit}', {field}: {reason}")]
+    UnitSpec {
+        /// Unit name.
+        unit: String,
+        /// The spec key.
+        field: String,
+        /// What is wrong and how to fix it.
+        reason: String,
+    },
+
+    /// The flowsheet graph is not valid (missing stream, double producer, cycle, ...).
+    #[error("flowsheet: {reason}")]
+    Flowsheet {
+        /// What is wrong and how to fix it.
+        reason: String,
+    },
+
+    /// A YAML file could not be read into the model.
+    #[error("{path}{location}: {message}")]
+    Yaml {
+        /// File path (or "<embedded species data>").
+        path: String,
+        /// ":line:column" where known, else empty.
+        location: String,
+        /// The parser's message.
+        message: String,
+    },
+
+    /// A file could not be read or written.
+    #[error("{action} '{path}': {source}")]
+    Io {
+        /// "reading" or "writing".
+        action: &'static str,
+        /// The file.
+        path: PathBuf,
+        /// The operating-system error.
+        #[source]
+        source: std::io::Error,
+    },
+
+    /// An error with added context (the unit or study it happened in).
+    #[error("{context}")]
+    Context {
+        /// What was being done.
+        context: String,
+        /// The underlying error.
+        #[source]
+        source: Box<Error>,
+    },
+}
+
+impl Error {
+    /// Wrap this error with a line of context ("solving unit 'reformer'").
+    pub fn context(self, context: impl Into<String>) -> Error {
+        Error::Context {
+            context: context.into(),
+            source: Box::new(self),
+        }
+    }
+
+    /// Build a YAML error from a serde_norway error, with file, line and column.
+    pub fn yaml(path: impl Into<String>, err: &serde_norway::Error) -> Error {
+        let location = err
+            .location()
+            .map(|l| format!(":{}:{}", l.line(), l.column()))
+            .unwrap_or_default();
+        Error::Yaml {
+            path: path.into(),
+            location,
+            message: err.to_string(),
+        }
+    }
+}
+
+/// Extension to add context to any library result.
+pub trait ResultExt<T> {
+    /// Wrap the error, if any, with a line of context.
+    fn context(self, context: impl FnOnce() -> String) -> Result<T>;
+}
+
+impl<T> ResultExt<T> for Result<T> {
+    fn context(self, context: impl FnOnce() -> String) -> Result<T> {
+        self.map_err(|e| e.context(context()))
+    }
+}

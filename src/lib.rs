@@ -1,0 +1,21 @@
+//! # syntrain
+//!
+//! Equilibrium and energy balances of the reactor train of a steam-reforming hydrogen or syngas
+//! plant: pre-reformer, reformer, high-, medium- and low-temperature shift, methanator, and the
+//! coolers, knockouts and purification around them.
+//!
+//! Layers, each knowing only those below it: [`quantity`] (units at the edges) ->
+//! [`thermo`] (species data, NASA polynomials, mixtures, water saturation) -> [`reaction`]
+//! (stoichiometry, ln K, dH) -> [`equilibrium`] (the equilibrium stage with approach
+//! temperatures and energy modes).
+//!
+//! Results are screening-level engineering estimates. Hot hydrogen and carbon monoxide at
+//! pressure are flammable and toxic: follow local codes and licensed engineering practice.
+
+pub mod equilibrium;
+pub mod error;
+pub mod quantity;
+pub mod reaction;
+pub mod thermo;
+
+pub use error::{Error, Result};
