@@ -16,6 +16,7 @@ pub mod equilibrium;
 pub mod error;
 pub mod quantity;
 pub mod reaction;
+pub mod report;
 pub mod thermo;
 
 pub use error::{Error, Result};

@@ -1,1 +1,88 @@
-fn main() {}
+//! The `syntrain` command line: parse, call the library, print. Exit code 0 on success, 1 on
+//! any error (the whole error chain is printed once to stderr), 2 for a usage error (clap).
+
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+use clap::{Parser, Subcommand, ValueEnum};
+
+use syntrain::report::species as species_report;
+use syntrain::thermo::SpeciesDb;
+
+/// Equilibrium and energy balances of steam-reforming hydrogen and syngas trains.
+///
+/// Screening results only: hot hydrogen and carbon monoxide at pressure are flammable and toxic.
+/// Follow local codes and licensed engineering practice.
+#[derive(Parser)]
+#[command(name = "syntrain", version, about, long_about = None)]
+struct Cli {
+    /// Extra species records to add to the shipped database (same format as data/species.yaml).
+    #[arg(long, global = true, value_name = "FILE")]
+    species_file: Option<PathBuf>,
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Clone, Copy, ValueEnum)]
+enum SpeciesFormat {
+    Table,
+    Json,
+}
+
+#[derive(Subcommand)]
+enum Command {
+    /// List the species database, or show one record with its properties.
+    Species {
+        /// A species name (e.g. CH4, n-C4H10, "C(gr)"); omit to list all.
+        name: Option<String>,
+        /// Temperatures at which to show Cp, H, S, G (e.g. "850 degC", "1100 K"); repeatable.
+        #[arg(long = "temperature", short = 't', value_name = "T")]
+        temperatures: Vec<String>,
+        /// Output format.
+        #[arg(long, value_enum, default_value = "table")]
+        format: SpeciesFormat,
+    },
+}
+
+fn main() -> ExitCode {
+    let cli = Cli::parse();
+    match run(cli) {
+        Ok(text) => {
+            print!("{text}");
+            ExitCode::SUCCESS
+        }
+        Err(err) => {
+            eprintln!("{}", syntrain::report::error_chain(&err));
+            ExitCode::FAILURE
+        }
+    }
+}
+
+fn database(file: Option<&PathBuf>) -> syntrain::Result<SpeciesDb> {
+    match file {
+        Some(path) => SpeciesDb::embedded_with_file(path),
+        None => SpeciesDb::embedded(),
+    }
+}
+
+fn run(cli: Cli) -> syntrain::Result<String> {
+    let db = database(cli.species_file.as_ref())?;
+    match cli.command {
+        Command::Species {
+            name,
+            temperatures,
+            format,
+        } => {
+            let temperatures_k = temperatures
+                .iter()
+                .map(|t| syntrain::quantity::parse_temperature("--temperature", t))
+                .collect::<syntrain::Result<Vec<f64>>>()?;
+            match format {
+                SpeciesFormat::Table => {
+                    species_report::table(&db, name.as_deref(), &temperatures_k)
+                }
+                SpeciesFormat::Json => species_report::json(&db, name.as_deref(), &temperatures_k),
+            }
+        }
+    }
+}

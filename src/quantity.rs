@@ -54,9 +54,9 @@ pub enum Flow {
     Mass(f64),
 }
 
-/// One accepted unit: its spelling and the conversion of a number in it to SI.
+/// One accepted unit: its spellings and the conversion of a number in it to SI.
 struct UnitDef<T: 'static> {
-    name: &'static str,
+    names: &'static [&'static str],
     to_si: fn(f64) -> T,
 }
 
@@ -72,14 +72,17 @@ struct Kind<T: 'static> {
 }
 
 /// Shorthand for a table entry.
-const fn unit<T>(name: &'static str, to_si: fn(f64) -> T) -> UnitDef<T> {
-    UnitDef { name, to_si }
+const fn unit<T>(names: &'static [&'static str], to_si: fn(f64) -> T) -> UnitDef<T> {
+    UnitDef { names, to_si }
 }
 
 impl<T> Kind<T> {
+    fn names(&self) -> impl Iterator<Item = &'static str> + '_ {
+        self.units.iter().flat_map(|u| u.names.iter().copied())
+    }
+
     fn accepted(&self) -> String {
-        let names: Vec<&str> = self.units.iter().map(|u| u.name).collect();
-        names.join(", ")
+        self.names().collect::<Vec<_>>().join(", ")
     }
 }
 
@@ -87,13 +90,11 @@ const TEMPERATURE: Kind<f64> = Kind {
     what: "temperature",
     example: "850 degC",
     units: &[
-        unit("K", |x| x),
-        unit("degC", |x| x + CELSIUS_OFFSET_K),
-        unit("C", |x| x + CELSIUS_OFFSET_K),
-        unit("°C", |x| x + CELSIUS_OFFSET_K),
-        unit("degF", fahrenheit_to_kelvin),
-        unit("F", fahrenheit_to_kelvin),
-        unit("°F", fahrenheit_to_kelvin),
+        unit(&["K"], |x| x),
+        unit(&["degC", "C", "°C"], |x| x + CELSIUS_OFFSET_K),
+        unit(&["degF", "F", "°F"], |x| {
+            (x - 32.0) * 5.0 / 9.0 + CELSIUS_OFFSET_K
+        }),
     ],
     hints: &[("°K", "kelvin takes no degree sign; write K")],
 };
@@ -102,15 +103,8 @@ const TEMPERATURE_DIFFERENCE: Kind<f64> = Kind {
     what: "temperature difference",
     example: "30 K",
     units: &[
-        unit("K", |x| x),
-        unit("degC", |x| x),
-        unit("C", |x| x),
-        unit("°C", |x| x),
-        unit("delta_degC", |x| x),
-        unit("degF", |x| x * 5.0 / 9.0),
-        unit("F", |x| x * 5.0 / 9.0),
-        unit("°F", |x| x * 5.0 / 9.0),
-        unit("delta_degF", |x| x * 5.0 / 9.0),
+        unit(&["K", "degC", "C", "°C", "delta_degC"], |x| x),
+        unit(&["degF", "F", "°F", "delta_degF"], |x| x * 5.0 / 9.0),
     ],
     hints: &[("°K", "kelvin takes no degree sign; write K")],
 };
@@ -119,18 +113,17 @@ const PRESSURE: Kind<f64> = Kind {
     what: "pressure",
     example: "25 barg",
     units: &[
-        unit("bar", |x| x * 1.0e5),
-        unit("bara", |x| x * 1.0e5),
-        unit("barg", |x| x * 1.0e5 + ATMOSPHERE_PA),
-        unit("mbar", |x| x * 1.0e2),
-        unit("Pa", |x| x),
-        unit("kPa", |x| x * 1.0e3),
-        unit("kPag", |x| x * 1.0e3 + ATMOSPHERE_PA),
-        unit("MPa", |x| x * 1.0e6),
-        unit("MPag", |x| x * 1.0e6 + ATMOSPHERE_PA),
-        unit("atm", |x| x * ATMOSPHERE_PA),
-        unit("psia", |x| x * PSI_PA),
-        unit("psig", |x| x * PSI_PA + ATMOSPHERE_PA),
+        unit(&["bar", "bara"], |x| x * 1.0e5),
+        unit(&["barg"], |x| x * 1.0e5 + ATMOSPHERE_PA),
+        unit(&["mbar"], |x| x * 1.0e2),
+        unit(&["Pa"], |x| x),
+        unit(&["kPa"], |x| x * 1.0e3),
+        unit(&["kPag"], |x| x * 1.0e3 + ATMOSPHERE_PA),
+        unit(&["MPa"], |x| x * 1.0e6),
+        unit(&["MPag"], |x| x * 1.0e6 + ATMOSPHERE_PA),
+        unit(&["atm"], |x| x * ATMOSPHERE_PA),
+        unit(&["psia"], |x| x * PSI_PA),
+        unit(&["psig"], |x| x * PSI_PA + ATMOSPHERE_PA),
     ],
     hints: &[(
         "psi",
@@ -145,12 +138,12 @@ const PRESSURE_DIFFERENCE: Kind<f64> = Kind {
     what: "pressure difference",
     example: "0.5 bar",
     units: &[
-        unit("bar", |x| x * 1.0e5),
-        unit("mbar", |x| x * 1.0e2),
-        unit("Pa", |x| x),
-        unit("kPa", |x| x * 1.0e3),
-        unit("MPa", |x| x * 1.0e6),
-        unit("psi", |x| x * PSI_PA),
+        unit(&["bar"], |x| x * 1.0e5),
+        unit(&["mbar"], |x| x * 1.0e2),
+        unit(&["Pa"], |x| x),
+        unit(&["kPa"], |x| x * 1.0e3),
+        unit(&["MPa"], |x| x * 1.0e6),
+        unit(&["psi"], |x| x * PSI_PA),
     ],
     hints: &[
         ("bara", PRESSURE_DIFFERENCE_HINT),
@@ -166,12 +159,12 @@ const DUTY: Kind<f64> = Kind {
     what: "duty",
     example: "12.5 MW",
     units: &[
-        unit("W", |x| x),
-        unit("kW", |x| x * 1.0e3),
-        unit("MW", |x| x * 1.0e6),
-        unit("MJ/h", |x| x * 1.0e6 / SECONDS_PER_HOUR),
-        unit("GJ/h", |x| x * 1.0e9 / SECONDS_PER_HOUR),
-        unit("Gcal/h", |x| x * CALORIE_IT_J * 1.0e9 / SECONDS_PER_HOUR),
+        unit(&["W"], |x| x),
+        unit(&["kW"], |x| x * 1.0e3),
+        unit(&["MW"], |x| x * 1.0e6),
+        unit(&["MJ/h"], |x| x * 1.0e6 / SECONDS_PER_HOUR),
+        unit(&["GJ/h"], |x| x * 1.0e9 / SECONDS_PER_HOUR),
+        unit(&["Gcal/h"], |x| x * CALORIE_IT_J * 1.0e9 / SECONDS_PER_HOUR),
     ],
     hints: &[],
 };
@@ -180,15 +173,16 @@ const FLOW: Kind<Flow> = Kind {
     what: "flow",
     example: "1200 kmol/h",
     units: &[
-        unit("kmol/h", |x| Flow::Molar(x * 1.0e3 / SECONDS_PER_HOUR)),
-        unit("mol/s", Flow::Molar),
-        unit("kmol/s", |x| Flow::Molar(x * 1.0e3)),
-        unit("mol/h", |x| Flow::Molar(x / SECONDS_PER_HOUR)),
-        unit("Nm3/h", nm3_h_to_flow),
-        unit("Nm³/h", nm3_h_to_flow),
-        unit("kg/h", |x| Flow::Mass(x / SECONDS_PER_HOUR)),
-        unit("kg/s", Flow::Mass),
-        unit("t/h", |x| Flow::Mass(x * 1.0e3 / SECONDS_PER_HOUR)),
+        unit(&["kmol/h"], |x| Flow::Molar(x * 1.0e3 / SECONDS_PER_HOUR)),
+        unit(&["mol/s"], Flow::Molar),
+        unit(&["kmol/s"], |x| Flow::Molar(x * 1.0e3)),
+        unit(&["mol/h"], |x| Flow::Molar(x / SECONDS_PER_HOUR)),
+        unit(&["Nm3/h", "Nm³/h"], |x| {
+            Flow::Molar(x / SECONDS_PER_HOUR / normal_molar_volume_m3_per_mol())
+        }),
+        unit(&["kg/h"], |x| Flow::Mass(x / SECONDS_PER_HOUR)),
+        unit(&["kg/s"], Flow::Mass),
+        unit(&["t/h"], |x| Flow::Mass(x * 1.0e3 / SECONDS_PER_HOUR)),
     ],
     hints: &[
         (
@@ -207,17 +201,9 @@ const FLOW: Kind<Flow> = Kind {
 const FRACTION: Kind<f64> = Kind {
     what: "fraction",
     example: "0.85",
-    units: &[unit("%", |x| x / 100.0), unit("ppm", |x| x * 1.0e-6)],
+    units: &[unit(&["%"], |x| x / 100.0), unit(&["ppm"], |x| x * 1.0e-6)],
     hints: &[],
 };
-
-fn fahrenheit_to_kelvin(x: f64) -> f64 {
-    (x - 32.0) * 5.0 / 9.0 + CELSIUS_OFFSET_K
-}
-
-fn nm3_h_to_flow(x: f64) -> Flow {
-    Flow::Molar(x / SECONDS_PER_HOUR / normal_molar_volume_m3_per_mol())
-}
 
 fn fail<T>(field: &str, text: &str, reason: String) -> Result<T> {
     Err(Error::Quantity {
@@ -276,15 +262,16 @@ fn short(x: f64) -> String {
     }
 }
 
-/// Split "850 degC" into the number 850 and the unit "degC" (unit empty if none was written).
+/// Split "850 degC" into the number 850 and the unit "degC" (unit empty if none was written);
+/// the error is the reason for an `Error::Quantity`.
 ///
 /// Whitespace between number and unit is optional; whitespace inside the unit is dropped
 /// ("kmol / h" reads as "kmol/h"). No unit of syntrain starts with a digit, sign, '.' or 'e'.
-fn split_number(field: &str, text: &str, example: &str) -> Result<(f64, String)> {
+fn split_number(text: &str, example: &str) -> std::result::Result<(f64, String), String> {
     let trimmed = text.trim();
     let write = format!("write a number and a unit, e.g. '{example}'");
     if trimmed.is_empty() {
-        return fail(field, text, format!("the value is empty; {write}"));
+        return Err(format!("the value is empty; {write}"));
     }
     let is_number_char = |c: char| c.is_ascii_digit() || matches!(c, '+' | '-' | '.' | 'e' | 'E');
     let end = trimmed
@@ -294,13 +281,9 @@ fn split_number(field: &str, text: &str, example: &str) -> Result<(f64, String)>
     if !number.contains(|c: char| c.is_ascii_digit()) {
         let word = trimmed.trim_start_matches(['+', '-']).to_ascii_lowercase();
         if word.starts_with("nan") || word.starts_with("inf") {
-            return fail(field, text, format!("not a finite number; {write}"));
+            return Err(format!("not a finite number; {write}"));
         }
-        return fail(
-            field,
-            text,
-            format!("does not start with a number; {write}"),
-        );
+        return Err(format!("does not start with a number; {write}"));
     }
     let unit: String = rest.split_whitespace().collect();
     let malformed = format!(
@@ -308,64 +291,49 @@ fn split_number(field: &str, text: &str, example: &str) -> Result<(f64, String)>
          separators, then the unit, e.g. '{example}'"
     );
     if unit.starts_with(|c: char| c.is_ascii_digit() || matches!(c, ',' | '_')) {
-        return fail(field, text, malformed);
+        return Err(malformed);
     }
-    let Ok(value) = number.parse::<f64>() else {
-        return fail(field, text, malformed);
-    };
+    let value: f64 = number.parse().map_err(|_| malformed)?;
     if !value.is_finite() {
-        return fail(
-            field,
-            text,
-            format!("'{number}' is too large to be a finite number"),
-        );
+        return Err(format!("'{number}' is too large to be a finite number"));
     }
     Ok((value, unit))
 }
 
-/// Convert `value` in `unit` to SI with the table of `kind`, or explain why the unit is refused.
-fn convert<T: Copy>(field: &str, text: &str, value: f64, unit: &str, kind: &Kind<T>) -> Result<T> {
-    if let Some(def) = kind.units.iter().find(|u| u.name == unit) {
+/// Convert `value` in `unit` to SI with the table of `kind`; the error is the reason for an
+/// `Error::Quantity`, saying why the unit is refused and which ones are accepted.
+fn convert<T: Copy>(value: f64, unit: &str, kind: &Kind<T>) -> std::result::Result<T, String> {
+    if let Some(def) = kind.units.iter().find(|u| u.names.contains(&unit)) {
         return Ok((def.to_si)(value));
     }
-    let (what, accepted) = (kind.what, kind.accepted());
+    let (what, accepted, example) = (kind.what, kind.accepted(), kind.example);
     if unit.is_empty() {
-        let example = kind.example;
-        let reason = format!(
+        return Err(format!(
             "no unit given; a {what} needs a unit: use one of {accepted} (e.g. '{example}')"
-        );
-        return fail(field, text, reason);
+        ));
     }
     if let Some((_, hint)) = kind.hints.iter().find(|(name, _)| *name == unit) {
-        return fail(field, text, format!("{hint}; use one of {accepted}"));
+        return Err(format!("{hint}; use one of {accepted}"));
     }
     let unknown = format!("unknown {what} unit '{unit}'");
-    match kind
-        .units
-        .iter()
-        .find(|u| u.name.eq_ignore_ascii_case(unit))
-    {
-        Some(def) => {
-            let name = def.name;
-            let reason = format!(
-                "{unknown} (units are case-sensitive: did you mean '{name}'?); \
-                 use one of {accepted}"
-            );
-            fail(field, text, reason)
-        }
-        None => fail(field, text, format!("{unknown}; use one of {accepted}")),
+    match kind.names().find(|name| name.eq_ignore_ascii_case(unit)) {
+        Some(name) => Err(format!(
+            "{unknown} (units are case-sensitive: did you mean '{name}'?); use one of {accepted}"
+        )),
+        None => Err(format!("{unknown}; use one of {accepted}")),
     }
 }
 
 /// Read a quantity of `kind` and check that its SI value is finite.
 fn parse_kind<T: SiValue>(field: &str, text: &str, kind: &Kind<T>) -> Result<T> {
-    let (value, unit) = split_number(field, text, kind.example)?;
-    let quantity = convert(field, text, value, &unit, kind)?;
+    let quantity = split_number(text, kind.example)
+        .and_then(|(value, unit)| convert(value, &unit, kind))
+        .or_else(|reason| fail(field, text, reason))?;
     if !quantity.si().is_finite() {
         return invalid(
             field,
             text,
-            "too large: it is not a finite number in SI units".into(),
+            "too large: not a finite number in SI units".into(),
         );
     }
     Ok(quantity)
@@ -451,11 +419,10 @@ pub fn parse_flow(field: &str, text: &str) -> Result<Flow> {
 ///
 /// Accepts a plain number ("0.85"), a percentage ("85 %", "85%") or parts per million ("50 ppm").
 pub fn parse_fraction(field: &str, text: &str) -> Result<f64> {
-    let (value, unit) = split_number(field, text, FRACTION.example)?;
-    let fraction = if unit.is_empty() {
-        value
-    } else {
-        convert(field, text, value, &unit, &FRACTION)?
+    let (value, unit) = split_number(text, FRACTION.example).or_else(|r| fail(field, text, r))?;
+    let fraction = match unit.as_str() {
+        "" => value,
+        _ => convert(value, &unit, &FRACTION).or_else(|r| fail(field, text, r))?,
     };
     if !(0.0..=1.0).contains(&fraction) {
         let hint = if unit.is_empty() && value > 1.0 && value <= 100.0 {
