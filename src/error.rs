@@ -137,7 +137,7 @@ pub enum Error {
     /// A YAML file could not be read into the model.
     #[error("{path}{location}: {message}")]
     Yaml {
-        /// File path (or "<embedded species data>").
+        /// File path (or `<embedded data/species.yaml>`).
         path: String,
         /// ":line:column" where known, else empty.
         location: String,
@@ -146,7 +146,7 @@ pub enum Error {
     },
 
     /// A file could not be read or written.
-    #[error("{action} '{path}': {source}")]
+    #[error("{action} '{path}'")]
     Io {
         /// "reading" or "writing".
         action: &'static str,

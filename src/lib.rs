@@ -12,11 +12,17 @@
 //! Results are screening-level engineering estimates. Hot hydrogen and carbon monoxide at
 //! pressure are flammable and toxic: follow local codes and licensed engineering practice.
 
+// Comparisons are written `!(x > 0.0)` on purpose so that NaN is refused with the bad values,
+// and the numerical kernels index several parallel arrays by the same loop variable.
+#![allow(clippy::neg_cmp_op_on_partial_ord, clippy::needless_range_loop)]
+
 pub mod equilibrium;
 pub mod error;
+pub mod flowsheet;
 pub mod quantity;
 pub mod reaction;
 pub mod report;
 pub mod thermo;
+pub mod units;
 
 pub use error::{Error, Result};

@@ -6,6 +6,8 @@ use std::process::ExitCode;
 
 use clap::{Parser, Subcommand, ValueEnum};
 
+use syntrain::flowsheet::Flowsheet;
+use syntrain::report;
 use syntrain::report::species as species_report;
 use syntrain::thermo::SpeciesDb;
 
@@ -29,8 +31,44 @@ enum SpeciesFormat {
     Json,
 }
 
+/// Output formats of `solve`.
+#[derive(Clone, Copy, ValueEnum)]
+enum SolveFormat {
+    /// Plain-text tables for a terminal.
+    Table,
+    /// One JSON object with stable keys.
+    Json,
+    /// The stream table as CSV (one line per stream).
+    Csv,
+    /// The tables in GitHub-flavoured Markdown.
+    Markdown,
+}
+
+impl From<SolveFormat> for report::Format {
+    fn from(format: SolveFormat) -> report::Format {
+        match format {
+            SolveFormat::Table => report::Format::Table,
+            SolveFormat::Json => report::Format::Json,
+            SolveFormat::Csv => report::Format::Csv,
+            SolveFormat::Markdown => report::Format::Markdown,
+        }
+    }
+}
+
 #[derive(Subcommand)]
 enum Command {
+    /// Solve a flowsheet file: stream table, units, summary, warnings and cautions.
+    Solve {
+        /// The flowsheet file (YAML), e.g. flowsheets/demo-train.yaml.
+        file: PathBuf,
+        /// Output format.
+        #[arg(long, value_enum, default_value = "table")]
+        format: SolveFormat,
+        /// Write the report to this file instead of standard output (nothing is written on an
+        /// error).
+        #[arg(long, short = 'o', value_name = "PATH")]
+        output: Option<PathBuf>,
+    },
     /// List the species database, or show one record with its properties.
     Species {
         /// A species name (e.g. CH4, n-C4H10, "C(gr)"); omit to list all.
@@ -68,6 +106,24 @@ fn database(file: Option<&PathBuf>) -> syntrain::Result<SpeciesDb> {
 fn run(cli: Cli) -> syntrain::Result<String> {
     let db = database(cli.species_file.as_ref())?;
     match cli.command {
+        Command::Solve {
+            file,
+            format,
+            output,
+        } => {
+            let flowsheet = Flowsheet::from_file(&file, &db)?;
+            let result = flowsheet.solve(&db)?;
+            // Render completely before writing, so an error leaves no partial file.
+            let text = report::render_solution(&db, &result, format.into())?;
+            match output {
+                Some(path) => {
+                    report::write_atomically(&path, &text)?;
+                    eprintln!("wrote {}", path.display());
+                    Ok(String::new())
+                }
+                None => Ok(text),
+            }
+        }
         Command::Species {
             name,
             temperatures,

@@ -9,8 +9,11 @@ use syntrain::quantity::R_GAS;
 use syntrain::reaction::Reaction;
 use syntrain::thermo::SpeciesDb;
 
-/// (database name, file, element reference species with their atom counts)
-const SPECIES: &[(&str, &str, &[(&str, f64)])] = &[
+/// Element reference species with their atom counts.
+type Elements = &'static [(&'static str, f64)];
+
+/// (database name, file, element references)
+const SPECIES: &[(&str, &str, Elements)] = &[
     ("CH4", "CH4.csv", &[("C(gr)", 1.0), ("H2", 2.0)]),
     ("H2O", "H2O.csv", &[("H2", 1.0), ("O2", 0.5)]),
     ("CO", "CO.csv", &[("C(gr)", 1.0), ("O2", 0.5)]),
@@ -36,7 +39,10 @@ fn every_record_reproduces_janaf_from_300_to_1500_k() {
             if t == 298.15 {
                 // NIST-JANAF dfH(298.15 K), within 0.3 kJ/mol.
                 let dfh = table.number(row, "dfH_kJ_mol");
-                assert!((h298 / 1e3 - dfh).abs() < 0.3, "{name} dfH298 {h298} vs {dfh}");
+                assert!(
+                    (h298 / 1e3 - dfh).abs() < 0.3,
+                    "{name} dfH298 {h298} vs {dfh}"
+                );
                 continue;
             }
             if !(300.0..=1500.0).contains(&t) {
@@ -45,11 +51,17 @@ fn every_record_reproduces_janaf_from_300_to_1500_k() {
             // NIST-JANAF Cp within 0.5 %.
             let cp = table.number(row, "Cp_J_molK");
             let cp_ours = s.cp(t).unwrap();
-            assert!(((cp_ours - cp) / cp).abs() < 0.005, "{name} Cp at {t} K: {cp_ours} vs {cp}");
+            assert!(
+                ((cp_ours - cp) / cp).abs() < 0.005,
+                "{name} Cp at {t} K: {cp_ours} vs {cp}"
+            );
             // NIST-JANAF H - H(298.15) within 0.2 kJ/mol.
             let dh = table.number(row, "H_minus_H298_kJ_mol");
             let dh_ours = (s.enthalpy(t).unwrap() - h298) / 1e3;
-            assert!((dh_ours - dh).abs() < 0.2, "{name} H-H298 at {t} K: {dh_ours} vs {dh}");
+            assert!(
+                (dh_ours - dh).abs() < 0.2,
+                "{name} H-H298 at {t} K: {dh_ours} vs {dh}"
+            );
             // NIST-JANAF log10 Kf within 0.005, from our own element records.
             let mut dfg = s.gibbs(t).unwrap();
             for (element, count) in *refs {
@@ -57,7 +69,10 @@ fn every_record_reproduces_janaf_from_300_to_1500_k() {
             }
             let log_kf = -dfg / (R_GAS * t * std::f64::consts::LN_10);
             let want = table.number(row, "log10_Kf");
-            assert!((log_kf - want).abs() < 0.005, "{name} log Kf at {t} K: {log_kf} vs {want}");
+            assert!(
+                (log_kf - want).abs() < 0.005,
+                "{name} log Kf at {t} K: {log_kf} vs {want}"
+            );
             rows_checked += 1;
         }
     }
@@ -129,8 +144,14 @@ fn carbon_activity_agrees_between_cracking_and_boudouard_at_equilibrium() {
     let r = stage
         .solve(
             &db,
-            StageInlet { flows: &inlet, temperature_k: 900.0, pressure_pa: p },
-            EnergyMode::FixedTemperature { temperature_k: 900.0 },
+            StageInlet {
+                flows: &inlet,
+                temperature_k: 900.0,
+                pressure_pa: p,
+            },
+            EnergyMode::FixedTemperature {
+                temperature_k: 900.0,
+            },
             None,
         )
         .unwrap();

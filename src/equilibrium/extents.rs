@@ -173,50 +173,71 @@ impl ExtentSystem {
                     .into(),
             });
         }
-        let n0: Vec<f64> = inlet.iter().map(|n| n / scale).collect();
+        // One buffer for every work vector: n0 | n | xi | ln_n | dn | trial | g | trial_g | step
+        // | hessian.
+        let mut buffer = vec![0.0; 6 * ns + 4 * nr + nr * nr];
+        let (n0, rest) = buffer.split_at_mut(ns);
+        let (n, rest) = rest.split_at_mut(ns);
+        let (xi, rest) = rest.split_at_mut(nr);
+        let (ln_n, rest) = rest.split_at_mut(ns);
+        let (dn, rest) = rest.split_at_mut(ns);
+        let (trial, rest) = rest.split_at_mut(ns);
+        let (g, rest) = rest.split_at_mut(nr);
+        let (trial_g, rest) = rest.split_at_mut(nr);
+        let (step, hessian) = rest.split_at_mut(nr);
+        for i in 0..ns {
+            n0[i] = inlet[i] / scale;
+        }
         let inert = inert / scale;
-        let mut xi = vec![0.0; nr];
-        let mut n = n0.clone();
 
         let mut warm = false;
-        if let Some(g) = guess {
-            if g.len() == nr {
-                let trial: Vec<f64> = (0..nr).map(|j| g[j] / scale).collect();
-                let amounts = self.amounts_at(&n0, &trial);
-                let ok = (0..nr).all(|j| self.members[j].iter().all(|&i| amounts[i] > 0.0));
-                if ok {
-                    xi = trial;
-                    n = amounts;
-                    warm = true;
-                }
+        if let Some(guess) = guess.filter(|g| g.len() == nr) {
+            for j in 0..nr {
+                xi[j] = guess[j] / scale;
             }
+            for i in 0..ns {
+                n[i] = n0[i] + (0..nr).map(|j| self.nu(j, i) * xi[j]).sum::<f64>();
+            }
+            warm = (0..nr).all(|j| self.members[j].iter().all(|&i| n[i] > 0.0));
         }
         if !warm {
-            self.make_interior(&mut n, &mut xi);
+            n.copy_from_slice(n0);
+            xi.fill(0.0);
+            self.make_interior(n, xi);
         }
         let frozen: Vec<bool> = (0..nr)
-            .map(|j| self.members[j].iter().any(|&i| !(n[i] > 0.0)))
+            .map(|j| self.members[j].iter().any(|&i| n[i] <= 0.0))
             .collect();
-        let active: Vec<usize> = (0..nr).filter(|&j| !frozen[j]).collect();
+        let mut active_list = [0usize; linalg::MAX_DIM];
+        let mut na = 0;
+        for j in 0..nr {
+            if !frozen[j] {
+                active_list[na] = j;
+                na += 1;
+            }
+        }
+        let active = &active_list[..na];
+        let g = &mut g[..na];
+        let trial_g = &mut trial_g[..na];
+        let step = &mut step[..na];
+        let hessian = &mut hessian[..na * na];
 
-        let mut ws = Workspace::new(ns, active.len());
-        let mut g = vec![0.0; active.len()];
         let mut iterations = 0;
-        let mut merit = self.gradient(&n, inert, ln_k, ln_p, &active, &mut ws.ln_n, &mut g);
-        let mut converged = max_abs(&g) <= RESIDUAL_TOLERANCE;
+        let mut merit = self.gradient(n, inert, ln_k, ln_p, active, ln_n, g);
+        let mut converged = max_abs(g) <= RESIDUAL_TOLERANCE;
         while !converged && iterations < MAX_ITERATIONS {
             iterations += 1;
             // Newton direction: H d = -g.
-            self.hessian(&n, inert, &active, &mut ws.hessian);
-            for (k, gk) in g.iter().enumerate() {
-                ws.step[k] = -gk;
+            self.hessian(n, inert, active, hessian);
+            for k in 0..na {
+                step[k] = -g[k];
             }
-            if !linalg::solve_spd(&ws.hessian, &mut ws.step, active.len()) {
-                self.hessian(&n, inert, &active, &mut ws.hessian);
-                for (k, gk) in g.iter().enumerate() {
-                    ws.step[k] = -gk;
+            if !linalg::solve_spd(hessian, step, na) {
+                self.hessian(n, inert, active, hessian);
+                for k in 0..na {
+                    step[k] = -g[k];
                 }
-                if !linalg::solve_general(&mut ws.hessian, &mut ws.step, active.len()) {
+                if !linalg::solve_general(hessian, step, na) {
                     break;
                 }
             }
@@ -225,9 +246,9 @@ impl ExtentSystem {
             for i in 0..ns {
                 let mut d = 0.0;
                 for (k, &j) in active.iter().enumerate() {
-                    d += self.nu(j, i) * ws.step[k];
+                    d += self.nu(j, i) * step[k];
                 }
-                ws.dn[i] = d;
+                dn[i] = d;
                 if d < 0.0 && n[i] > 0.0 {
                     alpha = alpha.min(FRACTION_TO_BOUNDARY * n[i] / -d);
                 }
@@ -236,21 +257,13 @@ impl ExtentSystem {
             let mut accepted = false;
             for _ in 0..60 {
                 for i in 0..ns {
-                    ws.trial[i] = n[i] + alpha * ws.dn[i];
+                    trial[i] = n[i] + alpha * dn[i];
                 }
                 if active
                     .iter()
-                    .all(|&j| self.members[j].iter().all(|&i| ws.trial[i] > 0.0))
+                    .all(|&j| self.members[j].iter().all(|&i| trial[i] > 0.0))
                 {
-                    let m = self.gradient(
-                        &ws.trial,
-                        inert,
-                        ln_k,
-                        ln_p,
-                        &active,
-                        &mut ws.ln_n,
-                        &mut ws.trial_g,
-                    );
+                    let m = self.gradient(trial, inert, ln_k, ln_p, active, ln_n, trial_g);
                     if m <= (1.0 - 1e-4 * alpha) * merit || m == 0.0 {
                         merit = m;
                         accepted = true;
@@ -262,12 +275,12 @@ impl ExtentSystem {
             if !accepted {
                 break;
             }
-            std::mem::swap(&mut n, &mut ws.trial);
-            std::mem::swap(&mut g, &mut ws.trial_g);
+            n.copy_from_slice(trial);
+            g.copy_from_slice(trial_g);
             for (k, &j) in active.iter().enumerate() {
-                xi[j] += alpha * ws.step[k];
+                xi[j] += alpha * step[k];
             }
-            converged = max_abs(&g) <= RESIDUAL_TOLERANCE;
+            converged = max_abs(g) <= RESIDUAL_TOLERANCE;
         }
         let mut residuals = vec![0.0; nr];
         for (k, &j) in active.iter().enumerate() {
@@ -293,7 +306,7 @@ impl ExtentSystem {
         self.hessian(&solution.amounts, inert, &active, &mut h);
         let mut x: Vec<f64> = active.iter().map(|&j| rhs[j]).collect();
         let mut out = vec![0.0; self.n_reactions];
-        let ok = linalg::solve_spd(&h, &mut x, active.len()) || {
+        let ok = linalg::solve_spd(&mut h, &mut x, active.len()) || {
             self.hessian(&solution.amounts, inert, &active, &mut h);
             x = active.iter().map(|&j| rhs[j]).collect();
             linalg::solve_general(&mut h, &mut x, active.len())
@@ -304,17 +317,6 @@ impl ExtentSystem {
             }
         }
         out
-    }
-
-    fn amounts_at(&self, n0: &[f64], xi: &[f64]) -> Vec<f64> {
-        (0..self.n_species)
-            .map(|i| {
-                n0[i]
-                    + (0..self.n_reactions)
-                        .map(|j| self.nu(j, i) * xi[j])
-                        .sum::<f64>()
-            })
-            .collect()
     }
 
     /// Move from the inlet to a point where every species of every reaction that can proceed is
@@ -395,41 +397,31 @@ impl ExtentSystem {
     fn hessian(&self, n: &[f64], inert: f64, active: &[usize], h: &mut [f64]) {
         let total: f64 = n.iter().sum::<f64>() + inert;
         let m = active.len();
-        for (a, &j) in active.iter().enumerate() {
-            for (b, &k) in active.iter().enumerate().skip(a) {
-                let mut s = 0.0;
-                for &i in &self.members[j] {
-                    let nk = self.nu(k, i);
-                    if nk != 0.0 {
-                        s += self.nu(j, i) * nk / n[i];
-                    }
-                }
-                s -= self.dnu[j] * self.dnu[k] / total;
-                h[a * m + b] = s;
-                h[b * m + a] = s;
+        for a in 0..m {
+            for b in a..m {
+                h[a * m + b] = -self.dnu[active[a]] * self.dnu[active[b]] / total;
             }
         }
-    }
-}
-
-struct Workspace {
-    ln_n: Vec<f64>,
-    dn: Vec<f64>,
-    trial: Vec<f64>,
-    trial_g: Vec<f64>,
-    step: Vec<f64>,
-    hessian: Vec<f64>,
-}
-
-impl Workspace {
-    fn new(ns: usize, na: usize) -> Workspace {
-        Workspace {
-            ln_n: vec![0.0; ns],
-            dn: vec![0.0; ns],
-            trial: vec![0.0; ns],
-            trial_g: vec![0.0; na],
-            step: vec![0.0; na],
-            hessian: vec![0.0; na * na],
+        for (i, &ni) in n.iter().enumerate() {
+            if ni <= 0.0 {
+                continue;
+            }
+            let w = 1.0 / ni;
+            for a in 0..m {
+                let va = self.nu(active[a], i);
+                if va == 0.0 {
+                    continue;
+                }
+                let vw = va * w;
+                for b in a..m {
+                    h[a * m + b] += vw * self.nu(active[b], i);
+                }
+            }
+        }
+        for a in 0..m {
+            for b in 0..a {
+                h[a * m + b] = h[b * m + a];
+            }
         }
     }
 }

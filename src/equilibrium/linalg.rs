@@ -4,47 +4,41 @@
 //! with Gaussian elimination with partial pivoting as a fallback when round-off spoils
 //! definiteness (Golub & Van Loan, Matrix Computations, 4th ed., sections 3.2 and 4.2).
 
-/// Solve `a x = b` in place for a symmetric positive-definite `a` (row-major, `n` x `n`).
-/// On return `b` holds `x`. Returns false when `a` is not numerically positive definite, in which
-/// case `a` and `b` are unchanged.
-pub fn solve_spd(a: &[f64], b: &mut [f64], n: usize) -> bool {
-    // Factor into a local lower triangle L (L L^T = a).
-    let mut l = [0.0f64; MAX_DIM * MAX_DIM];
-    if n > MAX_DIM {
-        return false;
-    }
+/// Solve `a x = b` for a symmetric positive-definite `a` (row-major, `n` x `n`) by Cholesky
+/// factorisation in place: `a`'s lower triangle is overwritten with the factor and `b` with `x`.
+/// Returns false when `a` is not numerically positive definite (then both are spoiled).
+pub fn solve_spd(a: &mut [f64], b: &mut [f64], n: usize) -> bool {
     for j in 0..n {
         let mut d = a[j * n + j];
         for k in 0..j {
-            d -= l[j * n + k] * l[j * n + k];
+            d -= a[j * n + k] * a[j * n + k];
         }
-        if !(d > 0.0) || !d.is_finite() {
+        if d <= 0.0 || !d.is_finite() {
             return false;
         }
         let d = d.sqrt();
-        l[j * n + j] = d;
+        a[j * n + j] = d;
         for i in (j + 1)..n {
             let mut s = a[i * n + j];
             for k in 0..j {
-                s -= l[i * n + k] * l[j * n + k];
+                s -= a[i * n + k] * a[j * n + k];
             }
-            l[i * n + j] = s / d;
+            a[i * n + j] = s / d;
         }
     }
-    // Forward then backward substitution.
     for i in 0..n {
         let mut s = b[i];
         for k in 0..i {
-            s -= l[i * n + k] * b[k];
+            s -= a[i * n + k] * b[k];
         }
-        b[i] = s / l[i * n + i];
+        b[i] = s / a[i * n + i];
     }
     for i in (0..n).rev() {
         let mut s = b[i];
         for k in (i + 1)..n {
-            s -= l[k * n + i] * b[k];
+            s -= a[k * n + i] * b[k];
         }
-        b[i] = s / l[i * n + i];
+        b[i] = s / a[i * n + i];
     }
     true
 }
@@ -143,7 +137,8 @@ mod tests {
             .map(|i| (0..3).map(|k| a[i * 3 + k] * x[k]).sum())
             .collect();
         let mut b2 = b.clone();
-        assert!(solve_spd(&a, &mut b, 3));
+        let mut a1 = a;
+        assert!(solve_spd(&mut a1, &mut b, 3));
         let mut a2 = a;
         assert!(solve_general(&mut a2, &mut b2, 3));
         for i in 0..3 {
@@ -154,9 +149,9 @@ mod tests {
 
     #[test]
     fn indefinite_and_singular_are_reported() {
-        let a = [1.0, 2.0, 2.0, 1.0];
+        let mut a = [1.0, 2.0, 2.0, 1.0];
         let mut b = [1.0, 1.0];
-        assert!(!solve_spd(&a, &mut b, 2));
+        assert!(!solve_spd(&mut a, &mut b, 2));
         let mut s = [1.0, 2.0, 2.0, 4.0];
         assert!(!solve_general(&mut s, &mut b, 2));
         assert_eq!(rank(&[1.0, 2.0, 2.0, 4.0], 2, 2), 1);

@@ -114,6 +114,8 @@ pub struct EquilibriumStage {
 const TEMPERATURE_TOLERANCE_K: f64 = 1e-9;
 const ENERGY_TOLERANCE: f64 = 1e-12;
 const MAX_TEMPERATURE_ITERATIONS: usize = 100;
+/// Most species the reactions of one stage may involve.
+pub const MAX_STAGE_SPECIES: usize = 32;
 
 impl EquilibriumStage {
     /// Prepare a stage. Only gas-phase reactions are allowed (carbon formation is judged by
@@ -141,6 +143,15 @@ impl EquilibriumStage {
                     species.push(*i);
                 }
             }
+        }
+        if species.len() > MAX_STAGE_SPECIES {
+            return Err(Error::Reaction {
+                reaction: "(set)".into(),
+                reason: format!(
+                    "{} species take part; at most {MAX_STAGE_SPECIES} are supported in one stage",
+                    species.len()
+                ),
+            });
         }
         let rows: Vec<Vec<f64>> = reactions
             .iter()
@@ -331,23 +342,30 @@ impl EquilibriumStage {
         state: &mut StageState,
     ) -> Result<(ExtentSolution, Vec<f64>)> {
         let nr = self.reactions.len();
+        let ns = self.species.len();
         let mut ln_k = vec![0.0; nr];
         let mut dlnk_dt = vec![0.0; nr];
+        // Species values at the stream temperature, shared by reactions without an approach.
+        let mut h_rt = [0.0f64; MAX_STAGE_SPECIES];
+        let mut g_rt = [0.0f64; MAX_STAGE_SPECIES];
+        for k in 0..ns {
+            h_rt[k] = self.nasa[k].h_rt(t);
+            g_rt[k] = self.nasa[k].g_rt(t);
+        }
         for (j, r) in self.reactions.iter().enumerate() {
             // Sign from the direction and the sign of dH at the stream temperature.
-            let mut dh_rt = 0.0;
-            for (k, &i) in self.species.iter().enumerate() {
-                let nu = r.reaction.coefficient(i);
-                if nu != 0.0 {
-                    dh_rt += nu * self.nasa[k].h_rt(t);
-                }
-            }
+            let dh_rt: f64 = (0..ns).map(|k| self.system.nu(j, k) * h_rt[k]).sum();
             let s = if dh_rt * directions[j] >= 0.0 {
                 1.0
             } else {
                 -1.0
             };
             let approach = if zero_approach { 0.0 } else { r.approach_k };
+            if approach == 0.0 {
+                ln_k[j] = -(0..ns).map(|k| self.system.nu(j, k) * g_rt[k]).sum::<f64>();
+                dlnk_dt[j] = dh_rt / t; // dH/(R T^2) = (H/RT)/T
+                continue;
+            }
             let t_eq = t - s * approach;
             if !(t_eq > 0.0) || !self.nasa.iter().all(|n| n.in_range(t_eq)) {
                 return Err(Error::InvalidValue {
@@ -360,20 +378,20 @@ impl EquilibriumStage {
             }
             let mut g = 0.0;
             let mut h = 0.0;
-            for (k, &i) in self.species.iter().enumerate() {
-                let nu = r.reaction.coefficient(i);
+            for k in 0..ns {
+                let nu = self.system.nu(j, k);
                 if nu != 0.0 {
                     g += nu * self.nasa[k].g_rt(t_eq);
                     h += nu * self.nasa[k].h_rt(t_eq);
                 }
             }
             ln_k[j] = -g;
-            dlnk_dt[j] = h / t_eq; // dH/(R T^2) = (H/RT)/T
+            dlnk_dt[j] = h / t_eq;
         }
-        let local: Vec<f64> = self.species.iter().map(|&i| ctx.inlet.flows[i]).collect();
+        let local = &ctx.local_inlet;
         let sol = self
             .system
-            .solve(&local, ctx.inert, &ln_k, ctx.ln_p, state.guess.as_deref())?;
+            .solve(local, ctx.inert, &ln_k, ctx.ln_p, state.guess.as_deref())?;
         state.iterations += sol.iterations;
         if !sol.converged {
             return Err(Error::NotConverged {
@@ -415,7 +433,8 @@ impl EquilibriumStage {
                 lo = t;
             }
             let mut t_new = t - f / dh_dt;
-            if !(t_new > lo && t_new < hi) || !dh_dt.is_finite() || dh_dt <= 0.0 {
+            let newton_ok = dh_dt.is_finite() && dh_dt > 0.0 && t_new > lo && t_new < hi;
+            if !newton_ok {
                 t_new = 0.5 * (lo + hi);
             }
             if (t_new - t).abs() <= TEMPERATURE_TOLERANCE_K * t.max(1.0) * 1e-3 || hi - lo < 1e-12 {
@@ -511,6 +530,8 @@ struct Context<'a> {
     /// Gas species not in any reaction: (amount, polynomial).
     inerts: Vec<(f64, &'a Nasa7)>,
     inert: f64,
+    /// Inlet amounts of the stage's species, in the stage's order.
+    local_inlet: Vec<f64>,
     ln_p: f64,
     inlet_enthalpy: f64,
     enthalpy_scale: f64,
@@ -579,10 +600,12 @@ impl<'a> Context<'a> {
             crate::thermo::mixture::enthalpy(db, inlet.flows, inlet.temperature_k)?;
         let total: f64 = inlet.flows.iter().sum();
         let enthalpy_scale = total * R_GAS * inlet.temperature_k;
+        let local_inlet = stage.species.iter().map(|&i| inlet.flows[i]).collect();
         Ok(Context {
             inlet,
             inerts,
             inert,
+            local_inlet,
             ln_p: (inlet.pressure_pa / STANDARD_PRESSURE_PA).ln(),
             inlet_enthalpy,
             enthalpy_scale,

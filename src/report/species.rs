@@ -59,7 +59,9 @@ pub fn table(db: &SpeciesDb, name: Option<&str>, temperatures_k: &[f64]) -> Resu
                     s.source
                 ));
             }
-            out.push_str("\nStandard state 1 bar; H includes the formation enthalpy at 298.15 K.\n");
+            out.push_str(
+                "\nStandard state 1 bar; H includes the formation enthalpy at 298.15 K.\n",
+            );
             if !temperatures_k.is_empty() {
                 for s in db.all() {
                     out.push('\n');
@@ -71,11 +73,8 @@ pub fn table(db: &SpeciesDb, name: Option<&str>, temperatures_k: &[f64]) -> Resu
             let s = db.get(n)?;
             out.push_str(&format!("{} ({})\n", s.name, s.description));
             out.push_str(&format!("  formula      {}\n", s.formula));
-            let elements: Vec<String> = s
-                .elements
-                .iter()
-                .map(|(e, c)| format!("{e} {c}"))
-                .collect();
+            let elements: Vec<String> =
+                s.elements.iter().map(|(e, c)| format!("{e} {c}")).collect();
             out.push_str(&format!("  elements     {}\n", elements.join(", ")));
             out.push_str(&format!("  phase        {}\n", phase_name(s.phase)));
             out.push_str(&format!(
@@ -174,9 +173,18 @@ mod tests {
         let one = table(&db, Some("CO2"), &[1000.0]).unwrap();
         assert!(one.contains("1000.00") && one.contains("source"));
         let v: Value = serde_json::from_str(&json(&db, Some("H2"), &[]).unwrap()).unwrap();
-        assert_eq!(v["properties"].as_array().unwrap().len(), DEFAULT_TEMPERATURES_K.len());
+        assert_eq!(
+            v["properties"].as_array().unwrap().len(),
+            DEFAULT_TEMPERATURES_K.len()
+        );
         // H2 is an element in its reference state: H(298.15) = 0 (NIST-JANAF convention).
-        assert!(v["properties"][0]["enthalpy_kJ_mol"].as_f64().unwrap().abs() < 1e-3);
+        assert!(
+            v["properties"][0]["enthalpy_kJ_mol"]
+                .as_f64()
+                .unwrap()
+                .abs()
+                < 1e-3
+        );
         assert!(table(&db, Some("XYZ"), &[]).is_err());
         assert!(table(&db, Some("CH4"), &[5000.0]).is_err());
     }

@@ -1,0 +1,82 @@
+//! The solved flowsheet: every stream, every unit, the plant summary and the balance checks.
+//! This is what reports render; it holds SI values only.
+
+use crate::units::{Stream, UnitResult};
+
+/// Where a stream comes from.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum StreamSource {
+    /// A feed of the flowsheet file.
+    Feed,
+    /// An outlet of the named unit.
+    Unit(String),
+}
+
+/// One solved stream.
+#[derive(Debug, Clone)]
+pub struct SolvedStream {
+    /// Stream name as in the file.
+    pub name: String,
+    /// Its state.
+    pub stream: Stream,
+    /// The feed or unit that makes it.
+    pub source: StreamSource,
+    /// The unit that uses it; `None` for a product.
+    pub destination: Option<String>,
+}
+
+/// One solved unit.
+#[derive(Debug, Clone)]
+pub struct SolvedUnit {
+    /// Unit name as in the file.
+    pub name: String,
+    /// Unit type (`reformer`, `shift`, ...).
+    pub type_name: String,
+    /// Inlet stream names.
+    pub inlets: Vec<String>,
+    /// Outlet stream names, in the order of the unit's outlets.
+    pub outlets: Vec<String>,
+    /// What the unit computed.
+    pub result: UnitResult,
+}
+
+/// Plant figures an engineer looks at first.
+#[derive(Debug, Clone, Default)]
+pub struct Summary {
+    /// Hydrogen in the purifier product(s), mol/s (None without a purifier).
+    pub hydrogen_product_mol_s: Option<f64>,
+    /// Methane slip, dry mole fraction, at each reformer outlet: (unit, fraction).
+    pub methane_slip_dry: Vec<(String, f64)>,
+    /// CO slip, dry mole fraction, at each shift outlet: (unit, fraction).
+    pub co_slip_dry: Vec<(String, f64)>,
+    /// Steam-to-carbon ratio at each reformer and pre-reformer inlet: (unit, ratio).
+    pub steam_to_carbon: Vec<(String, f64)>,
+    /// Sum of positive duties, W.
+    pub heating_duty_w: f64,
+    /// Sum of negative duties, W (a negative number).
+    pub cooling_duty_w: f64,
+}
+
+/// The whole solved flowsheet.
+#[derive(Debug, Clone)]
+pub struct FlowsheetResult {
+    /// Title from the file.
+    pub title: String,
+    /// Streams: feeds first in file order, then unit outlets in solve order.
+    pub streams: Vec<SolvedStream>,
+    /// Units in solve order.
+    pub units: Vec<SolvedUnit>,
+    /// Plant summary.
+    pub summary: Summary,
+    /// Warnings of all units (prefixed with the unit name) and of the flowsheet.
+    pub warnings: Vec<String>,
+    /// True when every unit converged.
+    pub converged: bool,
+    /// Largest relative element-balance error, products vs feeds (per element, relative to
+    /// its feed amount).
+    pub element_balance_residual: f64,
+    /// |H products - H feeds - sum of duties| relative to the feed enthalpy magnitude (the sum of
+    /// |H| over the feeds, formation enthalpies included) or the sum of |duty|, whichever is
+    /// larger.
+    pub energy_balance_residual: f64,
+}

@@ -1,0 +1,365 @@
+//! Solving a checked flowsheet: each unit in the graph's order, then the plant summary and the
+//! two balance checks over the whole flowsheet (products against feeds):
+//!
+//! - elements: for each element e, |sum products - sum feeds| / (sum feeds) <= 1e-9, the
+//!   denominator being the feed amount of that element (or, for an element present only in
+//!   traces, 1e-12 of all atoms fed, so that an absent element compares 0 with 0);
+//! - energy: |H_products - H_feeds - sum of duties| <= 1e-6 of the larger of the feed enthalpy
+//!   magnitude (sum over feeds of |H|, formation enthalpies included) and the sum of |duty|.
+//!
+//! A flowsheet that fails either check is an error, never a result. The steam-to-carbon ratio
+//! is H2O over carbon in hydrocarbons (CO and CO2 not counted), common practice.
+
+use std::collections::HashMap;
+
+use super::result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Summary};
+use super::yaml::UnitType;
+use super::Flowsheet;
+use crate::error::{Error, Result};
+use crate::thermo::{mixture, Phase, SpeciesDb};
+use crate::units::Stream;
+
+/// Largest relative element-balance error a solved flowsheet may have.
+pub const ELEMENT_BALANCE_TOLERANCE: f64 = 1e-9;
+/// Largest relative energy-balance error a solved flowsheet may have.
+pub const ENERGY_BALANCE_TOLERANCE: f64 = 1e-6;
+
+/// Solve every unit in order and collect the result.
+pub fn solve(fs: &Flowsheet, db: &SpeciesDb) -> Result<FlowsheetResult> {
+    let n_streams = fs.feeds.len() + fs.units.iter().map(|u| u.outlets.len()).sum::<usize>();
+    let mut streams: Vec<SolvedStream> = Vec::with_capacity(n_streams);
+    let mut slot: HashMap<&str, usize> = HashMap::with_capacity(n_streams);
+    let mut destination: HashMap<&str, &str> = HashMap::with_capacity(n_streams);
+    for unit in &fs.units {
+        for inlet in &unit.inlets {
+            destination.insert(inlet, &unit.name);
+        }
+    }
+    let dest = |name: &str| destination.get(name).map(|d| d.to_string());
+    for feed in &fs.feeds {
+        slot.insert(&feed.name, streams.len());
+        streams.push(SolvedStream {
+            name: feed.name.clone(),
+            stream: feed.stream.clone(),
+            source: StreamSource::Feed,
+            destination: dest(&feed.name),
+        });
+    }
+
+    let mut units: Vec<SolvedUnit> = Vec::with_capacity(fs.units.len());
+    let mut warnings: Vec<String> = streams
+        .iter()
+        .filter(|s| s.destination.is_none())
+        .map(|s| {
+            format!(
+                "feed '{}' goes to no unit; it is listed as a product as it is",
+                s.name
+            )
+        })
+        .collect();
+    for unit in fs.units_in_order() {
+        let result = {
+            let mut inlets: Vec<&Stream> = Vec::with_capacity(unit.inlets.len());
+            for name in &unit.inlets {
+                let i = *slot.get(name.as_str()).ok_or_else(|| Error::Flowsheet {
+                    reason: format!(
+                        "stream '{name}' is needed by unit '{}' before it is made (internal \
+                         error in the solve order)",
+                        unit.name
+                    ),
+                })?;
+                inlets.push(&streams[i].stream);
+            }
+            unit.prepared.solve(db, &inlets, None).map_err(|e| {
+                e.context(format!("solving unit '{}' ({})", unit.name, unit.unit_type))
+            })?
+        };
+        if result.outlets.len() != unit.outlets.len() {
+            return Err(Error::Flowsheet {
+                reason: format!(
+                    "unit '{}' made {} outlet streams but lists {} in `to` (internal error)",
+                    unit.name,
+                    result.outlets.len(),
+                    unit.outlets.len()
+                ),
+            });
+        }
+        for (name, stream) in unit.outlets.iter().zip(&result.outlets) {
+            slot.insert(name, streams.len());
+            streams.push(SolvedStream {
+                name: name.clone(),
+                stream: stream.clone(),
+                source: StreamSource::Unit(unit.name.clone()),
+                destination: dest(name),
+            });
+        }
+        warnings.extend(
+            result
+                .warnings
+                .iter()
+                .map(|w| format!("{}: {w}", unit.name)),
+        );
+        units.push(SolvedUnit {
+            name: unit.name.clone(),
+            type_name: unit.unit_type.name().to_string(),
+            inlets: unit.inlets.clone(),
+            outlets: unit.outlets.clone(),
+            result,
+        });
+    }
+
+    let converged = units
+        .iter()
+        .all(|u| u.result.equilibrium.as_ref().is_none_or(|e| e.converged));
+    let summary = summary(db, fs, &streams, &slot, &units);
+    let element_balance_residual = element_balance(db, &streams)?;
+    let energy_balance_residual = energy_balance(db, &streams, &units)?;
+    Ok(FlowsheetResult {
+        title: fs.title.clone(),
+        streams,
+        units,
+        summary,
+        warnings,
+        converged,
+        element_balance_residual,
+        energy_balance_residual,
+    })
+}
+
+/// Carbon in hydrocarbons (gas species of C and H only), mol/s.
+fn organic_carbon(db: &SpeciesDb, flows: &[f64]) -> f64 {
+    flows
+        .iter()
+        .enumerate()
+        .filter(|(_, n)| **n != 0.0)
+        .map(|(i, n)| {
+            let s = db.by_index(i);
+            let hydrocarbon = s.phase == Phase::Gas
+                && s.atoms("C") > 0.0
+                && s.atoms("H") > 0.0
+                && s.elements.len() == 2;
+            if hydrocarbon {
+                n * s.atoms("C")
+            } else {
+                0.0
+            }
+        })
+        .sum()
+}
+
+fn dry_fraction(db: &SpeciesDb, stream: &Stream, species: &str) -> Option<f64> {
+    db.index_of(species)
+        .map(|i| stream.dry_mole_fraction(db, i))
+}
+
+fn summary(
+    db: &SpeciesDb,
+    fs: &Flowsheet,
+    streams: &[SolvedStream],
+    slot: &HashMap<&str, usize>,
+    units: &[SolvedUnit],
+) -> Summary {
+    let stream = |name: &str| slot.get(name).map(|&i| &streams[i].stream);
+    let h2 = db.index_of("H2");
+    let h2o = db.index_of("H2O");
+    let mut s = Summary::default();
+    for (unit, solved) in fs.units_in_order().zip(units) {
+        let outlet = solved.result.outlets.first();
+        match unit.unit_type {
+            UnitType::Purifier => {
+                if let (Some(product), Some(h2)) = (outlet, h2) {
+                    *s.hydrogen_product_mol_s.get_or_insert(0.0) += product.flows[h2];
+                }
+            }
+            UnitType::Reformer => {
+                if let Some(x) = outlet.and_then(|o| dry_fraction(db, o, "CH4")) {
+                    s.methane_slip_dry.push((unit.name.clone(), x));
+                }
+            }
+            UnitType::Shift => {
+                if let Some(x) = outlet.and_then(|o| dry_fraction(db, o, "CO")) {
+                    s.co_slip_dry.push((unit.name.clone(), x));
+                }
+            }
+            _ => {}
+        }
+        if matches!(unit.unit_type, UnitType::Reformer | UnitType::Prereformer) {
+            let inlet = unit.inlets.first().and_then(|n| stream(n));
+            if let (Some(inlet), Some(h2o)) = (inlet, h2o) {
+                let carbon = organic_carbon(db, &inlet.flows);
+                if carbon > 0.0 {
+                    s.steam_to_carbon
+                        .push((unit.name.clone(), inlet.flows[h2o] / carbon));
+                }
+            }
+        }
+        let q = solved.result.duty_w;
+        if q > 0.0 {
+            s.heating_duty_w += q;
+        } else {
+            s.cooling_duty_w += q;
+        }
+    }
+    s
+}
+
+/// Largest relative element-balance error, products against feeds; an error above tolerance.
+fn element_balance(db: &SpeciesDb, streams: &[SolvedStream]) -> Result<f64> {
+    let elements = mixture::elements(db);
+    // Feeds: streams made by a feed; products: streams no unit uses (a feed may be both).
+    let sum = |feed: bool, element: &str| -> f64 {
+        streams
+            .iter()
+            .filter(|s| match feed {
+                true => s.source == StreamSource::Feed,
+                false => s.destination.is_none(),
+            })
+            .map(|s| mixture::element_amount(db, &s.stream.flows, element))
+            .sum()
+    };
+    let fed: Vec<f64> = elements.iter().map(|e| sum(true, e)).collect();
+    let made: Vec<f64> = elements.iter().map(|e| sum(false, e)).collect();
+    let all_atoms: f64 = fed.iter().sum();
+    let mut worst = 0.0f64;
+    let mut worst_element = String::new();
+    for ((e, f), p) in elements.iter().zip(&fed).zip(&made) {
+        let scale = f.max(1e-12 * all_atoms).max(f64::MIN_POSITIVE);
+        let r = (p - f).abs() / scale;
+        if !(r <= worst) {
+            worst = r;
+            worst_element = e.clone();
+        }
+    }
+    if !(worst <= ELEMENT_BALANCE_TOLERANCE) {
+        return Err(Error::Flowsheet {
+            reason: format!(
+                "element balance does not close: element {worst_element} is off by {worst:.3e} \
+                 (relative, products against feeds; at most {ELEMENT_BALANCE_TOLERANCE:e} is \
+                 allowed); the result is not reported"
+            ),
+        });
+    }
+    Ok(worst)
+}
+
+/// Relative energy-balance error; an error above tolerance.
+fn energy_balance(db: &SpeciesDb, streams: &[SolvedStream], units: &[SolvedUnit]) -> Result<f64> {
+    let mut h_feeds = 0.0;
+    let mut h_feeds_abs = 0.0;
+    let mut h_products = 0.0;
+    for s in streams {
+        if s.source == StreamSource::Feed {
+            let h = s.stream.enthalpy_w(db)?;
+            h_feeds += h;
+            h_feeds_abs += h.abs();
+        }
+        if s.destination.is_none() {
+            h_products += s.stream.enthalpy_w(db)?;
+        }
+    }
+    let duties: f64 = units.iter().map(|u| u.result.duty_w).sum();
+    let duties_abs: f64 = units.iter().map(|u| u.result.duty_w.abs()).sum();
+    let scale = h_feeds_abs.max(duties_abs).max(1.0);
+    let r = (h_products - h_feeds - duties).abs() / scale;
+    if !(r <= ENERGY_BALANCE_TOLERANCE) {
+        return Err(Error::Flowsheet {
+            reason: format!(
+                "energy balance does not close: products {h_products:.6e} W - feeds \
+                 {h_feeds:.6e} W differs from the sum of duties {duties:.6e} W by {r:.3e} \
+                 (relative; at most {ENERGY_BALANCE_TOLERANCE:e} is allowed); the result is \
+                 not reported"
+            ),
+        });
+    }
+    Ok(r)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::units::UnitResult;
+
+    fn stream(
+        db: &SpeciesDb,
+        name: &str,
+        source: StreamSource,
+        dest: Option<&str>,
+        pairs: &[(&str, f64)],
+    ) -> SolvedStream {
+        let mut flows = vec![0.0; db.len()];
+        for (n, x) in pairs {
+            flows[db.index_of(n).unwrap()] = *x;
+        }
+        SolvedStream {
+            name: name.into(),
+            stream: Stream::vapour(flows, 600.0, 2.0e6),
+            source,
+            destination: dest.map(str::to_string),
+        }
+    }
+
+    fn unit(duty_w: f64) -> SolvedUnit {
+        SolvedUnit {
+            name: "u".into(),
+            type_name: "heater".into(),
+            inlets: vec!["a".into()],
+            outlets: vec!["b".into()],
+            result: UnitResult {
+                outlets: Vec::new(),
+                duty_w,
+                approaches: Vec::new(),
+                figures: Vec::new(),
+                equilibrium: None,
+                warnings: Vec::new(),
+            },
+        }
+    }
+
+    #[test]
+    fn an_element_balance_that_does_not_close_is_an_error() {
+        let db = SpeciesDb::embedded().unwrap();
+        let feed = stream(&db, "a", StreamSource::Feed, Some("u"), &[("CH4", 1.0)]);
+        let same = stream(
+            &db,
+            "b",
+            StreamSource::Unit("u".into()),
+            None,
+            &[("CH4", 1.0)],
+        );
+        assert!(element_balance(&db, &[feed.clone(), same]).unwrap() == 0.0);
+        // 1e-8 relative too much carbon and hydrogen in the product.
+        let more = stream(
+            &db,
+            "b",
+            StreamSource::Unit("u".into()),
+            None,
+            &[("CH4", 1.0 + 1e-8)],
+        );
+        let e = element_balance(&db, &[feed, more]).unwrap_err().to_string();
+        assert!(
+            e.contains("element balance does not close") && e.contains("not reported"),
+            "{e}"
+        );
+    }
+
+    #[test]
+    fn an_energy_balance_that_does_not_close_is_an_error() {
+        let db = SpeciesDb::embedded().unwrap();
+        let feed = stream(&db, "a", StreamSource::Feed, Some("u"), &[("N2", 1.0)]);
+        let mut hot = stream(
+            &db,
+            "b",
+            StreamSource::Unit("u".into()),
+            None,
+            &[("N2", 1.0)],
+        );
+        hot.stream.temperature_k = 700.0;
+        let dh = hot.stream.enthalpy_w(&db).unwrap() - feed.stream.enthalpy_w(&db).unwrap();
+        let streams = [feed, hot];
+        assert!(energy_balance(&db, &streams, &[unit(dh)]).unwrap() < 1e-12);
+        let e = energy_balance(&db, &streams, &[unit(dh * 0.99)])
+            .unwrap_err()
+            .to_string();
+        assert!(e.contains("energy balance does not close"), "{e}");
+    }
+}

@@ -1,0 +1,246 @@
+//! The solve result as one JSON object (RFC 8259), for scripts and spreadsheets.
+//!
+//! Stable keys (see the design notes; scripts may rely on them):
+//! - `streams.<name>`: `temperature_K`, `pressure_bar`, `flow_kmol_h` {species: value},
+//!   `enthalpy_kW` (total, formation enthalpies included)
+//! - `units.<name>`: `type`, `inlets` [stream names], `outlets` [stream names], `duty_kW`
+//! - `warnings`: [strings]
+//!
+//! Beside them:
+//! - top level: `title`, `converged`, `summary`, `balances`, `cautions`
+//! - `streams.<name>`: `source` ("feed" or the unit name), `destination` (unit name or null for a
+//!   product), `phase` ("vapour" or "liquid"), `temperature_degC`, `total_kmol_h`,
+//!   `total_Nm3_h` (ideal gas at 273.15 K and 101 325 Pa, DIN 1343), `mole_percent_wet`,
+//!   `mole_percent_dry` {species: value}
+//! - `units.<name>`: `outlet_temperature_K`, `approach_K` {reaction: K},
+//!   `figures` {key: {label, value, unit}} in report units (% for fractions, ppm, degC, K,
+//!   kmol/h, bar), `warnings`, and for equilibrium units `converged`, `iterations`,
+//!   `residuals` [one per reaction], `max_residual`, `energy_residual`
+//! - `summary`: `hydrogen_product_kmol_h` and `hydrogen_product_Nm3_h` (null without a purifier),
+//!   `methane_slip_percent_dry` {unit: %}, `co_slip_percent_dry` {unit: %},
+//!   `steam_to_carbon` {unit: ratio}, `heating_duty_kW`, `cooling_duty_kW`
+//! - `balances`: `element_residual`, `energy_residual` (relative)
+//!
+//! Species maps list every species that flows in some stream, the same keys in every stream,
+//! in database order. Streams and units keep the order of the result (feeds first, then solve
+//! order). Numbers are full precision; a value that is not finite is written as null.
+
+use serde_json::{json, Map, Value};
+
+use super::tables::{figure_value, phase_name, present_species, source_name};
+use crate::error::{Result, ResultExt};
+use crate::flowsheet::result::{FlowsheetResult, SolvedStream};
+use crate::quantity::{kelvin_to_degc, mol_s_to_kmol_h, mol_s_to_nm3_h, pa_to_bar, w_to_kw};
+use crate::thermo::SpeciesDb;
+
+/// Render the solve result as pretty-printed JSON, ending in a newline.
+pub fn render(db: &SpeciesDb, result: &FlowsheetResult) -> Result<String> {
+    Ok(format!("{:#}\n", to_value(db, result)?))
+}
+
+/// The solve result as a JSON value.
+pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
+    let species = present_species(result);
+    let mut streams = Map::new();
+    for s in &result.streams {
+        streams.insert(s.name.clone(), stream_value(db, s, &species)?);
+    }
+    let mut units = Map::new();
+    for u in &result.units {
+        let r = &u.result;
+        let mut unit = Map::new();
+        unit.insert("type".into(), json!(u.type_name));
+        unit.insert("inlets".into(), json!(u.inlets));
+        unit.insert("outlets".into(), json!(u.outlets));
+        unit.insert("duty_kW".into(), number(w_to_kw(r.duty_w)));
+        if let Some(first) = r.outlets.first() {
+            unit.insert("outlet_temperature_K".into(), number(first.temperature_k));
+        }
+        let approaches: Map<String, Value> = r
+            .approaches
+            .iter()
+            .map(|(reaction, dt)| (reaction.clone(), number(*dt)))
+            .collect();
+        unit.insert("approach_K".into(), Value::Object(approaches));
+        let figures: Map<String, Value> = r
+            .figures
+            .iter()
+            .map(|f| {
+                let (value, unit) = figure_value(f);
+                (
+                    f.key.clone(),
+                    json!({"label": f.label, "value": number(value), "unit": unit}),
+                )
+            })
+            .collect();
+        unit.insert("figures".into(), Value::Object(figures));
+        if let Some(eq) = &r.equilibrium {
+            unit.insert("converged".into(), json!(eq.converged));
+            unit.insert(
+                "iterations".into(),
+                json!(eq.iterations + eq.temperature_iterations),
+            );
+            let residuals: Vec<Value> = eq.residuals.iter().map(|x| number(*x)).collect();
+            unit.insert("residuals".into(), Value::Array(residuals));
+            unit.insert("max_residual".into(), number(eq.max_residual()));
+            unit.insert("energy_residual".into(), number(eq.energy_residual));
+        }
+        unit.insert("warnings".into(), json!(r.warnings));
+        units.insert(u.name.clone(), Value::Object(unit));
+    }
+
+    let s = &result.summary;
+    let pairs = |list: &[(String, f64)], scale: f64| -> Value {
+        Value::Object(
+            list.iter()
+                .map(|(unit, v)| (unit.clone(), number(v * scale)))
+                .collect(),
+        )
+    };
+    let summary = json!({
+        "hydrogen_product_kmol_h": s.hydrogen_product_mol_s.map(mol_s_to_kmol_h).map(number),
+        "hydrogen_product_Nm3_h": s.hydrogen_product_mol_s.map(mol_s_to_nm3_h).map(number),
+        "methane_slip_percent_dry": pairs(&s.methane_slip_dry, 100.0),
+        "co_slip_percent_dry": pairs(&s.co_slip_dry, 100.0),
+        "steam_to_carbon": pairs(&s.steam_to_carbon, 1.0),
+        "heating_duty_kW": number(w_to_kw(s.heating_duty_w)),
+        "cooling_duty_kW": number(w_to_kw(s.cooling_duty_w)),
+    });
+
+    let mut top = Map::new();
+    top.insert("title".into(), json!(result.title));
+    top.insert("converged".into(), json!(result.converged));
+    top.insert("streams".into(), Value::Object(streams));
+    top.insert("units".into(), Value::Object(units));
+    top.insert("summary".into(), summary);
+    top.insert(
+        "balances".into(),
+        json!({
+            "element_residual": number(result.element_balance_residual),
+            "energy_residual": number(result.energy_balance_residual),
+        }),
+    );
+    top.insert("warnings".into(), json!(result.warnings));
+    top.insert("cautions".into(), json!(super::CAUTIONS));
+    Ok(Value::Object(top))
+}
+
+fn stream_value(db: &SpeciesDb, s: &SolvedStream, species: &[usize]) -> Result<Value> {
+    let st = &s.stream;
+    let enthalpy_w = st
+        .enthalpy_w(db)
+        .context(|| format!("enthalpy of stream '{}' for the report", s.name))?;
+    let map = |value: &dyn Fn(usize) -> f64, skip_water: bool| -> Value {
+        Value::Object(
+            species
+                .iter()
+                .filter(|&&i| !(skip_water && db.by_index(i).name == "H2O"))
+                .map(|&i| (db.by_index(i).name.clone(), number(value(i))))
+                .collect(),
+        )
+    };
+    let flow = |i: usize| mol_s_to_kmol_h(st.flows.get(i).copied().unwrap_or(0.0));
+    let wet = |i: usize| 100.0 * st.mole_fraction(i);
+    let dry = |i: usize| 100.0 * st.dry_mole_fraction(db, i);
+    let destination = match &s.destination {
+        Some(unit) => json!(unit),
+        None => Value::Null,
+    };
+    let mut m = Map::new();
+    m.insert("source".into(), json!(source_name(s)));
+    m.insert("destination".into(), destination);
+    m.insert("phase".into(), json!(phase_name(st.phase)));
+    m.insert("temperature_K".into(), number(st.temperature_k));
+    m.insert(
+        "temperature_degC".into(),
+        number(kelvin_to_degc(st.temperature_k)),
+    );
+    m.insert("pressure_bar".into(), number(pa_to_bar(st.pressure_pa)));
+    m.insert("total_kmol_h".into(), number(mol_s_to_kmol_h(st.total())));
+    m.insert("total_Nm3_h".into(), number(mol_s_to_nm3_h(st.total())));
+    m.insert("flow_kmol_h".into(), map(&flow, false));
+    m.insert("mole_percent_wet".into(), map(&wet, false));
+    m.insert("mole_percent_dry".into(), map(&dry, true));
+    m.insert("enthalpy_kW".into(), number(w_to_kw(enthalpy_w)));
+    Ok(Value::Object(m))
+}
+
+/// A finite number, or null.
+fn number(x: f64) -> Value {
+    serde_json::Number::from_f64(x).map_or(Value::Null, Value::Number)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::report::test_fixture::{fixture, with_db};
+
+    #[test]
+    fn stable_keys_and_values() {
+        with_db(|db| {
+            let result = fixture(db);
+            let text = render(db, &result).unwrap();
+            let v: Value = serde_json::from_str(&text).unwrap();
+            let reformed = &v["streams"]["reformed"];
+            // ISO 80000-5 and 80000-4.
+            assert!((reformed["temperature_K"].as_f64().unwrap() - 1143.15).abs() < 1e-9);
+            assert!((reformed["pressure_bar"].as_f64().unwrap() - 28.0).abs() < 1e-12);
+            // 45 mol/s = 162 kmol/h.
+            assert!((reformed["flow_kmol_h"]["CO"].as_f64().unwrap() - 162.0).abs() < 1e-9);
+            // DIN 1343: 22.414 m3/kmol.
+            let kmol = reformed["total_kmol_h"].as_f64().unwrap();
+            let nm3 = reformed["total_Nm3_h"].as_f64().unwrap();
+            assert!((nm3 / kmol / 22.414 - 1.0).abs() < 1e-4);
+            let h = result.streams[3].stream.enthalpy_w(db).unwrap() / 1e3;
+            assert!((reformed["enthalpy_kW"].as_f64().unwrap() - h).abs() <= 1e-9 * h.abs());
+            // Same species keys in every stream; no species that flows nowhere.
+            let keys = |s: &Value| -> Vec<String> {
+                s["flow_kmol_h"]
+                    .as_object()
+                    .unwrap()
+                    .keys()
+                    .cloned()
+                    .collect()
+            };
+            assert_eq!(keys(reformed), ["CH4", "H2O", "H2", "CO", "CO2", "N2"]);
+            assert_eq!(keys(&v["streams"]["steam"]), keys(reformed));
+            assert!(reformed["mole_percent_dry"].get("H2O").is_none());
+            assert!(v["streams"]["hydrogen"]["destination"].is_null());
+
+            let reformer = &v["units"]["reformer"];
+            assert_eq!(reformer["type"], "reformer");
+            assert_eq!(reformer["inlets"], json!(["mixed-feed"]));
+            assert_eq!(reformer["outlets"], json!(["reformed"]));
+            assert_eq!(reformer["approach_K"]["reforming"], 10.0);
+            assert_eq!(reformer["converged"], true);
+            assert_eq!(reformer["figures"]["methane-slip-dry"]["unit"], "%");
+            let duty = reformer["duty_kW"].as_f64().unwrap();
+            assert!((duty - result.units[1].result.duty_w / 1e3).abs() < 1e-9 * duty.abs());
+            assert_eq!(v["warnings"].as_array().unwrap().len(), 1);
+            assert!(v["cautions"].as_str().unwrap().contains("local codes"));
+            assert!(v["summary"]["hydrogen_product_kmol_h"].as_f64().unwrap() > 1000.0);
+        });
+    }
+
+    #[test]
+    fn order_of_the_result_is_kept() {
+        with_db(|db| {
+            let result = fixture(db);
+            let v = to_value(db, &result).unwrap();
+            let streams: Vec<&String> = v["streams"].as_object().unwrap().keys().collect();
+            let expected: Vec<&String> = result.streams.iter().map(|s| &s.name).collect();
+            assert_eq!(streams, expected);
+            let units: Vec<&String> = v["units"].as_object().unwrap().keys().collect();
+            assert_eq!(
+                units,
+                ["mixer", "reformer", "hts", "cooler", "knockout", "purifier"]
+            );
+        });
+    }
+
+    #[test]
+    fn non_finite_numbers_become_null() {
+        assert!(number(f64::NAN).is_null());
+        assert_eq!(number(1.5), json!(1.5));
+    }
+}

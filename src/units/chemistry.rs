@@ -1,0 +1,175 @@
+//! Chemistry shared by the reforming units: the complete steam reforming of the higher
+//! hydrocarbons (C2+ reformed to CO and H2 before methane and shift come to equilibrium, as on a
+//! nickel catalyst, where their equilibrium lies fully on the side of CO and H2), and the
+//! carbon activity at an outlet by methane cracking (CH4 = C + 2 H2) and Boudouard
+//! (2 CO = C + CO2), a_C > 1 meaning carbon is thermodynamically possible.
+
+use super::common::{figure, spec_error, Key};
+use super::FigureKind;
+use crate::error::{Result, ResultExt};
+use crate::quantity::STANDARD_PRESSURE_PA;
+use crate::reaction::{carbon_activity, Reaction, HYDROCARBON_REFORMING};
+use crate::thermo::SpeciesDb;
+
+/// The reforming reaction of each higher hydrocarbon in the database, prepared once.
+#[derive(Debug, Clone)]
+pub(crate) struct HigherHydrocarbons {
+    /// (species index, stoichiometry of its reforming reaction, products positive).
+    reactions: Vec<(usize, Vec<(usize, f64)>)>,
+}
+
+impl HigherHydrocarbons {
+    pub(crate) fn new(db: &SpeciesDb) -> Result<HigherHydrocarbons> {
+        let mut reactions = Vec::new();
+        for (species, name) in HYDROCARBON_REFORMING {
+            if let Some(i) = db.index_of(species) {
+                let r = Reaction::named(db, name)?;
+                let nu = r.coefficient(i);
+                // Scale to one mole of hydrocarbon consumed per unit extent.
+                let st = r.stoichiometry.iter().map(|(k, v)| (*k, -v / nu)).collect();
+                reactions.push((i, st));
+            }
+        }
+        Ok(HigherHydrocarbons { reactions })
+    }
+
+    /// Higher hydrocarbons in `flows`, mol/s (molecules).
+    pub(crate) fn amount(&self, flows: &[f64]) -> f64 {
+        self.reactions.iter().map(|(i, _)| flows[*i]).sum()
+    }
+
+    /// Reform every higher hydrocarbon in `flows` completely (in place); error when there is not
+    /// enough steam. Returns the amount reformed, mol/s.
+    pub(crate) fn reform(&self, unit: &str, key: &Key, flows: &mut [f64]) -> Result<f64> {
+        let water_in = flows[key.h2o];
+        let mut reformed = 0.0;
+        for (i, st) in &self.reactions {
+            let n = flows[*i];
+            if n > 0.0 {
+                for (k, nu) in st {
+                    if k == i {
+                        flows[*k] = 0.0;
+                    } else {
+                        flows[*k] += nu * n;
+                    }
+                }
+                reformed += n;
+            }
+        }
+        if flows[key.h2o] < 0.0 {
+            return Err(spec_error(
+                unit,
+                "inlet",
+                format!(
+                    "not enough steam to reform the higher hydrocarbons: they need {:.6} mol/s \
+                     of H2O, the inlet has {water_in:.6} mol/s; raise the steam-to-carbon ratio",
+                    water_in - flows[key.h2o]
+                ),
+            ));
+        }
+        Ok(reformed)
+    }
+}
+
+/// Carbon activity checks at an outlet.
+#[derive(Debug, Clone)]
+pub(crate) struct CarbonCheck {
+    cracking: Reaction,
+    boudouard: Reaction,
+}
+
+impl CarbonCheck {
+    pub(crate) fn new(db: &SpeciesDb) -> Result<CarbonCheck> {
+        Ok(CarbonCheck {
+            cracking: Reaction::named(db, "methane-cracking")?,
+            boudouard: Reaction::named(db, "boudouard")?,
+        })
+    }
+
+    /// Add the two carbon-activity figures of a gas (where its species are present) and a
+    /// warning when either exceeds one.
+    pub(crate) fn report(
+        &self,
+        db: &SpeciesDb,
+        unit: &str,
+        outlet: &super::Stream,
+        figures: &mut Vec<super::Figure>,
+        warnings: &mut Vec<String>,
+    ) -> Result<()> {
+        let flows = &outlet.flows;
+        let (temperature_k, pressure_pa) = (outlet.temperature_k, outlet.pressure_pa);
+        let total: f64 = flows.iter().sum();
+        if total <= 0.0 {
+            return Ok(());
+        }
+        let p = |i: usize| flows[i] / total * pressure_pa / STANDARD_PRESSURE_PA;
+        let checks = [
+            (
+                &self.cracking,
+                "carbon-activity-methane-cracking",
+                "carbon activity, methane cracking (CH4 = C + 2 H2)",
+            ),
+            (
+                &self.boudouard,
+                "carbon-activity-boudouard",
+                "carbon activity, Boudouard (2 CO = C + CO2)",
+            ),
+        ];
+        for (reaction, key, label) in checks {
+            let present = reaction.stoichiometry.iter().all(|(i, _)| {
+                db.by_index(*i).phase != crate::thermo::Phase::Gas || flows[*i] > 0.0
+            });
+            if !present {
+                continue;
+            }
+            let a = carbon_activity(db, reaction, temperature_k, p)
+                .context(|| format!("unit '{unit}', carbon activity"))?;
+            figures.push(figure(key, label, a, FigureKind::Number));
+            if a > 1.0 {
+                warnings.push(format!(
+                    "unit '{unit}': carbon activity {a:.3} by {} at the outlet: carbon \
+                     formation thermodynamically possible at the outlet (screening check; \
+                     raise the steam-to-carbon ratio or the temperature)",
+                    reaction.name
+                ));
+            }
+        }
+        Ok(())
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::units::test_support::{db, element_error, flows};
+
+    #[test]
+    fn higher_hydrocarbons_are_reformed_completely_and_balanced() {
+        let db = db();
+        let key = Key::new(&db, "r").unwrap();
+        let hhc = HigherHydrocarbons::new(&db).unwrap();
+        let inlet = flows(
+            &db,
+            &[
+                ("C2H6", 0.1),
+                ("C3H8", 0.02),
+                ("n-C4H10", 0.01),
+                ("H2O", 1.0),
+            ],
+        );
+        let mut out = inlet.clone();
+        let n = hhc.reform("r", &key, &mut out).unwrap();
+        assert!((n - 0.13).abs() < 1e-15);
+        assert_eq!(hhc.amount(&out), 0.0);
+        // C2H6 + 2 H2O = 2 CO + 5 H2, C3H8 + 3 H2O = 3 CO + 7 H2, C4H10 + 4 H2O = 4 CO + 9 H2.
+        assert!((out[key.co] - (0.2 + 0.06 + 0.04)).abs() < 1e-15);
+        assert!((out[key.h2] - (0.5 + 0.14 + 0.09)).abs() < 1e-15);
+        assert!(element_error(&db, &[&inlet], &[&out]) < 1e-14);
+        let mut dry = flows(&db, &[("C2H6", 1.0), ("H2O", 1.0)]);
+        let e = hhc.reform("r", &key, &mut dry).unwrap_err().to_string();
+        assert!(
+            e.contains("unit 'r'") && e.contains("not enough steam"),
+            "{e}"
+        );
+    }
+}

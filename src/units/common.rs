@@ -1,0 +1,453 @@
+//! Helpers shared by the unit operations: inlet and spec checks, energy balances on a fixed
+//! composition (Newton's method on temperature with the exact derivative dH/dT = sum n_i Cp_i),
+//! the water dew point (IAPWS-IF97 saturation line), approach lists, and figure building.
+
+use super::{Figure, FigureKind, Stream, StreamPhase};
+use crate::equilibrium::{EquilibriumStage, StageResult};
+use crate::error::{Error, Result};
+use crate::quantity::{kelvin_to_degc, R_GAS};
+use crate::thermo::{water, Phase, SpeciesDb};
+
+/// Database indices of the species the units look at by name.
+#[derive(Debug, Clone)]
+pub(crate) struct Key {
+    pub h2o: usize,
+    pub h2: usize,
+    pub co: usize,
+    pub co2: usize,
+    pub ch4: usize,
+    /// Hydrocarbons (gas species of carbon and hydrogen only): (index, carbon atoms).
+    pub hydrocarbons: Vec<(usize, f64)>,
+}
+
+impl Key {
+    pub(crate) fn new(db: &SpeciesDb, unit: &str) -> Result<Key> {
+        let ctx = format!(" (needed by unit '{unit}')");
+        Ok(Key {
+            h2o: db.require("H2O", &ctx)?,
+            h2: db.require("H2", &ctx)?,
+            co: db.require("CO", &ctx)?,
+            co2: db.require("CO2", &ctx)?,
+            ch4: db.require("CH4", &ctx)?,
+            hydrocarbons: db
+                .all()
+                .iter()
+                .enumerate()
+                .filter(|(_, s)| {
+                    s.phase == Phase::Gas
+                        && s.atoms("C") > 0.0
+                        && s.atoms("H") > 0.0
+                        && s.elements.len() == 2
+                })
+                .map(|(i, s)| (i, s.atoms("C")))
+                .collect(),
+        })
+    }
+
+    /// Carbon in hydrocarbons (organic carbon, not CO or CO2), mol/s.
+    pub(crate) fn organic_carbon(&self, flows: &[f64]) -> f64 {
+        self.hydrocarbons.iter().map(|(i, c)| flows[*i] * c).sum()
+    }
+
+    /// Steam-to-carbon ratio, H2O / organic carbon (None without organic carbon).
+    pub(crate) fn steam_to_carbon(&self, flows: &[f64]) -> Option<f64> {
+        let c = self.organic_carbon(flows);
+        (c > 0.0).then(|| flows[self.h2o] / c)
+    }
+}
+
+/// A spec error naming the unit and the field.
+pub(crate) fn spec_error(unit: &str, field: &str, reason: impl Into<String>) -> Error {
+    Error::UnitSpec {
+        unit: unit.to_string(),
+        field: field.to_string(),
+        reason: reason.into(),
+    }
+}
+
+/// Check the number of inlets and that each is a well-formed stream for this database.
+pub(crate) fn check_inlets(
+    db: &SpeciesDb,
+    unit: &str,
+    type_name: &str,
+    inlets: &[&Stream],
+    min: usize,
+    max: Option<usize>,
+) -> Result<()> {
+    let n = inlets.len();
+    if n < min || max.is_some_and(|m| n > m) {
+        let wanted = match max {
+            Some(m) if m == min => format!("exactly {min}"),
+            Some(m) => format!("{min} to {m}"),
+            None => format!("at least {min}"),
+        };
+        return Err(spec_error(
+            unit,
+            "inlets",
+            format!("a {type_name} takes {wanted} inlet stream(s), {n} given"),
+        ));
+    }
+    for (k, s) in inlets.iter().enumerate() {
+        let field = format!("inlet {}", k + 1);
+        if s.flows.len() != db.len() {
+            return Err(spec_error(
+                unit,
+                &field,
+                format!(
+                    "has {} flows, expected one per database species ({})",
+                    s.flows.len(),
+                    db.len()
+                ),
+            ));
+        }
+        if let Some((i, v)) = s
+            .flows
+            .iter()
+            .enumerate()
+            .find(|(_, v)| !(v.is_finite() && **v >= 0.0))
+        {
+            return Err(spec_error(
+                unit,
+                &field,
+                format!(
+                    "flow of {} is {v} mol/s; flows must be finite and non-negative",
+                    db.by_index(i).name
+                ),
+            ));
+        }
+        if !(s.temperature_k.is_finite() && s.temperature_k > 0.0) {
+            return Err(spec_error(
+                unit,
+                &field,
+                format!("temperature {} K must be positive", s.temperature_k),
+            ));
+        }
+        if !(s.pressure_pa.is_finite() && s.pressure_pa > 0.0) {
+            return Err(spec_error(
+                unit,
+                &field,
+                format!("pressure {} Pa must be positive", s.pressure_pa),
+            ));
+        }
+    }
+    Ok(())
+}
+
+/// Refuse liquid inlets and solids in units that work on the gas only.
+pub(crate) fn require_vapour(db: &SpeciesDb, unit: &str, inlets: &[&Stream]) -> Result<()> {
+    for (k, s) in inlets.iter().enumerate() {
+        if s.phase == StreamPhase::Liquid {
+            return Err(spec_error(
+                unit,
+                &format!("inlet {}", k + 1),
+                "is liquid (condensate); this unit takes vapour only: vaporise the water in a \
+                 heater-boiler outside the model or feed it as steam",
+            ));
+        }
+        if let Some((i, _)) = s
+            .flows
+            .iter()
+            .enumerate()
+            .find(|(i, v)| **v > 0.0 && db.by_index(*i).phase != Phase::Gas)
+        {
+            return Err(spec_error(
+                unit,
+                &format!("inlet {}", k + 1),
+                format!(
+                    "carries the solid {}; process streams are gas only",
+                    db.by_index(i).name
+                ),
+            ));
+        }
+    }
+    Ok(())
+}
+
+/// Outlet pressure after a pressure drop; the drop must be finite, non-negative and leave P > 0.
+pub(crate) fn outlet_pressure(unit: &str, inlet_pa: f64, drop_pa: f64) -> Result<f64> {
+    if !(drop_pa.is_finite() && drop_pa >= 0.0) {
+        return Err(spec_error(
+            unit,
+            "pressure-drop",
+            format!("{drop_pa} Pa must be finite and not negative"),
+        ));
+    }
+    let p = inlet_pa - drop_pa;
+    if p > 0.0 {
+        Ok(p)
+    } else {
+        Err(spec_error(
+            unit,
+            "pressure-drop",
+            format!(
+                "{:.4} bar is not less than the inlet pressure {:.4} bar; give a smaller drop",
+                drop_pa / 1e5,
+                inlet_pa / 1e5
+            ),
+        ))
+    }
+}
+
+/// Temperature range (K) in which every species with a non-zero flow has data.
+pub(crate) fn data_range(db: &SpeciesDb, flows: &[f64]) -> (f64, f64) {
+    let mut lo: f64 = 0.0;
+    let mut hi: f64 = f64::INFINITY;
+    for (i, n) in flows.iter().enumerate() {
+        if *n != 0.0 {
+            let nasa = &db.by_index(i).nasa7;
+            lo = lo.max(nasa.t_min_k);
+            hi = hi.min(nasa.t_max_k);
+        }
+    }
+    (lo, hi)
+}
+
+/// Error unless `t` is inside the data range of every species present (no extrapolation).
+pub(crate) fn check_temperature(
+    db: &SpeciesDb,
+    unit: &str,
+    field: &str,
+    flows: &[f64],
+    t: f64,
+) -> Result<()> {
+    let (lo, hi) = data_range(db, flows);
+    if t.is_finite() && t >= lo && t <= hi {
+        Ok(())
+    } else {
+        Err(spec_error(
+            unit,
+            field,
+            format!(
+                "{t:.2} K ({:.2} degC) is outside the species data range {lo:.2}-{hi:.2} K of \
+                 this stream (no extrapolation is done)",
+                kelvin_to_degc(t)
+            ),
+        ))
+    }
+}
+
+/// Enthalpy (W) and heat capacity (W/K) of a fixed composition at `t` (no range check).
+fn enthalpy_and_cp(db: &SpeciesDb, flows: &[f64], t: f64) -> (f64, f64) {
+    let (mut h, mut cp) = (0.0, 0.0);
+    for (i, n) in flows.iter().enumerate() {
+        if *n != 0.0 {
+            let nasa = &db.by_index(i).nasa7;
+            h += n * nasa.h_rt(t);
+            cp += n * nasa.cp_r(t);
+        }
+    }
+    (h * R_GAS * t, cp * R_GAS)
+}
+
+/// Temperature (K) at which a fixed vapour composition has enthalpy `target_w`: Newton's method
+/// with dH/dT = sum n_i Cp_i inside the data-range bracket, bisection when a step leaves it.
+pub(crate) fn temperature_at_enthalpy(
+    db: &SpeciesDb,
+    unit: &str,
+    flows: &[f64],
+    target_w: f64,
+    start_k: f64,
+) -> Result<f64> {
+    let (mut lo, mut hi) = data_range(db, flows);
+    let total: f64 = flows.iter().sum();
+    if total <= 0.0 {
+        return Ok(start_k);
+    }
+    let (h_lo, _) = enthalpy_and_cp(db, flows, lo);
+    let (h_hi, _) = enthalpy_and_cp(db, flows, hi);
+    if !(target_w >= h_lo && target_w <= h_hi) {
+        return Err(spec_error(
+            unit,
+            "energy balance",
+            format!(
+                "the outlet temperature would lie outside the species data range \
+                 {lo:.2}-{hi:.2} K (no extrapolation is done); check the duty"
+            ),
+        ));
+    }
+    let scale = target_w.abs().max(total * R_GAS * start_k);
+    let mut t = start_k.clamp(lo, hi);
+    for _ in 0..100 {
+        let (h, cp) = enthalpy_and_cp(db, flows, t);
+        let f = h - target_w;
+        if f.abs() <= 1e-14 * scale {
+            return Ok(t);
+        }
+        if f > 0.0 {
+            hi = t;
+        } else {
+            lo = t;
+        }
+        let mut next = t - f / cp;
+        if !(next > lo && next < hi) {
+            next = 0.5 * (lo + hi);
+        }
+        if (next - t).abs() <= 1e-12 * t {
+            return Ok(next);
+        }
+        t = next;
+    }
+    Err(Error::NotConverged {
+        what: format!("energy balance of unit '{unit}'"),
+        iterations: 100,
+        residual: f64::NAN,
+        hint: String::new(),
+    })
+}
+
+/// Enthalpy of a set of streams, W.
+pub(crate) fn enthalpy_sum(db: &SpeciesDb, streams: &[&Stream]) -> Result<f64> {
+    let mut h = 0.0;
+    for s in streams {
+        h += s.enthalpy_w(db)?;
+    }
+    Ok(h)
+}
+
+/// Water dew point of a vapour stream at its own pressure, K (None when the water partial
+/// pressure lies below the triple point or above the critical pressure, or there is no water).
+pub(crate) fn dew_point_k(key: &Key, flows: &[f64], pressure_pa: f64) -> Option<f64> {
+    let total: f64 = flows.iter().sum();
+    if total <= 0.0 {
+        return None;
+    }
+    let p_w = flows[key.h2o] / total * pressure_pa;
+    water::saturation_temperature_k(p_w).ok()
+}
+
+/// Mole fraction on a dry basis (water left out) of species `i`.
+pub(crate) fn dry_fraction(key: &Key, flows: &[f64], i: usize) -> f64 {
+    let dry: f64 = flows.iter().sum::<f64>() - flows[key.h2o];
+    if dry > 0.0 && i != key.h2o {
+        flows[i] / dry
+    } else {
+        0.0
+    }
+}
+
+/// Approach temperature of each of `allowed` reactions from a (name, K) list; unknown names,
+/// repeats and non-finite values are errors naming the unit.
+pub(crate) fn resolve_approaches(
+    unit: &str,
+    given: &[(String, f64)],
+    allowed: &[&str],
+) -> Result<Vec<f64>> {
+    let mut out = vec![0.0; allowed.len()];
+    let mut seen = vec![false; allowed.len()];
+    for (name, value) in given {
+        let Some(j) = allowed.iter().position(|a| a == name) else {
+            return Err(spec_error(
+                unit,
+                "approach",
+                format!(
+                    "reaction '{name}' is not part of this unit; its reactions are: {}",
+                    allowed.join(", ")
+                ),
+            ));
+        };
+        if seen[j] {
+            return Err(spec_error(
+                unit,
+                "approach",
+                format!("reaction '{name}' is given twice"),
+            ));
+        }
+        if !value.is_finite() {
+            return Err(spec_error(
+                unit,
+                "approach",
+                format!("{name}: {value} K must be a finite temperature difference"),
+            ));
+        }
+        seen[j] = true;
+        out[j] = *value;
+    }
+    Ok(out)
+}
+
+/// Solve a prepared stage; errors and an unconverged result are reported with the unit's name.
+pub(crate) fn run_stage(
+    stage: &EquilibriumStage,
+    db: &SpeciesDb,
+    unit: &str,
+    inlet: crate::equilibrium::StageInlet<'_>,
+    mode: crate::equilibrium::EnergyMode,
+    guess: Option<&[f64]>,
+) -> Result<StageResult> {
+    let r = stage
+        .solve(db, inlet, mode, guess)
+        .map_err(|e| e.context(format!("unit '{unit}'")))?;
+    if !r.converged {
+        return Err(Error::NotConverged {
+            what: "equilibrium stage".into(),
+            iterations: r.iterations,
+            residual: r.max_residual().max(r.energy_residual),
+            hint: "; check the inlet composition, temperatures and approaches".into(),
+        }
+        .context(format!("unit '{unit}'")));
+    }
+    Ok(r)
+}
+
+/// The (reaction name, approach) pairs a stage used.
+pub(crate) fn stage_approaches(stage: &EquilibriumStage) -> Vec<(String, f64)> {
+    stage
+        .reactions()
+        .iter()
+        .map(|r| (r.reaction.name.clone(), r.approach_k))
+        .collect()
+}
+
+/// A figure.
+pub(crate) fn figure(key: &str, label: &str, value: f64, kind: FigureKind) -> Figure {
+    Figure {
+        key: key.to_string(),
+        label: label.to_string(),
+        value,
+        kind,
+    }
+}
+
+/// A temperature for messages: "412.3 degC".
+pub(crate) fn degc(t_k: f64) -> String {
+    format!("{:.1} degC", kelvin_to_degc(t_k))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::units::test_support::{db, flows};
+
+    #[test]
+    fn newton_on_temperature_inverts_the_enthalpy() {
+        let db = db();
+        let n = flows(&db, &[("H2", 3.0), ("CO", 1.0), ("H2O", 2.0)]);
+        let h = crate::thermo::mixture::enthalpy(&db, &n, 812.34).unwrap();
+        let t = temperature_at_enthalpy(&db, "u", &n, h, 400.0).unwrap();
+        assert!((t - 812.34).abs() < 1e-9);
+        // Outside the data range (200-3000 K here) is an error, not an extrapolation.
+        assert!(temperature_at_enthalpy(&db, "u", &n, h * 10.0, 400.0).is_err());
+    }
+
+    #[test]
+    fn dew_point_follows_the_saturation_line() {
+        // IAPWS-IF97 Table 36: T_s(0.1 MPa) = 372.755919 K; water at 0.1 MPa partial pressure.
+        let db = db();
+        let key = Key::new(&db, "u").unwrap();
+        let n = flows(&db, &[("H2", 1.0), ("H2O", 1.0)]);
+        let t = dew_point_k(&key, &n, 2.0e5).unwrap();
+        assert!((t - 372.755_919).abs() < 1e-6);
+        assert!(dew_point_k(&key, &flows(&db, &[("H2", 1.0)]), 2.0e5).is_none());
+    }
+
+    #[test]
+    fn approaches_are_checked() {
+        let a = resolve_approaches("r", &[("shift".into(), 5.0)], &["reforming", "shift"]);
+        assert_eq!(a.unwrap(), vec![0.0, 5.0]);
+        let e = resolve_approaches("r", &[("shfit".into(), 5.0)], &["reforming", "shift"]);
+        assert!(e.unwrap_err().to_string().contains("unit 'r'"));
+        assert!(resolve_approaches("r", &[("shift".into(), f64::NAN)], &["shift"]).is_err());
+        assert!(outlet_pressure("r", 1e5, 2e5).is_err());
+        assert!(outlet_pressure("r", 1e5, -1.0).is_err());
+    }
+}

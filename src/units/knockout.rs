@@ -1,0 +1,261 @@
+//! Knockout drum: cools the gas to the drum temperature (or keeps the inlet's) and condenses
+//! water at that temperature and pressure.
+//!
+//! Raoult's law for water over pure liquid water, the rest insoluble: when the gas would be
+//! supersaturated, y_H2O = p_sat(T) / P with p_sat from IAPWS-IF97 eq. (30)
+//! ([`crate::thermo::water::saturation_pressure_pa`]), i.e. the gas keeps
+//! n_H2O = y_sat n_dry / (1 - y_sat) and the rest leaves as condensate. The condensate's
+//! enthalpy is the ideal-gas water enthalpy less the latent heat of vaporisation (IAPWS
+//! SR1-86(1992), [`crate::thermo::water::latent_heat_j_per_mol`]); the pressure effect on the
+//! liquid is neglected. Duty = H(gas) + H(condensate) - H(inlet).
+
+use super::common::{
+    check_inlets, check_temperature, degc, dew_point_k, figure, outlet_pressure, require_vapour,
+    spec_error, Key,
+};
+use super::{FigureKind, Stream, StreamPhase, UnitResult};
+use crate::error::{Result, ResultExt};
+use crate::thermo::{water, SpeciesDb};
+
+/// Lowest drum temperature, K: the triple point of water (IAPWS), where the latent-heat
+/// correlation starts.
+const TRIPLE_POINT_K: f64 = 273.16;
+
+/// Specification of a knockout drum.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct KnockoutSpec {
+    /// Drum temperature, K; `None` keeps the inlet temperature.
+    pub temperature_k: Option<f64>,
+    /// Pressure drop, Pa.
+    pub pressure_drop_pa: f64,
+}
+
+/// A knockout drum ready to solve.
+#[derive(Debug, Clone)]
+pub struct Knockout {
+    name: String,
+    spec: KnockoutSpec,
+    key: Key,
+}
+
+impl Knockout {
+    /// Check the spec and prepare.
+    pub fn new(db: &SpeciesDb, name: &str, spec: &KnockoutSpec) -> Result<Knockout> {
+        if let Some(t) = spec.temperature_k {
+            if !(t.is_finite() && t >= TRIPLE_POINT_K) {
+                return Err(spec_error(
+                    name,
+                    "temperature",
+                    format!(
+                        "{t} K: a knockout drum works above the triple point of water \
+                         (273.16 K, 0.01 degC)"
+                    ),
+                ));
+            }
+        }
+        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        Ok(Knockout {
+            name: name.to_string(),
+            spec: spec.clone(),
+            key: Key::new(db, name)?,
+        })
+    }
+
+    /// The spec.
+    pub fn spec(&self) -> &KnockoutSpec {
+        &self.spec
+    }
+
+    /// Cool and separate; outlets [gas, condensate].
+    pub fn solve(&self, db: &SpeciesDb, inlets: &[&Stream]) -> Result<UnitResult> {
+        let name = &self.name;
+        let w = self.key.h2o;
+        check_inlets(db, name, "knockout", inlets, 1, Some(1))?;
+        require_vapour(db, name, inlets)?;
+        let inlet = inlets[0];
+        let t = self.spec.temperature_k.unwrap_or(inlet.temperature_k);
+        if t > inlet.temperature_k {
+            return Err(spec_error(
+                name,
+                "temperature",
+                format!(
+                    "a knockout cools: inlet {}, drum {}; heat the gas in a heater instead",
+                    degc(inlet.temperature_k),
+                    degc(t)
+                ),
+            ));
+        }
+        check_temperature(db, name, "temperature", &inlet.flows, t)?;
+        let p = outlet_pressure(name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
+        let mut gas = inlet.flows.clone();
+        let mut condensate = vec![0.0; db.len()];
+        let water_in = inlet.flows[w];
+        let dry: f64 = inlet.flows.iter().sum::<f64>() - water_in;
+        let mut warnings = Vec::new();
+        if t < TRIPLE_POINT_K {
+            return Err(spec_error(
+                name,
+                "temperature",
+                format!("{t} K is below the triple point of water (273.16 K): it would freeze"),
+            ));
+        }
+        if t < water::CRITICAL_TEMPERATURE_K {
+            let p_sat = water::saturation_pressure_pa(t).context(|| format!("unit '{name}'"))?;
+            let y_sat = p_sat / p;
+            if y_sat < 1.0 {
+                let held = y_sat * dry / (1.0 - y_sat);
+                if water_in > held {
+                    gas[w] = held;
+                    condensate[w] = water_in - held;
+                }
+            }
+        } else if water_in > 0.0 {
+            warnings.push(format!(
+                "unit '{name}': at {} (above the critical temperature of water) nothing \
+                 condenses",
+                degc(t)
+            ));
+        }
+        let gas = Stream::vapour(gas, t, p);
+        let condensate = Stream {
+            flows: condensate,
+            temperature_k: t,
+            pressure_pa: p,
+            phase: StreamPhase::Liquid,
+        };
+        let h_in = inlet
+            .enthalpy_w(db)
+            .context(|| format!("unit '{name}', inlet enthalpy"))?;
+        let h_out = gas.enthalpy_w(db)? + condensate.enthalpy_w(db)?;
+        let mut figures = vec![
+            figure(
+                "condensate-flow",
+                "condensate",
+                condensate.flows[w],
+                FigureKind::MolarFlow,
+            ),
+            figure(
+                "gas-water",
+                "water in the gas outlet",
+                gas.mole_fraction(w),
+                FigureKind::Fraction,
+            ),
+        ];
+        if let Some(dew) = dew_point_k(&self.key, &inlet.flows, inlet.pressure_pa) {
+            figures.push(figure(
+                "inlet-dew-point",
+                "water dew point of the inlet",
+                dew,
+                FigureKind::Temperature,
+            ));
+        }
+        Ok(UnitResult {
+            outlets: vec![gas, condensate],
+            duty_w: h_out - h_in,
+            approaches: Vec::new(),
+            figures,
+            equilibrium: None,
+            warnings,
+        })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::units::test_support::{assert_balances, db, fig, gas};
+
+    #[test]
+    fn condensate_leaves_the_gas_saturated_per_iapws_if97() {
+        // IAPWS-IF97 eq. (30): the gas leaves with y_H2O P = p_sat(T); Table 35 gives
+        // p_sat(300 K) = 0.353658941e-2 MPa.
+        let db = db();
+        let inlet = gas(
+            &db,
+            &[("H2", 0.75), ("CO2", 0.18), ("CH4", 0.04), ("H2O", 0.35)],
+            450.0,
+            25e5,
+        );
+        let ko = Knockout::new(
+            &db,
+            "ko",
+            &KnockoutSpec {
+                temperature_k: Some(300.0),
+                pressure_drop_pa: 0.5e5,
+            },
+        )
+        .unwrap();
+        let r = ko.solve(&db, &[&inlet]).unwrap();
+        assert_balances(&db, &[&inlet], &r);
+        let w = db.index_of("H2O").unwrap();
+        let g = &r.outlets[0];
+        let y_p = g.mole_fraction(w) * g.pressure_pa;
+        assert!((y_p / 0.353_658_941e4 - 1.0).abs() < 1e-9, "y P = {y_p}");
+        let c = &r.outlets[1];
+        assert_eq!(c.phase, StreamPhase::Liquid);
+        assert!((c.flows[w] + g.flows[w] - 0.35).abs() < 1e-15);
+        assert_eq!(c.total(), c.flows[w]);
+        assert!(r.duty_w < 0.0);
+        assert!((fig(&r, "condensate-flow") - c.flows[w]).abs() < 1e-15);
+        let dew = fig(&r, "inlet-dew-point");
+        assert!(dew > 400.0 && dew < 450.0, "{dew}");
+    }
+
+    #[test]
+    fn condensing_duty_includes_the_latent_heat() {
+        // Pure steam at 1 bar condensed at 372 K (below T_s(0.1 MPa) = 372.756 K, IAPWS-IF97
+        // Table 36): almost all of it condenses, and the heat removed is the ideal-gas cooling
+        // plus the latent heat at 372 K (IAPWS SR1-86; about 40.7 kJ/mol near 100 degC).
+        let db = db();
+        let inlet = gas(&db, &[("H2O", 1.0), ("N2", 0.001)], 400.0, 1.0e5);
+        let ko = Knockout::new(
+            &db,
+            "ko",
+            &KnockoutSpec {
+                temperature_k: Some(372.0),
+                pressure_drop_pa: 0.0,
+            },
+        )
+        .unwrap();
+        let r = ko.solve(&db, &[&inlet]).unwrap();
+        assert_balances(&db, &[&inlet], &r);
+        let w = db.index_of("H2O").unwrap();
+        let cond = r.outlets[1].flows[w];
+        assert!(cond > 0.9, "{cond}");
+        let sp = db.by_index(w);
+        let expected = sp.enthalpy(372.0).unwrap()
+            - sp.enthalpy(400.0).unwrap()
+            - cond * water::latent_heat_j_per_mol(372.0).unwrap()
+            + db.get("N2").unwrap().enthalpy(372.0).unwrap() * 0.001
+            - db.get("N2").unwrap().enthalpy(400.0).unwrap() * 0.001;
+        assert!((r.duty_w - expected).abs() < 1e-9 * expected.abs());
+        assert!(r.duty_w < -36_000.0);
+    }
+
+    #[test]
+    fn dry_gas_keeps_its_water_and_bad_specs_are_refused() {
+        let db = db();
+        let inlet = gas(&db, &[("H2", 1.0), ("H2O", 0.001)], 320.0, 20e5);
+        let ko = Knockout::new(&db, "ko", &KnockoutSpec::default()).unwrap();
+        let r = ko.solve(&db, &[&inlet]).unwrap();
+        assert_balances(&db, &[&inlet], &r);
+        assert_eq!(r.outlets[1].total(), 0.0);
+        assert_eq!(r.outlets[0].flows, inlet.flows);
+        let hot = Knockout::new(
+            &db,
+            "ko",
+            &KnockoutSpec {
+                temperature_k: Some(400.0),
+                pressure_drop_pa: 0.0,
+            },
+        )
+        .unwrap();
+        let e = hot.solve(&db, &[&inlet]).unwrap_err().to_string();
+        assert!(e.contains("unit 'ko'") && e.contains("cools"), "{e}");
+        let frozen = KnockoutSpec {
+            temperature_k: Some(260.0),
+            pressure_drop_pa: 0.0,
+        };
+        assert!(Knockout::new(&db, "ko", &frozen).is_err());
+    }
+}

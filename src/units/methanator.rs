@@ -1,0 +1,236 @@
+//! Methanator: the last CO and CO2 turned back to methane over nickel. `reforming` runs backward
+//! (CO + 3 H2 = CH4 + H2O; approach taken in that, its exothermic, direction) and `shift` in the
+//! direction the solve finds, in one adiabatic equilibrium stage.
+//!
+//! Beside the computed temperature rise the rule of thumb is reported (common practice: about
+//! 74 K per 1 % CO and 60 K per 1 % CO2 converted, mole % of the inlet).
+//!
+//! At zero approach the outlet is at equilibrium, which at 300-350 degC leaves far below 1 ppm
+//! of CO + CO2; a real bed, limited by its kinetics, leaves a few ppm. Use the approach
+//! temperatures to represent a bed short of equilibrium.
+
+use super::common::{
+    check_inlets, dry_fraction, figure, outlet_pressure, require_vapour, resolve_approaches,
+    run_stage, stage_approaches, Key,
+};
+use super::{FigureKind, Stream, UnitResult};
+use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet, StageReaction};
+use crate::error::{Result, ResultExt};
+use crate::reaction::Reaction;
+use crate::thermo::SpeciesDb;
+
+/// The reactions of a methanator's equilibrium stage, in stage order.
+pub const METHANATOR_REACTIONS: [&str; 2] = ["reforming", "shift"];
+
+/// Rule-of-thumb rise per 1 mol % CO converted, K (common practice).
+pub const RISE_PER_PERCENT_CO_K: f64 = 74.0;
+/// Rule-of-thumb rise per 1 mol % CO2 converted, K (common practice).
+pub const RISE_PER_PERCENT_CO2_K: f64 = 60.0;
+/// Temperature rise above which the methanator warns, K (common practice: a normal rise is
+/// 20-30 K; a large one points to CO or CO2 slipping from upstream).
+pub const LARGE_RISE_K: f64 = 50.0;
+
+/// Specification of an adiabatic methanator.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct MethanatorSpec {
+    /// Pressure drop across the bed, Pa.
+    pub pressure_drop_pa: f64,
+    /// Approach temperature by reaction name (`reforming`, `shift`), K; unlisted ones are zero.
+    pub approaches: Vec<(String, f64)>,
+}
+
+/// A methanator ready to solve.
+#[derive(Debug, Clone)]
+pub struct Methanator {
+    name: String,
+    spec: MethanatorSpec,
+    key: Key,
+    stage: EquilibriumStage,
+}
+
+impl Methanator {
+    /// Check the spec and build the equilibrium stage.
+    pub fn new(db: &SpeciesDb, name: &str, spec: &MethanatorSpec) -> Result<Methanator> {
+        let approaches = resolve_approaches(name, &spec.approaches, &METHANATOR_REACTIONS)?;
+        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        let directions = [Direction::Backward, Direction::Auto];
+        let mut reactions = Vec::with_capacity(2);
+        for ((r, a), d) in METHANATOR_REACTIONS.iter().zip(&approaches).zip(directions) {
+            reactions.push(StageReaction {
+                reaction: Reaction::named(db, r)?,
+                approach_k: *a,
+                direction: d,
+            });
+        }
+        let stage = EquilibriumStage::new(db, reactions).context(|| format!("unit '{name}'"))?;
+        Ok(Methanator {
+            name: name.to_string(),
+            spec: spec.clone(),
+            key: Key::new(db, name)?,
+            stage,
+        })
+    }
+
+    /// The spec.
+    pub fn spec(&self) -> &MethanatorSpec {
+        &self.spec
+    }
+
+    /// Solve; `guess`: the stage extents of a previous solve (a warm start).
+    pub fn solve(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+    ) -> Result<UnitResult> {
+        let name = &self.name;
+        let key = &self.key;
+        check_inlets(db, name, "methanator", inlets, 1, Some(1))?;
+        require_vapour(db, name, inlets)?;
+        let inlet = inlets[0];
+        let t_in = inlet.temperature_k;
+        let p = outlet_pressure(name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
+        let stage = run_stage(
+            &self.stage,
+            db,
+            name,
+            StageInlet {
+                flows: &inlet.flows,
+                temperature_k: t_in,
+                pressure_pa: p,
+            },
+            EnergyMode::Adiabatic,
+            guess,
+        )?;
+        let t_out = stage.outlet_temperature_k;
+        let out = stage.outlet_flows.clone();
+        let total_out: f64 = out.iter().sum();
+        let oxides = out[key.co] + out[key.co2];
+        let rise = t_out - t_in;
+        let n_in = inlet.total();
+        let (d_co, d_co2) = if n_in > 0.0 {
+            (
+                100.0 * (inlet.flows[key.co] - out[key.co]) / n_in,
+                100.0 * (inlet.flows[key.co2] - out[key.co2]) / n_in,
+            )
+        } else {
+            (0.0, 0.0)
+        };
+        let rule = RISE_PER_PERCENT_CO_K * d_co + RISE_PER_PERCENT_CO2_K * d_co2;
+        let figures = vec![
+            figure(
+                "co-co2-wet",
+                "CO + CO2 at the outlet, wet",
+                if total_out > 0.0 {
+                    oxides / total_out
+                } else {
+                    0.0
+                },
+                FigureKind::Ppm,
+            ),
+            figure(
+                "co-co2-dry",
+                "CO + CO2 at the outlet, dry",
+                dry_fraction(key, &out, key.co) + dry_fraction(key, &out, key.co2),
+                FigureKind::Ppm,
+            ),
+            figure(
+                "temperature-rise",
+                "temperature rise",
+                rise,
+                FigureKind::TemperatureDifference,
+            ),
+            figure(
+                "temperature-rise-rule-of-thumb",
+                "temperature rise by rule of thumb (74 K per % CO, 60 K per % CO2 converted; \
+                 common practice)",
+                rule,
+                FigureKind::TemperatureDifference,
+            ),
+        ];
+        let mut warnings = Vec::new();
+        if rise > LARGE_RISE_K {
+            warnings.push(format!(
+                "unit '{name}': temperature rise {rise:.1} K is large (common practice: 20-30 K \
+                 is normal; check for CO or CO2 slipping from upstream, and the bed's design \
+                 temperature)"
+            ));
+        }
+        Ok(UnitResult {
+            outlets: vec![Stream::vapour(out, t_out, p)],
+            duty_w: 0.0,
+            approaches: stage_approaches(&self.stage),
+            figures,
+            equilibrium: Some(stage),
+            warnings,
+        })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::units::test_support::{assert_balances, db, fig, gas};
+
+    /// A gas after CO2 removal (invented demo composition): 0.3 % CO, 0.1 % CO2, mol/s.
+    fn feed(db: &SpeciesDb, co: f64, co2: f64) -> Stream {
+        let pairs = [
+            ("H2", 0.975 - co - co2),
+            ("CH4", 0.012),
+            ("N2", 0.003),
+            ("H2O", 0.01),
+            ("CO", co),
+            ("CO2", co2),
+        ];
+        gas(db, &pairs, 573.15, 25e5)
+    }
+
+    #[test]
+    fn methanator_leaves_under_10_ppm_with_the_rule_of_thumb_rise() {
+        // Common practice: methanator at about 280-320 degC leaves CO + CO2 below 10 ppm, with a
+        // rise of about 74 K per % CO and 60 K per % CO2 converted.
+        let db = db();
+        let inlet = feed(&db, 0.003, 0.001);
+        let m = Methanator::new(&db, "meth", &MethanatorSpec::default()).unwrap();
+        let r = m.solve(&db, &[&inlet], None).unwrap();
+        assert_balances(&db, &[&inlet], &r);
+        let ppm = fig(&r, "co-co2-dry") * 1e6;
+        assert!(ppm < 10.0, "{ppm} ppm");
+        let rise = fig(&r, "temperature-rise");
+        let rule = fig(&r, "temperature-rise-rule-of-thumb");
+        assert!((rule - 28.2).abs() < 0.1, "rule {rule}");
+        assert!(
+            (rise - rule).abs() < 0.1 * rule,
+            "rise {rise} vs rule {rule}"
+        );
+        assert!(r.warnings.is_empty());
+        let eq = r.equilibrium.as_ref().unwrap();
+        assert!(eq.converged && eq.extents[0] < 0.0);
+        // With an approach in the exothermic direction the equilibrium is taken hotter.
+        let spec = MethanatorSpec {
+            pressure_drop_pa: 0.2e5,
+            approaches: vec![("reforming".into(), 20.0)],
+        };
+        let m20 = Methanator::new(&db, "meth", &spec).unwrap();
+        let r20 = m20.solve(&db, &[&inlet], Some(&eq.extents)).unwrap();
+        assert_balances(&db, &[&inlet], &r20);
+        let e20 = r20.equilibrium.as_ref().unwrap();
+        assert!(
+            (e20.equilibrium_temperatures_k[0] - r20.outlets[0].temperature_k - 20.0).abs() < 1e-9
+        );
+        assert!(fig(&r20, "co-co2-dry") > fig(&r, "co-co2-dry"));
+    }
+
+    #[test]
+    fn co2_breakthrough_gives_a_large_rise_warning() {
+        let db = db();
+        let inlet = feed(&db, 0.004, 0.01);
+        let r = Methanator::new(&db, "meth", &MethanatorSpec::default())
+            .unwrap()
+            .solve(&db, &[&inlet], None)
+            .unwrap();
+        assert_balances(&db, &[&inlet], &r);
+        assert!(fig(&r, "temperature-rise") > LARGE_RISE_K);
+        assert!(r.warnings[0].contains("large"), "{:?}", r.warnings);
+    }
+}

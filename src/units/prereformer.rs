@@ -1,0 +1,206 @@
+//! Adiabatic pre-reformer: the higher hydrocarbons are reformed completely, then `reforming`
+//! (which may run backward, toward methane; direction decided by the solve) and `shift` come to
+//! equilibrium at their approach temperatures in one adiabatic stage.
+//!
+//! The energy balance is exact over the whole unit: the complete conversion of the higher
+//! hydrocarbons is passed to the equilibrium stage as its inlet at the inlet temperature, with a
+//! fixed duty equal to H(original inlet) - H(converted inlet), both at the inlet temperature, so
+//! that H_out = H_in overall and the unit's duty is zero. The stage's own result
+//! ([`UnitResult::equilibrium`]) therefore shows that internal duty, on the converted basis.
+
+use super::chemistry::{CarbonCheck, HigherHydrocarbons};
+use super::common::{
+    check_inlets, dry_fraction, figure, outlet_pressure, require_vapour, resolve_approaches,
+    run_stage, stage_approaches, Key,
+};
+use super::{FigureKind, Stream, UnitResult};
+use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet, StageReaction};
+use crate::error::{Result, ResultExt};
+use crate::reaction::Reaction;
+use crate::thermo::{mixture, SpeciesDb};
+
+/// The reactions of a pre-reformer's equilibrium stage, in stage order.
+pub const PREREFORMER_REACTIONS: [&str; 2] = ["reforming", "shift"];
+
+/// Specification of an adiabatic pre-reformer.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct PrereformerSpec {
+    /// Pressure drop across the bed, Pa.
+    pub pressure_drop_pa: f64,
+    /// Approach temperature by reaction name (`reforming`, `shift`), K; unlisted ones are zero.
+    pub approaches: Vec<(String, f64)>,
+}
+
+/// A pre-reformer ready to solve.
+#[derive(Debug, Clone)]
+pub struct Prereformer {
+    name: String,
+    spec: PrereformerSpec,
+    key: Key,
+    stage: EquilibriumStage,
+    higher: HigherHydrocarbons,
+    carbon: CarbonCheck,
+}
+
+impl Prereformer {
+    /// Check the spec and build the equilibrium stage.
+    pub fn new(db: &SpeciesDb, name: &str, spec: &PrereformerSpec) -> Result<Prereformer> {
+        let approaches = resolve_approaches(name, &spec.approaches, &PREREFORMER_REACTIONS)?;
+        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        let mut reactions = Vec::with_capacity(2);
+        for (r, a) in PREREFORMER_REACTIONS.iter().zip(&approaches) {
+            reactions.push(StageReaction {
+                reaction: Reaction::named(db, r)?,
+                approach_k: *a,
+                direction: Direction::Auto,
+            });
+        }
+        let stage = EquilibriumStage::new(db, reactions).context(|| format!("unit '{name}'"))?;
+        Ok(Prereformer {
+            name: name.to_string(),
+            spec: spec.clone(),
+            key: Key::new(db, name)?,
+            stage,
+            higher: HigherHydrocarbons::new(db)?,
+            carbon: CarbonCheck::new(db)?,
+        })
+    }
+
+    /// The spec.
+    pub fn spec(&self) -> &PrereformerSpec {
+        &self.spec
+    }
+
+    /// Solve; `guess`: the stage extents of a previous solve (a warm start).
+    pub fn solve(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+    ) -> Result<UnitResult> {
+        let name = &self.name;
+        let key = &self.key;
+        check_inlets(db, name, "prereformer", inlets, 1, Some(1))?;
+        require_vapour(db, name, inlets)?;
+        let inlet = inlets[0];
+        let t_in = inlet.temperature_k;
+        let p = outlet_pressure(name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
+        let higher_in = self.higher.amount(&inlet.flows);
+        let mut converted = inlet.flows.clone();
+        self.higher.reform(name, key, &mut converted)?;
+        let h_in = inlet
+            .enthalpy_w(db)
+            .context(|| format!("unit '{name}', inlet enthalpy"))?;
+        let h_converted = mixture::enthalpy(db, &converted, t_in)
+            .context(|| format!("unit '{name}', inlet enthalpy"))?;
+        let stage = run_stage(
+            &self.stage,
+            db,
+            name,
+            StageInlet {
+                flows: &converted,
+                temperature_k: t_in,
+                pressure_pa: p,
+            },
+            EnergyMode::FixedDuty {
+                duty_w: h_in - h_converted,
+            },
+            guess,
+        )?;
+        let t_out = stage.outlet_temperature_k;
+        let out = stage.outlet_flows.clone();
+        let mut figures = vec![figure(
+            "temperature-change",
+            "temperature change (outlet - inlet)",
+            t_out - t_in,
+            FigureKind::TemperatureDifference,
+        )];
+        if higher_in > 0.0 {
+            figures.push(figure(
+                "higher-hydrocarbon-conversion",
+                "higher-hydrocarbon conversion",
+                1.0 - self.higher.amount(&out) / higher_in,
+                FigureKind::Fraction,
+            ));
+        }
+        figures.push(figure(
+            "methane-dry",
+            "methane, dry",
+            dry_fraction(key, &out, key.ch4),
+            FigureKind::Fraction,
+        ));
+        if let Some(sc) = key.steam_to_carbon(&inlet.flows) {
+            figures.push(figure(
+                "steam-to-carbon",
+                "steam-to-carbon ratio at the inlet (H2O / organic carbon)",
+                sc,
+                FigureKind::Number,
+            ));
+        }
+        let mut warnings = Vec::new();
+        let outlet = Stream::vapour(out, t_out, p);
+        self.carbon
+            .report(db, name, &outlet, &mut figures, &mut warnings)?;
+        Ok(UnitResult {
+            outlets: vec![outlet],
+            duty_w: 0.0,
+            approaches: stage_approaches(&self.stage),
+            figures,
+            equilibrium: Some(stage),
+            warnings,
+        })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::units::test_support::{assert_balances, db, fig, reformer_feed};
+
+    #[test]
+    fn prereformer_is_adiabatic_and_converts_the_higher_hydrocarbons() {
+        // Common practice: a natural-gas pre-reformer fed at 450-500 degC cools by some tens of
+        // kelvin (the endothermic reforming of C2+ and some methane outweighs methanation),
+        // while a heavy feed (naphtha, butane) heats up (methanation outweighs reforming).
+        let db = db();
+        let feed = reformer_feed(&db, 763.15, 30e5);
+        let pr = Prereformer::new(&db, "pre", &PrereformerSpec::default()).unwrap();
+        let r = pr.solve(&db, &[&feed], None).unwrap();
+        assert_balances(&db, &[&feed], &r);
+        assert_eq!(r.duty_w, 0.0);
+        assert!((fig(&r, "higher-hydrocarbon-conversion") - 1.0).abs() < 1e-15);
+        let dt = fig(&r, "temperature-change");
+        assert!((-80.0..-10.0).contains(&dt), "temperature change {dt}");
+        let eq = r.equilibrium.as_ref().unwrap();
+        assert!(eq.converged && eq.energy_residual < 1e-9);
+        // A butane feed at S/C 2 runs reforming backward: methane forms and the bed heats up.
+        let rich = crate::units::test_support::gas(
+            &db,
+            &[("n-C4H10", 1.0), ("H2O", 8.0), ("H2", 0.05)],
+            723.15,
+            30e5,
+        );
+        let r = pr.solve(&db, &[&rich], None).unwrap();
+        assert_balances(&db, &[&rich], &r);
+        assert!(r.outlets[0].flows[db.index_of("CH4").unwrap()] > 1.0);
+        assert!(r.equilibrium.as_ref().unwrap().extents[0] < 0.0);
+        assert!(fig(&r, "temperature-change") > 0.0);
+    }
+
+    #[test]
+    fn approaches_and_warm_start() {
+        let db = db();
+        let feed = reformer_feed(&db, 763.15, 30e5);
+        let spec = PrereformerSpec {
+            pressure_drop_pa: 0.3e5,
+            approaches: vec![("reforming".into(), 10.0), ("shift".into(), 5.0)],
+        };
+        let pr = Prereformer::new(&db, "pre", &spec).unwrap();
+        let r = pr.solve(&db, &[&feed], None).unwrap();
+        assert_balances(&db, &[&feed], &r);
+        let g = r.equilibrium.as_ref().unwrap().extents.clone();
+        let r2 = pr.solve(&db, &[&feed], Some(&g)).unwrap();
+        assert!((r2.outlets[0].temperature_k - r.outlets[0].temperature_k).abs() < 1e-8);
+        assert_eq!(r.approaches[0], ("reforming".to_string(), 10.0));
+    }
+}

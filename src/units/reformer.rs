@@ -1,0 +1,252 @@
+//! Steam reformer (primary reformer): the higher hydrocarbons are reformed completely, then
+//! `reforming` (CH4 + H2O = CO + 3 H2, approach in its forward direction) and `shift`
+//! (CO + H2O = CO2 + H2, direction decided by the solve) come to equilibrium, each at its
+//! approach temperature, at the given outlet temperature and the outlet pressure. The duty is
+//! H_out - H_in of the original inlet (formation enthalpies included), so it holds the heat of
+//! the higher-hydrocarbon reforming as well (the stage's own result, [`UnitResult::equilibrium`],
+//! has its duty on the converted inlet).
+//!
+//! The outlet carbon activity is reported by methane cracking and by Boudouard
+//! ([`crate::reaction::carbon_activity`]); a value above one warns that carbon formation is
+//! thermodynamically possible at the outlet (a screening check: carbon risk is usually highest
+//! part-way down the tubes, which an outlet check does not see).
+
+use super::chemistry::{CarbonCheck, HigherHydrocarbons};
+use super::common::{
+    check_inlets, check_temperature, dry_fraction, figure, outlet_pressure, require_vapour,
+    resolve_approaches, run_stage, spec_error, stage_approaches, Key,
+};
+use super::{FigureKind, Stream, UnitResult};
+use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet, StageReaction};
+use crate::error::{Result, ResultExt};
+use crate::reaction::Reaction;
+use crate::thermo::{mixture, SpeciesDb};
+
+/// The reactions of a reformer's equilibrium stage, in stage order.
+pub const REFORMER_REACTIONS: [&str; 2] = ["reforming", "shift"];
+
+/// Specification of a steam reformer.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ReformerSpec {
+    /// Outlet temperature, K.
+    pub outlet_temperature_k: f64,
+    /// Pressure drop across the tubes, Pa.
+    pub pressure_drop_pa: f64,
+    /// Approach temperature by reaction name (`reforming`, `shift`), K; unlisted ones are zero.
+    pub approaches: Vec<(String, f64)>,
+}
+
+/// A reformer ready to solve (its equilibrium stage built once).
+#[derive(Debug, Clone)]
+pub struct Reformer {
+    name: String,
+    spec: ReformerSpec,
+    key: Key,
+    stage: EquilibriumStage,
+    higher: HigherHydrocarbons,
+    carbon: CarbonCheck,
+}
+
+impl Reformer {
+    /// Check the spec and build the equilibrium stage.
+    pub fn new(db: &SpeciesDb, name: &str, spec: &ReformerSpec) -> Result<Reformer> {
+        let t = spec.outlet_temperature_k;
+        if !(t.is_finite() && t > 0.0) {
+            return Err(spec_error(
+                name,
+                "outlet-temperature",
+                format!("{t} K must be a positive absolute temperature"),
+            ));
+        }
+        let approaches = resolve_approaches(name, &spec.approaches, &REFORMER_REACTIONS)?;
+        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        let directions = [Direction::Forward, Direction::Auto];
+        let mut reactions = Vec::with_capacity(2);
+        for ((r, a), d) in REFORMER_REACTIONS.iter().zip(&approaches).zip(directions) {
+            reactions.push(StageReaction {
+                reaction: Reaction::named(db, r)?,
+                approach_k: *a,
+                direction: d,
+            });
+        }
+        let stage = EquilibriumStage::new(db, reactions).context(|| format!("unit '{name}'"))?;
+        Ok(Reformer {
+            name: name.to_string(),
+            spec: spec.clone(),
+            key: Key::new(db, name)?,
+            stage,
+            higher: HigherHydrocarbons::new(db)?,
+            carbon: CarbonCheck::new(db)?,
+        })
+    }
+
+    /// The spec.
+    pub fn spec(&self) -> &ReformerSpec {
+        &self.spec
+    }
+
+    /// Solve; `guess`: the stage extents of a previous solve (a warm start).
+    pub fn solve(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+    ) -> Result<UnitResult> {
+        let name = &self.name;
+        let key = &self.key;
+        check_inlets(db, name, "reformer", inlets, 1, Some(1))?;
+        require_vapour(db, name, inlets)?;
+        let inlet = inlets[0];
+        let t_out = self.spec.outlet_temperature_k;
+        let p = outlet_pressure(name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
+        let mut converted = inlet.flows.clone();
+        self.higher.reform(name, key, &mut converted)?;
+        check_temperature(db, name, "outlet-temperature", &converted, t_out)?;
+        let h_in = inlet
+            .enthalpy_w(db)
+            .context(|| format!("unit '{name}', inlet enthalpy"))?;
+        let stage = run_stage(
+            &self.stage,
+            db,
+            name,
+            StageInlet {
+                flows: &converted,
+                temperature_k: inlet.temperature_k,
+                pressure_pa: p,
+            },
+            EnergyMode::FixedTemperature {
+                temperature_k: t_out,
+            },
+            guess,
+        )?;
+        let out = stage.outlet_flows.clone();
+        let h_out = mixture::enthalpy(db, &out, t_out)?;
+        let mut figures = Vec::with_capacity(9);
+        let ch4_in = inlet.flows[key.ch4];
+        if ch4_in > 0.0 {
+            figures.push(figure(
+                "methane-conversion",
+                "methane conversion",
+                1.0 - out[key.ch4] / ch4_in,
+                FigureKind::Fraction,
+            ));
+        }
+        for (k, label, i) in [
+            ("methane-slip-dry", "methane slip, dry", key.ch4),
+            ("co-dry", "CO, dry", key.co),
+            ("co2-dry", "CO2, dry", key.co2),
+            ("h2-dry", "H2, dry", key.h2),
+        ] {
+            figures.push(figure(
+                k,
+                label,
+                dry_fraction(key, &out, i),
+                FigureKind::Fraction,
+            ));
+        }
+        if let Some(sc) = key.steam_to_carbon(&inlet.flows) {
+            figures.push(figure(
+                "steam-to-carbon",
+                "steam-to-carbon ratio at the inlet (H2O / organic carbon)",
+                sc,
+                FigureKind::Number,
+            ));
+        }
+        let mut warnings = Vec::new();
+        let outlet = Stream::vapour(out, t_out, p);
+        self.carbon
+            .report(db, name, &outlet, &mut figures, &mut warnings)?;
+        Ok(UnitResult {
+            outlets: vec![outlet],
+            duty_w: h_out - h_in,
+            approaches: stage_approaches(&self.stage),
+            figures,
+            equilibrium: Some(stage),
+            warnings,
+        })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::units::test_support::{assert_balances, db, fig, gas, reformer_feed};
+
+    fn spec(t_out: f64, approaches: &[(&str, f64)]) -> ReformerSpec {
+        ReformerSpec {
+            outlet_temperature_k: t_out,
+            pressure_drop_pa: 2.0e5,
+            approaches: approaches
+                .iter()
+                .map(|(n, a)| (n.to_string(), *a))
+                .collect(),
+        }
+    }
+
+    #[test]
+    fn natural_gas_reformer_at_865_degc_leaves_3_to_7_percent_methane_dry() {
+        // Common practice: 850-900 degC exit, 20-30 bar, S/C 2.5-3.5 gives roughly 3-7 %
+        // methane on a dry basis; the reformer is strongly endothermic.
+        let db = db();
+        let feed = reformer_feed(&db, 893.15, 28e5);
+        let r = Reformer::new(&db, "primary", &spec(1138.15, &[]))
+            .unwrap()
+            .solve(&db, &[&feed], None)
+            .unwrap();
+        assert_balances(&db, &[&feed], &r);
+        let slip = fig(&r, "methane-slip-dry");
+        assert!((0.03..0.07).contains(&slip), "methane slip {slip}");
+        assert!((fig(&r, "steam-to-carbon") - 3.0).abs() < 1e-12);
+        assert!(r.duty_w > 0.0);
+        let eq = r.equilibrium.as_ref().unwrap();
+        assert!(eq.converged && eq.max_residual() < 1e-9);
+        // Higher hydrocarbons are gone.
+        assert_eq!(r.outlets[0].flows[db.index_of("C2H6").unwrap()], 0.0);
+        // In a gas at reforming and shift equilibrium both carbon routes agree (design notes),
+        // and at S/C 3 and 865 degC both are below one.
+        let a1 = fig(&r, "carbon-activity-methane-cracking");
+        let a2 = fig(&r, "carbon-activity-boudouard");
+        assert!((a1 / a2 - 1.0).abs() < 1e-6 && a1 < 1.0, "{a1} {a2}");
+        assert!(r.warnings.is_empty(), "{:?}", r.warnings);
+    }
+
+    #[test]
+    fn a_methane_approach_leaves_more_methane_and_warm_start_agrees() {
+        let db = db();
+        let feed = reformer_feed(&db, 893.15, 28e5);
+        let close = Reformer::new(&db, "r", &spec(1138.15, &[])).unwrap();
+        let r0 = close.solve(&db, &[&feed], None).unwrap();
+        let apart = Reformer::new(&db, "r", &spec(1138.15, &[("reforming", 10.0)])).unwrap();
+        let r1 = apart.solve(&db, &[&feed], None).unwrap();
+        assert_balances(&db, &[&feed], &r1);
+        assert!(fig(&r1, "methane-slip-dry") > fig(&r0, "methane-slip-dry"));
+        let eq = r1.equilibrium.as_ref().unwrap();
+        assert!((eq.equilibrium_temperatures_k[0] - 1128.15).abs() < 1e-9);
+        let guess = eq.extents.clone();
+        let r2 = apart.solve(&db, &[&feed], Some(&guess)).unwrap();
+        for (a, b) in r2.outlets[0].flows.iter().zip(&r1.outlets[0].flows) {
+            assert!((a - b).abs() <= 1e-10 * b.abs().max(1e-12));
+        }
+    }
+
+    #[test]
+    fn low_steam_warns_of_carbon_and_bad_specs_are_refused() {
+        let db = db();
+        let feed = gas(&db, &[("CH4", 1.0), ("H2O", 0.6)], 873.15, 25e5);
+        let r = Reformer::new(&db, "r", &spec(1000.0, &[]))
+            .unwrap()
+            .solve(&db, &[&feed], None)
+            .unwrap();
+        assert_balances(&db, &[&feed], &r);
+        assert!(r
+            .warnings
+            .iter()
+            .any(|w| w.contains("carbon formation thermodynamically possible")));
+        assert!(Reformer::new(&db, "r", &spec(1100.0, &[("methanation", 5.0)])).is_err());
+        let hot = Reformer::new(&db, "r", &spec(3500.0, &[])).unwrap();
+        let e = hot.solve(&db, &[&feed], None).unwrap_err().to_string();
+        assert!(e.contains("unit 'r'") && e.contains("data range"), "{e}");
+        let two = Reformer::new(&db, "r", &spec(1100.0, &[])).unwrap();
+        assert!(two.solve(&db, &[&feed, &feed], None).is_err());
+    }
+}

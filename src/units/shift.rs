@@ -1,0 +1,293 @@
+//! Shift converter (high-, medium- or low-temperature shift): `shift` (CO + H2O = CO2 + H2) at
+//! equilibrium with its approach temperature; methane and every other species pass inert.
+//! Adiabatic unless an outlet temperature is given (a cooled or isothermal converter).
+//!
+//! Catalyst cautions are common practice (no single source): iron-chromium (HTS) is kept below
+//! about 480-500 degC; copper (LTS, MTS) below about 250-270 degC, with the inlet at least about
+//! 15-20 K above the water dew point so that no water condenses on the catalyst.
+
+use super::common::{
+    check_inlets, check_temperature, degc, dew_point_k, dry_fraction, figure, outlet_pressure,
+    require_vapour, resolve_approaches, run_stage, spec_error, stage_approaches, Key,
+};
+use super::{FigureKind, Stream, UnitResult};
+use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet, StageReaction};
+use crate::error::{Result, ResultExt};
+use crate::quantity::CELSIUS_OFFSET_K;
+use crate::reaction::Reaction;
+use crate::thermo::SpeciesDb;
+
+/// The reactions of a shift converter's equilibrium stage.
+pub const SHIFT_REACTIONS: [&str; 1] = ["shift"];
+
+/// Highest outlet for an iron-chromium catalyst before a warning, K (480 degC; common practice:
+/// kept below about 480-500 degC).
+pub const IRON_CHROMIUM_MAX_K: f64 = 480.0 + CELSIUS_OFFSET_K;
+/// Highest outlet for a copper catalyst before a warning, K (270 degC; common practice: kept
+/// below about 250-270 degC).
+pub const COPPER_MAX_K: f64 = 270.0 + CELSIUS_OFFSET_K;
+/// Smallest inlet margin above the water dew point for a copper catalyst, K (common practice:
+/// at least about 15-20 K).
+pub const COPPER_DEW_MARGIN_K: f64 = 20.0;
+/// Inlet temperature below which a copper catalyst is assumed when none is given, K (260 degC).
+pub const COPPER_INFERENCE_BELOW_K: f64 = 260.0 + CELSIUS_OFFSET_K;
+
+/// Shift catalyst type, for the temperature cautions.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum ShiftCatalyst {
+    /// Iron-chromium (high-temperature shift).
+    IronChromium,
+    /// Copper-zinc (low- and medium-temperature shift).
+    Copper,
+}
+
+impl ShiftCatalyst {
+    fn label(self) -> &'static str {
+        match self {
+            ShiftCatalyst::IronChromium => "iron-chromium",
+            ShiftCatalyst::Copper => "copper",
+        }
+    }
+}
+
+/// Specification of a shift converter.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct ShiftSpec {
+    /// Outlet temperature, K; `None` for an adiabatic converter.
+    pub outlet_temperature_k: Option<f64>,
+    /// Pressure drop across the bed, Pa.
+    pub pressure_drop_pa: f64,
+    /// Approach temperature by reaction name (`shift`), K; zero when unlisted.
+    pub approaches: Vec<(String, f64)>,
+    /// Catalyst, for the cautions; `None`: inferred from the inlet temperature (said so).
+    pub catalyst: Option<ShiftCatalyst>,
+}
+
+/// A shift converter ready to solve.
+#[derive(Debug, Clone)]
+pub struct Shift {
+    name: String,
+    spec: ShiftSpec,
+    key: Key,
+    /// The stage with the approach taken forward and backward: a single reaction's direction
+    /// is known before the solve (see [`Shift::direction`]), which saves the stage's own
+    /// zero-approach solve.
+    forward: EquilibriumStage,
+    backward: EquilibriumStage,
+}
+
+impl Shift {
+    /// Check the spec and build the equilibrium stage.
+    pub fn new(db: &SpeciesDb, name: &str, spec: &ShiftSpec) -> Result<Shift> {
+        if let Some(t) = spec.outlet_temperature_k {
+            if !(t.is_finite() && t > 0.0) {
+                return Err(spec_error(
+                    name,
+                    "outlet-temperature",
+                    format!("{t} K must be a positive absolute temperature"),
+                ));
+            }
+        }
+        let approaches = resolve_approaches(name, &spec.approaches, &SHIFT_REACTIONS)?;
+        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        let reaction = Reaction::named(db, SHIFT_REACTIONS[0])?;
+        let build = |direction| {
+            EquilibriumStage::new(
+                db,
+                vec![StageReaction {
+                    reaction: reaction.clone(),
+                    approach_k: approaches[0],
+                    direction,
+                }],
+            )
+            .context(|| format!("unit '{name}'"))
+        };
+        Ok(Shift {
+            name: name.to_string(),
+            spec: spec.clone(),
+            key: Key::new(db, name)?,
+            forward: build(Direction::Forward)?,
+            backward: build(Direction::Backward)?,
+        })
+    }
+
+    /// The spec.
+    pub fn spec(&self) -> &ShiftSpec {
+        &self.spec
+    }
+
+    /// Which way the shift runs, as the stage's `Auto` would find it at zero approach. For one
+    /// reaction the sign of the extent is that of ln K(T) - ln Q at the inlet, T being the inlet
+    /// temperature for an adiabatic bed (the heat released moves K toward Q, so the sign cannot
+    /// change on the way) and the outlet temperature for a fixed one. Shift has no change in
+    /// moles, so Q does not depend on pressure.
+    fn direction(&self, db: &SpeciesDb, flows: &[f64], t: f64) -> Result<Direction> {
+        let k = &self.key;
+        let reactants = flows[k.co] * flows[k.h2o];
+        let products = flows[k.co2] * flows[k.h2];
+        if reactants == 0.0 {
+            return Ok(if products == 0.0 {
+                Direction::Forward
+            } else {
+                Direction::Backward
+            });
+        }
+        if products == 0.0 {
+            return Ok(Direction::Forward);
+        }
+        let ln_k = self.forward.reactions()[0].reaction.ln_k(db, t)?;
+        Ok(if ln_k - (products / reactants).ln() >= 0.0 {
+            Direction::Forward
+        } else {
+            Direction::Backward
+        })
+    }
+
+    /// Solve; `guess`: the stage extent of a previous solve (a warm start).
+    pub fn solve(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+    ) -> Result<UnitResult> {
+        let name = &self.name;
+        let key = &self.key;
+        check_inlets(db, name, "shift", inlets, 1, Some(1))?;
+        require_vapour(db, name, inlets)?;
+        let inlet = inlets[0];
+        let t_in = inlet.temperature_k;
+        let p = outlet_pressure(name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
+        let mode = match self.spec.outlet_temperature_k {
+            Some(t) => {
+                check_temperature(db, name, "outlet-temperature", &inlet.flows, t)?;
+                EnergyMode::FixedTemperature { temperature_k: t }
+            }
+            None => EnergyMode::Adiabatic,
+        };
+        let h_in = inlet
+            .enthalpy_w(db)
+            .context(|| format!("unit '{name}', inlet enthalpy"))?;
+        let t_k = match mode {
+            EnergyMode::FixedTemperature { temperature_k } => temperature_k,
+            _ => t_in,
+        };
+        let stage_used = match self
+            .direction(db, &inlet.flows, t_k)
+            .context(|| format!("unit '{name}'"))?
+        {
+            Direction::Backward => &self.backward,
+            _ => &self.forward,
+        };
+        let stage = run_stage(
+            stage_used,
+            db,
+            name,
+            StageInlet {
+                flows: &inlet.flows,
+                temperature_k: t_in,
+                pressure_pa: p,
+            },
+            mode,
+            guess,
+        )?;
+        let t_out = stage.outlet_temperature_k;
+        let out = stage.outlet_flows.clone();
+        let duty = match mode {
+            EnergyMode::Adiabatic => 0.0,
+            _ => crate::thermo::mixture::enthalpy(db, &out, t_out)? - h_in,
+        };
+        let mut figures = Vec::with_capacity(5);
+        let co_in = inlet.flows[key.co];
+        if co_in > 0.0 {
+            figures.push(figure(
+                "co-conversion",
+                "CO conversion",
+                1.0 - out[key.co] / co_in,
+                FigureKind::Fraction,
+            ));
+        }
+        figures.push(figure(
+            "co-slip-dry",
+            "CO slip, dry",
+            dry_fraction(key, &out, key.co),
+            FigureKind::Fraction,
+        ));
+        figures.push(figure(
+            "temperature-rise",
+            "temperature rise",
+            t_out - t_in,
+            FigureKind::TemperatureDifference,
+        ));
+        let dew = dew_point_k(key, &inlet.flows, inlet.pressure_pa);
+        if let Some(dew) = dew {
+            figures.push(figure(
+                "inlet-dew-point-margin",
+                "inlet temperature above the water dew point",
+                t_in - dew,
+                FigureKind::TemperatureDifference,
+            ));
+        }
+        let mut warnings = Vec::new();
+        let catalyst = match self.spec.catalyst {
+            Some(c) => c,
+            None => {
+                let c = if t_in < COPPER_INFERENCE_BELOW_K {
+                    ShiftCatalyst::Copper
+                } else {
+                    ShiftCatalyst::IronChromium
+                };
+                warnings.push(format!(
+                    "unit '{name}': no catalyst given; {} assumed from the inlet temperature {} \
+                     (copper below 260 degC) for the temperature cautions",
+                    c.label(),
+                    degc(t_in)
+                ));
+                c
+            }
+        };
+        match catalyst {
+            ShiftCatalyst::IronChromium if t_out > IRON_CHROMIUM_MAX_K => warnings.push(format!(
+                "unit '{name}': outlet {} is above about 480 degC, where an iron-chromium \
+                 catalyst is usually kept below (common practice: 480-500 degC)",
+                degc(t_out)
+            )),
+            ShiftCatalyst::Copper if t_out > COPPER_MAX_K => warnings.push(format!(
+                "unit '{name}': outlet {} is above about 270 degC, where a copper catalyst is \
+                 usually kept below (common practice: 250-270 degC)",
+                degc(t_out)
+            )),
+            _ => {}
+        }
+        if let Some(dew) = dew {
+            if t_in <= dew {
+                warnings.push(format!(
+                    "unit '{name}': inlet {} is at or below the water dew point {}: water \
+                     would condense on the catalyst",
+                    degc(t_in),
+                    degc(dew)
+                ));
+            } else if catalyst == ShiftCatalyst::Copper && t_in - dew < COPPER_DEW_MARGIN_K {
+                warnings.push(format!(
+                    "unit '{name}': inlet {} is only {:.1} K above the water dew point {}; a \
+                     copper catalyst is usually fed at least about 15-20 K above it (common \
+                     practice)",
+                    degc(t_in),
+                    t_in - dew,
+                    degc(dew)
+                ));
+            }
+        }
+        Ok(UnitResult {
+            outlets: vec![Stream::vapour(out, t_out, p)],
+            duty_w: duty,
+            approaches: stage_approaches(stage_used),
+            figures,
+            equilibrium: Some(stage),
+            warnings,
+        })
+    }
+}
+
+#[cfg(test)]
+#[path = "shift_tests.rs"]
+mod tests;

@@ -1,0 +1,261 @@
+//! Splitter: divides one stream into several of the same temperature, pressure (less an optional
+//! pressure drop), phase and composition, by fraction or by total molar flow per outlet.
+
+use super::common::{check_inlets, outlet_pressure, spec_error};
+use super::{Stream, UnitResult};
+use crate::error::Result;
+use crate::thermo::SpeciesDb;
+
+/// Tolerance on fractions summing to one, and on flows summing to the inlet flow (relative).
+pub const SPLIT_SUM_TOLERANCE: f64 = 1e-9;
+
+/// How a splitter divides its inlet: one entry per outlet, in outlet order; `None` marks the one
+/// outlet (at most one) that takes the rest.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Split {
+    /// Fraction of the inlet to each outlet (0..1); with no `None` they must sum to one.
+    Fractions(Vec<Option<f64>>),
+    /// Total molar flow to each outlet, mol/s; with no `None` they must sum to the inlet flow.
+    Flows(Vec<Option<f64>>),
+}
+
+/// Specification of a splitter.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SplitterSpec {
+    /// The division, one entry per outlet.
+    pub split: Split,
+    /// Pressure drop, Pa (usually zero).
+    pub pressure_drop_pa: f64,
+}
+
+/// A splitter ready to solve.
+#[derive(Debug, Clone)]
+pub struct Splitter {
+    name: String,
+    spec: SplitterSpec,
+}
+
+impl Splitter {
+    /// Check the spec and prepare.
+    pub fn new(name: &str, spec: &SplitterSpec) -> Result<Splitter> {
+        let (entries, what) = match &spec.split {
+            Split::Fractions(v) => (v, "fraction"),
+            Split::Flows(v) => (v, "flow"),
+        };
+        if entries.len() < 2 {
+            return Err(spec_error(
+                name,
+                "split",
+                format!(
+                    "a splitter needs at least 2 outlets, {} given",
+                    entries.len()
+                ),
+            ));
+        }
+        if entries.iter().filter(|e| e.is_none()).count() > 1 {
+            return Err(spec_error(
+                name,
+                "split",
+                "only one outlet may take the rest",
+            ));
+        }
+        for (k, e) in entries.iter().enumerate() {
+            if let Some(v) = e {
+                let ok = v.is_finite() && *v >= 0.0 && (what == "flow" || *v <= 1.0);
+                if !ok {
+                    return Err(spec_error(
+                        name,
+                        "split",
+                        format!(
+                            "outlet {}: {what} {v} must be {}",
+                            k + 1,
+                            if what == "flow" {
+                                "finite and not negative (mol/s)"
+                            } else {
+                                "between 0 and 1"
+                            }
+                        ),
+                    ));
+                }
+            }
+        }
+        if let Split::Fractions(v) = &spec.split {
+            let sum: f64 = v.iter().flatten().sum();
+            let rest = v.iter().any(|e| e.is_none());
+            if (!rest && (sum - 1.0).abs() > SPLIT_SUM_TOLERANCE)
+                || (rest && sum > 1.0 + SPLIT_SUM_TOLERANCE)
+            {
+                return Err(spec_error(
+                    name,
+                    "split",
+                    format!(
+                        "fractions sum to {sum}; they must sum to 1 (or leave one outlet to take \
+                         the rest)"
+                    ),
+                ));
+            }
+        }
+        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        Ok(Splitter {
+            name: name.to_string(),
+            spec: spec.clone(),
+        })
+    }
+
+    /// The spec.
+    pub fn spec(&self) -> &SplitterSpec {
+        &self.spec
+    }
+
+    /// Number of outlets.
+    pub fn outlet_count(&self) -> usize {
+        match &self.spec.split {
+            Split::Fractions(v) | Split::Flows(v) => v.len(),
+        }
+    }
+
+    /// Fractions to each outlet for an inlet of `total` mol/s (they sum to one to rounding).
+    fn fractions(&self, total: f64) -> Result<Vec<f64>> {
+        let name = &self.name;
+        let (mut f, given_sum): (Vec<f64>, f64) = match &self.spec.split {
+            Split::Fractions(v) => {
+                let sum: f64 = v.iter().flatten().sum();
+                (v.iter().map(|e| e.unwrap_or(f64::NAN)).collect(), sum)
+            }
+            Split::Flows(v) => {
+                let sum: f64 = v.iter().flatten().sum();
+                let rest = v.iter().any(|e| e.is_none());
+                let mismatch = (sum - total).abs() > SPLIT_SUM_TOLERANCE * total.max(1e-300);
+                if (!rest && mismatch) || (rest && sum > total * (1.0 + SPLIT_SUM_TOLERANCE)) {
+                    return Err(spec_error(
+                        name,
+                        "split",
+                        format!(
+                            "outlet flows sum to {sum} mol/s but the inlet carries {total} \
+                             mol/s; make them match or leave one outlet to take the rest"
+                        ),
+                    ));
+                }
+                if total <= 0.0 {
+                    let n = v.len() as f64;
+                    return Ok(vec![1.0 / n; v.len()]);
+                }
+                (
+                    v.iter()
+                        .map(|e| e.map_or(f64::NAN, |x| x / total))
+                        .collect(),
+                    sum / total,
+                )
+            }
+        };
+        let rest = (1.0 - given_sum).max(0.0);
+        for x in f.iter_mut() {
+            if x.is_nan() {
+                *x = rest;
+            }
+        }
+        let sum: f64 = f.iter().sum();
+        if sum > 0.0 {
+            for x in f.iter_mut() {
+                *x /= sum;
+            }
+        }
+        Ok(f)
+    }
+
+    /// Split the inlet.
+    pub fn solve(&self, db: &SpeciesDb, inlets: &[&Stream]) -> Result<UnitResult> {
+        check_inlets(db, &self.name, "splitter", inlets, 1, Some(1))?;
+        let inlet = inlets[0];
+        let p = outlet_pressure(&self.name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
+        let f = self.fractions(inlet.total())?;
+        let last = f.len() - 1;
+        let mut outlets: Vec<Stream> = Vec::with_capacity(f.len());
+        let mut remaining = inlet.flows.clone();
+        for (k, x) in f.iter().enumerate() {
+            let flows = if k == last {
+                // The last outlet takes what is left, so the balance closes to rounding.
+                remaining.iter().map(|v| v.max(0.0)).collect()
+            } else {
+                let part: Vec<f64> = inlet.flows.iter().map(|n| n * x).collect();
+                for (r, v) in remaining.iter_mut().zip(&part) {
+                    *r -= v;
+                }
+                part
+            };
+            outlets.push(Stream {
+                flows,
+                temperature_k: inlet.temperature_k,
+                pressure_pa: p,
+                phase: inlet.phase,
+            });
+        }
+        Ok(UnitResult {
+            outlets,
+            duty_w: 0.0,
+            approaches: Vec::new(),
+            figures: Vec::new(),
+            equilibrium: None,
+            warnings: Vec::new(),
+        })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::units::test_support::{assert_balances, db, gas};
+
+    #[test]
+    fn fractions_and_flows_split_the_stream() {
+        let db = db();
+        let s = gas(&db, &[("H2", 3.0), ("CO", 1.0)], 600.0, 20e5);
+        let spec = SplitterSpec {
+            split: Split::Fractions(vec![Some(0.25), None]),
+            pressure_drop_pa: 0.0,
+        };
+        let r = Splitter::new("tee", &spec)
+            .unwrap()
+            .solve(&db, &[&s])
+            .unwrap();
+        assert_balances(&db, &[&s], &r);
+        assert!((r.outlets[0].total() - 1.0).abs() < 1e-15);
+        assert!((r.outlets[1].total() - 3.0).abs() < 1e-15);
+        assert_eq!(r.outlets[1].temperature_k, 600.0);
+        let spec = SplitterSpec {
+            split: Split::Flows(vec![Some(1.0), Some(2.0), Some(1.0)]),
+            pressure_drop_pa: 0.1e5,
+        };
+        let r = Splitter::new("tee", &spec)
+            .unwrap()
+            .solve(&db, &[&s])
+            .unwrap();
+        assert_balances(&db, &[&s], &r);
+        assert!((r.outlets[1].total() - 2.0).abs() < 1e-15);
+        assert_eq!(r.outlets[2].pressure_pa, 19.9e5);
+    }
+
+    #[test]
+    fn bad_splits_are_refused() {
+        let db = db();
+        let s = gas(&db, &[("H2", 3.0)], 600.0, 20e5);
+        let bad = |split| SplitterSpec {
+            split,
+            pressure_drop_pa: 0.0,
+        };
+        for split in [
+            Split::Fractions(vec![Some(0.5), Some(0.6)]),
+            Split::Fractions(vec![None, None]),
+            Split::Fractions(vec![Some(1.0)]),
+            Split::Fractions(vec![Some(-0.1), None]),
+            Split::Flows(vec![Some(f64::NAN), None]),
+        ] {
+            let e = Splitter::new("tee", &bad(split)).unwrap_err().to_string();
+            assert!(e.contains("unit 'tee'"), "{e}");
+        }
+        let sp = Splitter::new("tee", &bad(Split::Flows(vec![Some(1.0), Some(1.0)]))).unwrap();
+        assert!(sp.solve(&db, &[&s]).is_err());
+        let sp = Splitter::new("tee", &bad(Split::Flows(vec![Some(4.0), None]))).unwrap();
+        assert!(sp.solve(&db, &[&s]).is_err());
+    }
+}
