@@ -18,13 +18,17 @@
 //!
 //! This module is pure numerics: it knows nothing of species data, units or files.
 
+pub use super::basis::MAX_SPECIES;
+use super::basis::{Basis, FRACTION_TO_BOUNDARY};
 use super::linalg;
 use crate::error::{Error, Result};
 
-/// Fraction of the distance to the boundary (an amount reaching zero) a step may take.
-const FRACTION_TO_BOUNDARY: f64 = 0.99;
-/// Convergence tolerance on the largest equilibrium residual, ln-space.
+/// Convergence tolerance on the largest equilibrium residual of the working equations, ln-space.
 pub const RESIDUAL_TOLERANCE: f64 = 1e-11;
+/// Largest residual of the original reactions a converged solution may report, ln-space.
+pub const REPORTED_TOLERANCE: f64 = 1e-10;
+/// Smallest line-search step; below it the step is taken as failed (round-off bound).
+const MIN_STEP: f64 = 1e-10;
 /// Newton iterations allowed.
 const MAX_ITERATIONS: usize = 200;
 
@@ -75,6 +79,12 @@ impl ExtentSystem {
             return Err(Error::Reaction {
                 reaction: "(none)".into(),
                 reason: "an equilibrium stage needs at least one reaction".into(),
+            });
+        }
+        if n_species > MAX_SPECIES {
+            return Err(Error::Reaction {
+                reaction: "(set)".into(),
+                reason: format!("{n_species} species; at most {MAX_SPECIES} are supported"),
             });
         }
         if n_reactions > linalg::MAX_DIM {
@@ -220,72 +230,92 @@ impl ExtentSystem {
         let g = &mut g[..na];
         let trial_g = &mut trial_g[..na];
         let step = &mut step[..na];
-        let hessian = &mut hessian[..na * na];
+        let scratch = &mut hessian[..na * na];
+        let mut basis = self.basis(active, ln_k);
+        // Working extents, in the working basis (added to xi at the end).
+        let mut w = [0.0f64; linalg::MAX_DIM];
+        let w = &mut w[..na];
+        if !warm {
+            basis.log_relaxation(n, w, inert, ln_p);
+        }
 
         let mut iterations = 0;
-        let mut merit = self.gradient(n, inert, ln_k, ln_p, active, ln_n, g);
+        let mut merit = basis.gradient(n, inert, ln_p, ln_n, g);
         let mut converged = max_abs(g) <= RESIDUAL_TOLERANCE;
         while !converged && iterations < MAX_ITERATIONS {
             iterations += 1;
             // Newton direction: H d = -g.
-            self.hessian(n, inert, active, hessian);
             for k in 0..na {
                 step[k] = -g[k];
             }
-            if !linalg::solve_spd(hessian, step, na) {
-                self.hessian(n, inert, active, hessian);
-                for k in 0..na {
-                    step[k] = -g[k];
-                }
-                if !linalg::solve_general(hessian, step, na) {
-                    break;
-                }
-            }
-            // Change of amounts and the largest step that keeps them positive.
-            let mut alpha: f64 = 1.0;
-            for i in 0..ns {
-                let mut d = 0.0;
-                for (k, &j) in active.iter().enumerate() {
-                    d += self.nu(j, i) * step[k];
-                }
-                dn[i] = d;
-                if d < 0.0 && n[i] > 0.0 {
-                    alpha = alpha.min(FRACTION_TO_BOUNDARY * n[i] / -d);
-                }
-            }
-            // Backtracking on |g|^2 (the Newton direction always decreases it).
             let mut accepted = false;
-            for _ in 0..60 {
-                for i in 0..ns {
-                    trial[i] = n[i] + alpha * dn[i];
-                }
-                if active
-                    .iter()
-                    .all(|&j| self.members[j].iter().all(|&i| trial[i] > 0.0))
-                {
-                    let m = self.gradient(trial, inert, ln_k, ln_p, active, ln_n, trial_g);
-                    if m <= (1.0 - 1e-4 * alpha) * merit || m == 0.0 {
-                        merit = m;
-                        accepted = true;
-                        break;
+            let mut alpha: f64 = 1.0;
+            if basis.newton_solve(n, inert, step, scratch) {
+                // Change of amounts and the largest step that keeps them positive.
+                dn.fill(0.0);
+                for k in 0..na {
+                    for (d, nu) in dn.iter_mut().zip(basis.row(k)) {
+                        *d += nu * step[k];
                     }
                 }
-                alpha *= 0.5;
+                for (d, ni) in dn.iter().zip(n.iter()) {
+                    if *d < 0.0 && *ni > 0.0 {
+                        alpha = alpha.min(FRACTION_TO_BOUNDARY * ni / -d);
+                    }
+                }
+                // Backtracking on |g|^2 (the Newton direction always decreases it).
+                while alpha > MIN_STEP {
+                    for ((t, ni), d) in trial.iter_mut().zip(n.iter()).zip(dn.iter()) {
+                        *t = ni + alpha * d;
+                    }
+                    // Species present stay present (absent ones are in no active reaction).
+                    if trial
+                        .iter()
+                        .zip(n.iter())
+                        .all(|(t, ni)| *t > 0.0 || *ni <= 0.0)
+                    {
+                        let m = basis.gradient(trial, inert, ln_p, ln_n, trial_g);
+                        if m < (1.0 - 1e-4 * alpha) * merit || m == 0.0 {
+                            merit = m;
+                            accepted = true;
+                            break;
+                        }
+                    }
+                    alpha *= 0.5;
+                }
             }
             if !accepted {
-                break;
+                // Round-off: a species far below the others and changed by several reactions
+                // cannot follow a joint step. Rebuild the basis so that it is changed by one
+                // reaction only; failing that, take one-reaction steps in log space.
+                if !basis.rebase(n, inert, w) {
+                    basis.log_relaxation(n, w, inert, ln_p);
+                }
+                merit = basis.gradient(n, inert, ln_p, ln_n, g);
+                converged = max_abs(g) <= RESIDUAL_TOLERANCE;
+                continue;
             }
             n.copy_from_slice(trial);
             g.copy_from_slice(trial_g);
-            for (k, &j) in active.iter().enumerate() {
-                xi[j] += alpha * step[k];
+            for k in 0..na {
+                w[k] += alpha * step[k];
             }
             converged = max_abs(g) <= RESIDUAL_TOLERANCE;
+        }
+        // Extents and residuals of the original reactions.
+        let mut extents_active = [0.0f64; linalg::MAX_DIM];
+        basis.original_extents(w, &mut extents_active[..na]);
+        for (k, &j) in active.iter().enumerate() {
+            xi[j] += extents_active[k];
+        }
+        if basis.rebased() {
+            self.basis(active, ln_k).gradient(n, inert, ln_p, ln_n, g);
         }
         let mut residuals = vec![0.0; nr];
         for (k, &j) in active.iter().enumerate() {
             residuals[j] = g[k];
         }
+        let converged = converged && max_abs(g) <= REPORTED_TOLERANCE;
         Ok(ExtentSolution {
             amounts: n.iter().map(|v| v * scale).collect(),
             extents: xi.iter().map(|v| v * scale).collect(),
@@ -296,22 +326,33 @@ impl ExtentSystem {
         })
     }
 
+    /// The working basis of the given active reactions with their ln K.
+    fn basis(&self, active: &[usize], ln_k: &[f64]) -> Basis {
+        Basis::new(
+            active.iter().map(|&j| (self.row(j), self.dnu[j], ln_k[j])),
+            self.n_species,
+        )
+    }
+
+    #[inline]
+    fn row(&self, j: usize) -> &[f64] {
+        &self.nu[j * self.n_species..(j + 1) * self.n_species]
+    }
+
     /// Sensitivity of the equilibrium extents to the ln K values: solves H x = rhs at the given
     /// equilibrium amounts (dxi/dT = H^-1 d lnK/dT). Frozen reactions get zero.
     pub fn sensitivity(&self, solution: &ExtentSolution, inert: f64, rhs: &[f64]) -> Vec<f64> {
         let active: Vec<usize> = (0..self.n_reactions)
             .filter(|&j| !solution.frozen[j])
             .collect();
-        let mut h = vec![0.0; active.len() * active.len()];
-        self.hessian(&solution.amounts, inert, &active, &mut h);
+        let basis = Basis::new(
+            active.iter().map(|&j| (self.row(j), self.dnu[j], 0.0)),
+            self.n_species,
+        );
+        let mut scratch = vec![0.0; active.len() * active.len()];
         let mut x: Vec<f64> = active.iter().map(|&j| rhs[j]).collect();
         let mut out = vec![0.0; self.n_reactions];
-        let ok = linalg::solve_spd(&mut h, &mut x, active.len()) || {
-            self.hessian(&solution.amounts, inert, &active, &mut h);
-            x = active.iter().map(|&j| rhs[j]).collect();
-            linalg::solve_general(&mut h, &mut x, active.len())
-        };
-        if ok {
+        if basis.newton_solve(&solution.amounts, inert, &mut x, &mut scratch) {
             for (k, &j) in active.iter().enumerate() {
                 out[j] = x[k];
             }
@@ -360,67 +401,6 @@ impl ExtentSystem {
             }
             if !changed {
                 break;
-            }
-        }
-    }
-
-    /// Gradient over the active reactions into `g`; returns |g|^2.
-    #[allow(clippy::too_many_arguments)]
-    fn gradient(
-        &self,
-        n: &[f64],
-        inert: f64,
-        ln_k: &[f64],
-        ln_p: f64,
-        active: &[usize],
-        ln_n: &mut [f64],
-        g: &mut [f64],
-    ) -> f64 {
-        let total: f64 = n.iter().sum::<f64>() + inert;
-        let ln_total = total.ln();
-        for i in 0..self.n_species {
-            ln_n[i] = if n[i] > 0.0 { n[i].ln() } else { 0.0 };
-        }
-        let mut merit = 0.0;
-        for (k, &j) in active.iter().enumerate() {
-            let mut s = 0.0;
-            for &i in &self.members[j] {
-                s += self.nu(j, i) * ln_n[i];
-            }
-            let r = s + self.dnu[j] * (ln_p - ln_total) - ln_k[j];
-            g[k] = r;
-            merit += r * r;
-        }
-        merit
-    }
-
-    fn hessian(&self, n: &[f64], inert: f64, active: &[usize], h: &mut [f64]) {
-        let total: f64 = n.iter().sum::<f64>() + inert;
-        let m = active.len();
-        for a in 0..m {
-            for b in a..m {
-                h[a * m + b] = -self.dnu[active[a]] * self.dnu[active[b]] / total;
-            }
-        }
-        for (i, &ni) in n.iter().enumerate() {
-            if ni <= 0.0 {
-                continue;
-            }
-            let w = 1.0 / ni;
-            for a in 0..m {
-                let va = self.nu(active[a], i);
-                if va == 0.0 {
-                    continue;
-                }
-                let vw = va * w;
-                for b in a..m {
-                    h[a * m + b] += vw * self.nu(active[b], i);
-                }
-            }
-        }
-        for a in 0..m {
-            for b in 0..a {
-                h[a * m + b] = h[b * m + a];
             }
         }
     }

@@ -1,19 +1,38 @@
 //! Small dense linear solves for the equilibrium Newton steps (a handful of reactions).
 //!
-//! Cholesky factorisation for the symmetric positive-definite Hessian of the extent problem,
-//! with Gaussian elimination with partial pivoting as a fallback when round-off spoils
-//! definiteness (Golub & Van Loan, Matrix Computations, 4th ed., sections 3.2 and 4.2).
+//! Householder QR of the tall factor of the Hessian with a Sherman-Morrison rank-one update, and
+//! Gaussian elimination with partial pivoting as a fallback (Golub & Van Loan, Matrix
+//! Computations, 4th ed., sections 5.2, 2.1.4 and 3.4).
 
 /// Solve `a x = b` for a symmetric positive-definite `a` (row-major, `n` x `n`) by Cholesky
-/// factorisation in place: `a`'s lower triangle is overwritten with the factor and `b` with `x`.
-/// Returns false when `a` is not numerically positive definite (then both are spoiled).
+/// factorisation in place (closed forms for n = 1 and 2): `a`'s lower triangle is overwritten
+/// and `b` holds `x`. Returns false when `a` is not numerically positive definite.
 pub fn solve_spd(a: &mut [f64], b: &mut [f64], n: usize) -> bool {
+    if n == 1 {
+        if a[0] > 0.0 && a[0].is_finite() {
+            b[0] /= a[0];
+            return true;
+        }
+        return false;
+    }
+    if n == 2 {
+        let det = a[0] * a[3] - a[1] * a[2];
+        // Sylvester's criterion with a margin against cancellation.
+        if !(a[0] > 0.0 && det > 1e-10 * a[0] * a[3] && det.is_finite()) {
+            return false;
+        }
+        let x0 = (a[3] * b[0] - a[1] * b[1]) / det;
+        let x1 = (a[0] * b[1] - a[2] * b[0]) / det;
+        b[0] = x0;
+        b[1] = x1;
+        return true;
+    }
     for j in 0..n {
         let mut d = a[j * n + j];
         for k in 0..j {
             d -= a[j * n + k] * a[j * n + k];
         }
-        if d <= 0.0 || !d.is_finite() {
+        if !(d > 1e-10 * a[j * n + j].abs()) || !d.is_finite() {
             return false;
         }
         let d = d.sqrt();
@@ -86,8 +105,98 @@ pub fn solve_general(a: &mut [f64], b: &mut [f64], n: usize) -> bool {
     true
 }
 
-/// Largest system the stack-allocated Cholesky handles (reactions in one stage).
+/// Most unknowns (reactions in one stage) the small solvers handle.
 pub const MAX_DIM: usize = 12;
+
+/// Solve (A^T A - c c^T) x = b for a tall `rows` x `cols` matrix A (column-major, overwritten)
+/// without forming A^T A: Householder QR of A gives A^T A = R^T R (the Cholesky factor, computed
+/// stably even when A^T A is too ill-conditioned to form), and the Sherman-Morrison formula
+/// takes the rank-one term (Golub & Van Loan, 4th ed., sections 5.2 and 2.1.4). On return `b`
+/// holds x. Returns false when A is rank deficient or the matrix is not positive definite.
+pub fn solve_gram_minus_rank_one(
+    a: &mut [f64],
+    rows: usize,
+    cols: usize,
+    c: &[f64],
+    b: &mut [f64],
+) -> bool {
+    if cols == 0 || cols > MAX_DIM || rows < cols {
+        return false;
+    }
+    // Householder QR in place; R's diagonal kept apart. Rank is judged per column, against the
+    // column's own norm (columns may differ by many decades).
+    let mut r_diag = [0.0f64; MAX_DIM];
+    let mut column_norm = [0.0f64; MAX_DIM];
+    for k in 0..cols {
+        column_norm[k] = a[k * rows..(k + 1) * rows]
+            .iter()
+            .map(|v| v * v)
+            .sum::<f64>()
+            .sqrt();
+    }
+    for k in 0..cols {
+        let col = &mut a[k * rows..(k + 1) * rows];
+        let norm = col[k..].iter().map(|v| v * v).sum::<f64>().sqrt();
+        if !(norm > 0.0) || !norm.is_finite() {
+            return false;
+        }
+        let alpha = if col[k] > 0.0 { -norm } else { norm };
+        // v = x - alpha e1, stored in place of the column; beta = 2 / v^T v.
+        col[k] -= alpha;
+        let vtv: f64 = col[k..].iter().map(|v| v * v).sum();
+        r_diag[k] = alpha;
+        if vtv == 0.0 {
+            continue;
+        }
+        for j in (k + 1)..cols {
+            let (left, right) = a.split_at_mut(j * rows);
+            let v = &left[k * rows + k..k * rows + rows];
+            let x = &mut right[k..rows];
+            let dot: f64 = v.iter().zip(x.iter()).map(|(p, q)| p * q).sum();
+            let f = 2.0 * dot / vtv;
+            for (xi, vi) in x.iter_mut().zip(v) {
+                *xi -= f * vi;
+            }
+        }
+    }
+    if (0..cols).any(|k| !(r_diag[k].abs() > 1e-13 * column_norm[k])) {
+        return false;
+    }
+    // R[i][j] (i < j) = a[j * rows + i]; R[i][i] = r_diag[i].
+    let r = |i: usize, j: usize| if i == j { r_diag[i] } else { a[j * rows + i] };
+    let solve_normal = |v: &mut [f64]| {
+        // R^T w = v (forward), then R y = w (backward).
+        for i in 0..cols {
+            let mut s = v[i];
+            for k in 0..i {
+                s -= r(k, i) * v[k];
+            }
+            v[i] = s / r(i, i);
+        }
+        for i in (0..cols).rev() {
+            let mut s = v[i];
+            for k in (i + 1)..cols {
+                s -= r(i, k) * v[k];
+            }
+            v[i] = s / r(i, i);
+        }
+    };
+    solve_normal(b);
+    let mut z = [0.0f64; MAX_DIM];
+    z[..cols].copy_from_slice(&c[..cols]);
+    solve_normal(&mut z[..cols]);
+    let c_z: f64 = c[..cols].iter().zip(&z[..cols]).map(|(p, q)| p * q).sum();
+    let c_y: f64 = c[..cols].iter().zip(b.iter()).map(|(p, q)| p * q).sum();
+    let denominator = 1.0 - c_z;
+    if !(denominator > 1e-14) || !denominator.is_finite() {
+        return false;
+    }
+    let f = c_y / denominator;
+    for (bi, zi) in b[..cols].iter_mut().zip(&z[..cols]) {
+        *bi += f * zi;
+    }
+    b[..cols].iter().all(|v| v.is_finite())
+}
 
 /// Rank of a row-major `rows` x `cols` matrix by elimination with a relative tolerance.
 pub fn rank(matrix: &[f64], rows: usize, cols: usize) -> usize {
@@ -129,29 +238,63 @@ mod tests {
     use super::*;
 
     #[test]
-    fn spd_and_general_agree() {
-        // A 3x3 SPD matrix with known solution x = (1, -2, 3).
+    fn general_solve_recovers_a_known_solution() {
+        // A 3x3 matrix with known solution x = (1, -2, 3).
         let a = [4.0, 1.0, 0.5, 1.0, 3.0, 0.2, 0.5, 0.2, 2.0];
         let x = [1.0, -2.0, 3.0];
         let mut b: Vec<f64> = (0..3)
             .map(|i| (0..3).map(|k| a[i * 3 + k] * x[k]).sum())
             .collect();
         let mut b2 = b.clone();
-        let mut a1 = a;
-        assert!(solve_spd(&mut a1, &mut b, 3));
         let mut a2 = a;
-        assert!(solve_general(&mut a2, &mut b2, 3));
+        assert!(solve_general(&mut a2, &mut b, 3));
+        let mut a3 = a;
+        assert!(solve_spd(&mut a3, &mut b2, 3));
         for i in 0..3 {
             assert!((b[i] - x[i]).abs() < 1e-12);
             assert!((b2[i] - x[i]).abs() < 1e-12);
         }
+        // Closed forms for 1 and 2 unknowns.
+        let mut b1 = [3.0];
+        assert!(solve_spd(&mut [2.0], &mut b1, 1) && b1[0] == 1.5);
+        let mut b2 = [5.0, 5.0];
+        assert!(solve_spd(&mut [2.0, 1.0, 1.0, 3.0], &mut b2, 2));
+        assert!((b2[0] - 2.0).abs() < 1e-12 && (b2[1] - 1.0).abs() < 1e-12);
+        assert!(!solve_spd(&mut [1.0, 2.0, 2.0, 1.0], &mut b2, 2));
+    }
+
+    #[test]
+    fn gram_minus_rank_one_matches_the_formed_matrix() {
+        // A (3 x 2, column-major), c; compare with Gaussian elimination on A^T A - c c^T.
+        let a = [1.0, 2.0, 0.5, -1.0, 0.3, 2.0];
+        let c = [0.2, -0.1];
+        let mut m = [0.0; 4];
+        for i in 0..2 {
+            for j in 0..2 {
+                let dot: f64 = (0..3).map(|k| a[i * 3 + k] * a[j * 3 + k]).sum();
+                m[i * 2 + j] = dot - c[i] * c[j];
+            }
+        }
+        let mut b1 = [1.0, -2.0];
+        let mut b2 = b1;
+        assert!(solve_general(&mut m, &mut b1, 2));
+        let mut a2 = a;
+        assert!(solve_gram_minus_rank_one(&mut a2, 3, 2, &c, &mut b2));
+        assert!((b1[0] - b2[0]).abs() < 1e-12 && (b1[1] - b2[1]).abs() < 1e-12);
+        // Rank deficient A is refused.
+        let mut d = [1.0, 2.0, 3.0, 2.0, 4.0, 6.0];
+        assert!(!solve_gram_minus_rank_one(
+            &mut d,
+            3,
+            2,
+            &[0.0, 0.0],
+            &mut [1.0, 1.0]
+        ));
     }
 
     #[test]
     fn indefinite_and_singular_are_reported() {
-        let mut a = [1.0, 2.0, 2.0, 1.0];
         let mut b = [1.0, 1.0];
-        assert!(!solve_spd(&mut a, &mut b, 2));
         let mut s = [1.0, 2.0, 2.0, 4.0];
         assert!(!solve_general(&mut s, &mut b, 2));
         assert_eq!(rank(&[1.0, 2.0, 2.0, 4.0], 2, 2), 1);

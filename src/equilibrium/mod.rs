@@ -4,6 +4,7 @@
 //! [`extents`] is the numerical core (convex extent formulation, Newton with a positivity-keeping
 //! line search); [`stage`] adds the species data, approach temperatures and energy modes.
 
+mod basis;
 pub mod extents;
 mod linalg;
 pub mod stage;

@@ -109,6 +109,8 @@ pub struct EquilibriumStage {
     species: Vec<usize>,
     nasa: Vec<Nasa7>,
     system: ExtentSystem,
+    /// For each database species: does it take part in a reaction of the stage?
+    member: Vec<bool>,
 }
 
 const TEMPERATURE_TOLERANCE_K: f64 = 1e-9;
@@ -171,11 +173,16 @@ impl EquilibriumStage {
             .iter()
             .map(|&i| db.by_index(i).nasa7.clone())
             .collect();
+        let mut member = vec![false; db.len()];
+        for &i in &species {
+            member[i] = true;
+        }
         Ok(EquilibriumStage {
             reactions,
             species,
             nasa,
             system,
+            member,
         })
     }
 
@@ -248,6 +255,8 @@ impl EquilibriumStage {
         let mut state = StageState {
             guess: guess.map(|g| g.to_vec()),
             iterations: 0,
+            equilibrium_temperatures_k: vec![0.0; self.reactions.len()],
+            approach_signs: vec![0.0; self.reactions.len()],
         };
         let (temperature_k, solution, t_iter) = match mode {
             EnergyMode::FixedTemperature { temperature_k } => {
@@ -280,7 +289,7 @@ impl EquilibriumStage {
             outlet[i] = solution.amounts[k];
         }
         let h_in = ctx.inlet_enthalpy;
-        let h_out = crate::thermo::mixture::enthalpy(db, &outlet, temperature_k)?;
+        let h_out = self.enthalpy_of(&ctx, &solution.amounts, temperature_k);
         let duty_w = match mode {
             EnergyMode::FixedTemperature { .. } => h_out - h_in,
             EnergyMode::Adiabatic => 0.0,
@@ -288,18 +297,17 @@ impl EquilibriumStage {
         };
         let energy_residual =
             (h_out - h_in - duty_w).abs() / h_in.abs().max(h_out.abs()).max(1e-300);
-        let t_eq = self.equilibrium_temperatures(db, temperature_k, directions, zero_approach);
         let converged = solution.converged
             && (matches!(mode, EnergyMode::FixedTemperature { .. }) || energy_residual <= 1e-9);
         Ok(StageResult {
             outlet_flows: outlet,
             outlet_temperature_k: temperature_k,
             duty_w,
-            extents: solution.extents.clone(),
-            equilibrium_temperatures_k: t_eq.iter().map(|(t, _)| *t).collect(),
-            approach_signs: t_eq.iter().map(|(_, s)| *s).collect(),
-            frozen: solution.frozen.clone(),
-            residuals: solution.residuals.clone(),
+            extents: solution.extents,
+            equilibrium_temperatures_k: state.equilibrium_temperatures_k,
+            approach_signs: state.approach_signs,
+            frozen: solution.frozen,
+            residuals: solution.residuals,
             energy_residual,
             iterations: state.iterations,
             temperature_iterations: t_iter,
@@ -307,29 +315,16 @@ impl EquilibriumStage {
         })
     }
 
-    /// T_eq,j and s_j for each reaction at stream temperature `t`.
-    fn equilibrium_temperatures(
-        &self,
-        db: &SpeciesDb,
-        t: f64,
-        directions: &[f64],
-        zero_approach: bool,
-    ) -> Vec<(f64, f64)> {
-        self.reactions
+    /// Enthalpy (W) of the stage's species at `amounts` plus the inerts, at `t` (in range).
+    fn enthalpy_of(&self, ctx: &Context<'_>, amounts: &[f64], t: f64) -> f64 {
+        let rt = R_GAS * t;
+        let local: f64 = amounts
             .iter()
-            .zip(directions)
-            .map(|(r, dir)| {
-                let dh: f64 = r
-                    .reaction
-                    .stoichiometry
-                    .iter()
-                    .map(|(i, nu)| nu * db.by_index(*i).nasa7.h_rt(t))
-                    .sum();
-                let s = if dh * dir >= 0.0 { 1.0 } else { -1.0 };
-                let approach = if zero_approach { 0.0 } else { r.approach_k };
-                (t - s * approach, s)
-            })
-            .collect()
+            .zip(&self.nasa)
+            .map(|(n, nasa)| n * nasa.h_rt(t))
+            .sum();
+        let inert: f64 = ctx.inerts.iter().map(|(n, nasa)| n * nasa.h_rt(t)).sum();
+        rt * (local + inert)
     }
 
     /// Equilibrium at stream temperature `t`; also returns d lnK/dT of each reaction.
@@ -361,6 +356,8 @@ impl EquilibriumStage {
                 -1.0
             };
             let approach = if zero_approach { 0.0 } else { r.approach_k };
+            state.approach_signs[j] = s;
+            state.equilibrium_temperatures_k[j] = t - s * approach;
             if approach == 0.0 {
                 ln_k[j] = -(0..ns).map(|k| self.system.nu(j, k) * g_rt[k]).sum::<f64>();
                 dlnk_dt[j] = dh_rt / t; // dH/(R T^2) = (H/RT)/T
@@ -401,7 +398,6 @@ impl EquilibriumStage {
                 hint: "; check the inlet composition and approach temperatures".into(),
             });
         }
-        state.guess = Some(sol.extents.clone());
         Ok((sol, dlnk_dt))
     }
 
@@ -422,7 +418,7 @@ impl EquilibriumStage {
         let scale = target.abs().max(ctx.enthalpy_scale);
         for iteration in 1..=MAX_TEMPERATURE_ITERATIONS {
             let (sol, dlnk_dt) = self.equilibrium_at(ctx, t, directions, zero_approach, state)?;
-            let (h, dh_dt) = self.outlet_enthalpy(ctx, &sol, t, &dlnk_dt);
+            let (h, dh_dt, dxi) = self.outlet_enthalpy(ctx, &sol, t, &dlnk_dt);
             let f = h - target;
             if f.abs() <= ENERGY_TOLERANCE * scale {
                 return Ok((t, sol, iteration));
@@ -442,7 +438,6 @@ impl EquilibriumStage {
                 return Ok((t_new, sol, iteration + 1));
             }
             // Predict the extents at the new temperature from the sensitivity.
-            let dxi = self.system.sensitivity(&sol, ctx.inert, &dlnk_dt);
             let predicted: Vec<f64> = sol
                 .extents
                 .iter()
@@ -485,14 +480,15 @@ impl EquilibriumStage {
         })
     }
 
-    /// Outlet enthalpy (W) at `t` and its total derivative along the equilibrium (W/K).
+    /// Outlet enthalpy (W) at `t`, its total derivative along the equilibrium (W/K), and the
+    /// sensitivity of the extents to temperature (mol/s per K).
     fn outlet_enthalpy(
         &self,
         ctx: &Context<'_>,
         sol: &ExtentSolution,
         t: f64,
         dlnk_dt: &[f64],
-    ) -> (f64, f64) {
+    ) -> (f64, f64, Vec<f64>) {
         let rt = R_GAS * t;
         let mut h = 0.0;
         let mut cp = 0.0;
@@ -515,13 +511,17 @@ impl EquilibriumStage {
             }
             dh += dh_r * d;
         }
-        (h, dh)
+        (h, dh, dxi)
     }
 }
 
 struct StageState {
     guess: Option<Vec<f64>>,
     iterations: usize,
+    /// T_eq,j of the last equilibrium evaluated, K.
+    equilibrium_temperatures_k: Vec<f64>,
+    /// s_j of the last equilibrium evaluated.
+    approach_signs: Vec<f64>,
 }
 
 /// What a solve needs to know about the inlet, computed once.
@@ -545,7 +545,7 @@ impl<'a> Context<'a> {
         db: &'a SpeciesDb,
         inlet: StageInlet<'a>,
     ) -> Result<Context<'a>> {
-        if inlet.flows.len() != db.len() {
+        if inlet.flows.len() != db.len() || stage.member.len() != db.len() {
             return Err(Error::InvalidValue {
                 field: "stage inlet".into(),
                 value: format!("{} flows", inlet.flows.len()),
@@ -579,7 +579,7 @@ impl<'a> Context<'a> {
                 });
             }
             let sp = db.by_index(i);
-            let member = stage.species.contains(&i);
+            let member = stage.member[i];
             if *n > 0.0 || member {
                 t_min = t_min.max(sp.nasa7.t_min_k);
                 t_max = t_max.min(sp.nasa7.t_max_k);
