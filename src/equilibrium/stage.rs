@@ -203,7 +203,10 @@ impl EquilibriumStage {
             .reactions
             .iter()
             .any(|r| r.direction == Direction::Auto && r.approach_k != 0.0);
-        let directions: Vec<f64> = if needs_auto {
+        let single = self.single_reaction_direction(inlet, mode);
+        let directions: Vec<f64> = if let (true, Some(d)) = (needs_auto, single) {
+            vec![d]
+        } else if needs_auto {
             let zero = self.solve_with(
                 db,
                 inlet,
@@ -240,6 +243,47 @@ impl EquilibriumStage {
                 .collect()
         };
         self.solve_with(db, inlet, mode, guess, &directions, false)
+    }
+
+    /// The direction of a lone reaction without solving: the sign of its extent is that of
+    /// ln K(T) - ln Q at the inlet, with T the outlet temperature of a fixed-temperature stage or
+    /// the inlet temperature of an adiabatic one (the heat the reaction releases or takes moves
+    /// K toward Q, so the sign cannot change on the way). `None` for several reactions, a fixed
+    /// duty, or a temperature outside the data (the zero-approach solve then decides).
+    fn single_reaction_direction(&self, inlet: StageInlet<'_>, mode: EnergyMode) -> Option<f64> {
+        if self.reactions.len() != 1 || inlet.flows.len() != self.member.len() {
+            return None;
+        }
+        let t = match mode {
+            EnergyMode::FixedTemperature { temperature_k } => temperature_k,
+            EnergyMode::Adiabatic => inlet.temperature_k,
+            EnergyMode::FixedDuty { .. } => return None,
+        };
+        if !(t > 0.0) || !self.nasa.iter().all(|n| n.in_range(t)) {
+            return None;
+        }
+        let total: f64 = inlet.flows.iter().sum();
+        let ln_p = (inlet.pressure_pa / STANDARD_PRESSURE_PA).ln();
+        let (mut ln_q, mut ln_k) = (0.0, 0.0);
+        let (mut reactant_absent, mut product_absent) = (false, false);
+        for (k, &i) in self.species.iter().enumerate() {
+            let nu = self.system.nu(0, k);
+            let n = inlet.flows[i];
+            if n > 0.0 {
+                ln_q += nu * ((n / total).ln() + ln_p);
+            } else if nu < 0.0 {
+                reactant_absent = true;
+            } else {
+                product_absent = true;
+            }
+            ln_k -= nu * self.nasa[k].g_rt(t);
+        }
+        Some(match (reactant_absent, product_absent) {
+            (_, true) => 1.0,
+            (true, false) => -1.0,
+            (false, false) if ln_k >= ln_q => 1.0,
+            _ => -1.0,
+        })
     }
 
     fn solve_with(

@@ -319,3 +319,44 @@ fn solids_and_bad_inlets_are_refused() {
     );
     assert!(hot.is_err());
 }
+
+#[test]
+fn a_lone_reaction_takes_its_direction_from_the_inlet() {
+    // Reference: the sign of the extent of the same stage at zero approach (the definition of
+    // Direction::Auto), for shift forward, backward, and with a product absent, adiabatic and at
+    // a fixed temperature.
+    let db = db();
+    let with_approach = stage(&db, &[("shift", 8.0, Direction::Auto)]);
+    let zero = stage(&db, &[("shift", 0.0, Direction::Auto)]);
+    let cases = [
+        flows(
+            &db,
+            &[("CO", 0.13), ("H2O", 0.45), ("H2", 0.5), ("CO2", 0.06)],
+        ),
+        flows(
+            &db,
+            &[("CO2", 0.3), ("H2", 0.6), ("H2O", 0.05), ("CO", 0.01)],
+        ),
+        flows(&db, &[("CO", 0.2), ("H2O", 0.5), ("H2", 0.3)]),
+    ];
+    for gas in &cases {
+        for mode in [
+            EnergyMode::Adiabatic,
+            EnergyMode::FixedTemperature {
+                temperature_k: 700.0,
+            },
+        ] {
+            let inlet = StageInlet {
+                flows: gas,
+                temperature_k: 690.0,
+                pressure_pa: 20e5,
+            };
+            let a = with_approach.solve(&db, inlet, mode, None).unwrap();
+            let z = zero.solve(&db, inlet, mode, None).unwrap();
+            // Shift is exothermic forward: forward gives s = -1, backward s = +1.
+            let expected = if z.extents[0] >= 0.0 { -1.0 } else { 1.0 };
+            assert_eq!(a.approach_signs[0], expected, "{gas:?} {mode:?}");
+            assert_eq!(a.extents[0].signum(), z.extents[0].signum());
+        }
+    }
+}

@@ -3,9 +3,10 @@
 //! the water dew point (IAPWS-IF97 saturation line), approach lists, and figure building.
 
 use super::{Figure, FigureKind, Stream, StreamPhase};
-use crate::equilibrium::{EquilibriumStage, StageResult};
-use crate::error::{Error, Result};
+use crate::equilibrium::{Direction, EquilibriumStage, StageReaction, StageResult};
+use crate::error::{Error, Result, ResultExt};
 use crate::quantity::{kelvin_to_degc, R_GAS};
+use crate::reaction::Reaction;
 use crate::thermo::{water, Phase, SpeciesDb};
 
 /// Database indices of the species the units look at by name.
@@ -366,6 +367,26 @@ pub(crate) fn resolve_approaches(
 }
 
 /// Solve a prepared stage; errors and an unconverged result are reported with the unit's name.
+/// The equilibrium stage of a unit: the named reactions with their approaches (K) and
+/// directions, errors naming the unit.
+pub(crate) fn build_stage(
+    db: &SpeciesDb,
+    unit: &str,
+    reactions: &[&str],
+    approaches: &[f64],
+    directions: &[Direction],
+) -> Result<EquilibriumStage> {
+    let mut list = Vec::with_capacity(reactions.len());
+    for ((r, a), d) in reactions.iter().zip(approaches).zip(directions) {
+        list.push(StageReaction {
+            reaction: Reaction::named(db, r)?,
+            approach_k: *a,
+            direction: *d,
+        });
+    }
+    EquilibriumStage::new(db, list).context(|| format!("unit '{unit}'"))
+}
+
 pub(crate) fn run_stage(
     stage: &EquilibriumStage,
     db: &SpeciesDb,

@@ -10,13 +10,12 @@
 //! temperatures to represent a bed short of equilibrium.
 
 use super::common::{
-    check_inlets, dry_fraction, figure, outlet_pressure, require_vapour, resolve_approaches,
-    run_stage, stage_approaches, Key,
+    build_stage, check_inlets, dry_fraction, figure, outlet_pressure, require_vapour,
+    resolve_approaches, run_stage, stage_approaches, Key,
 };
 use super::{FigureKind, Stream, UnitResult};
-use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet, StageReaction};
-use crate::error::{Result, ResultExt};
-use crate::reaction::Reaction;
+use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
+use crate::error::Result;
 use crate::thermo::SpeciesDb;
 
 /// The reactions of a methanator's equilibrium stage, in stage order.
@@ -53,16 +52,13 @@ impl Methanator {
     pub fn new(db: &SpeciesDb, name: &str, spec: &MethanatorSpec) -> Result<Methanator> {
         let approaches = resolve_approaches(name, &spec.approaches, &METHANATOR_REACTIONS)?;
         outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
-        let directions = [Direction::Backward, Direction::Auto];
-        let mut reactions = Vec::with_capacity(2);
-        for ((r, a), d) in METHANATOR_REACTIONS.iter().zip(&approaches).zip(directions) {
-            reactions.push(StageReaction {
-                reaction: Reaction::named(db, r)?,
-                approach_k: *a,
-                direction: d,
-            });
-        }
-        let stage = EquilibriumStage::new(db, reactions).context(|| format!("unit '{name}'"))?;
+        let stage = build_stage(
+            db,
+            name,
+            &METHANATOR_REACTIONS,
+            &approaches,
+            &[Direction::Backward, Direction::Auto],
+        )?;
         Ok(Methanator {
             name: name.to_string(),
             spec: spec.clone(),

@@ -10,13 +10,12 @@
 
 use super::chemistry::{CarbonCheck, HigherHydrocarbons};
 use super::common::{
-    check_inlets, dry_fraction, figure, outlet_pressure, require_vapour, resolve_approaches,
-    run_stage, stage_approaches, Key,
+    build_stage, check_inlets, dry_fraction, figure, outlet_pressure, require_vapour,
+    resolve_approaches, run_stage, stage_approaches, Key,
 };
 use super::{FigureKind, Stream, UnitResult};
-use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet, StageReaction};
+use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::{Result, ResultExt};
-use crate::reaction::Reaction;
 use crate::thermo::{mixture, SpeciesDb};
 
 /// The reactions of a pre-reformer's equilibrium stage, in stage order.
@@ -47,15 +46,13 @@ impl Prereformer {
     pub fn new(db: &SpeciesDb, name: &str, spec: &PrereformerSpec) -> Result<Prereformer> {
         let approaches = resolve_approaches(name, &spec.approaches, &PREREFORMER_REACTIONS)?;
         outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
-        let mut reactions = Vec::with_capacity(2);
-        for (r, a) in PREREFORMER_REACTIONS.iter().zip(&approaches) {
-            reactions.push(StageReaction {
-                reaction: Reaction::named(db, r)?,
-                approach_k: *a,
-                direction: Direction::Auto,
-            });
-        }
-        let stage = EquilibriumStage::new(db, reactions).context(|| format!("unit '{name}'"))?;
+        let stage = build_stage(
+            db,
+            name,
+            &PREREFORMER_REACTIONS,
+            &approaches,
+            &[Direction::Auto, Direction::Auto],
+        )?;
         Ok(Prereformer {
             name: name.to_string(),
             spec: spec.clone(),

@@ -13,13 +13,12 @@
 
 use super::chemistry::{CarbonCheck, HigherHydrocarbons};
 use super::common::{
-    check_inlets, check_temperature, dry_fraction, figure, outlet_pressure, require_vapour,
-    resolve_approaches, run_stage, spec_error, stage_approaches, Key,
+    build_stage, check_inlets, check_temperature, dry_fraction, figure, outlet_pressure,
+    require_vapour, resolve_approaches, run_stage, spec_error, stage_approaches, Key,
 };
 use super::{FigureKind, Stream, UnitResult};
-use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet, StageReaction};
+use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::{Result, ResultExt};
-use crate::reaction::Reaction;
 use crate::thermo::{mixture, SpeciesDb};
 
 /// The reactions of a reformer's equilibrium stage, in stage order.
@@ -60,16 +59,13 @@ impl Reformer {
         }
         let approaches = resolve_approaches(name, &spec.approaches, &REFORMER_REACTIONS)?;
         outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
-        let directions = [Direction::Forward, Direction::Auto];
-        let mut reactions = Vec::with_capacity(2);
-        for ((r, a), d) in REFORMER_REACTIONS.iter().zip(&approaches).zip(directions) {
-            reactions.push(StageReaction {
-                reaction: Reaction::named(db, r)?,
-                approach_k: *a,
-                direction: d,
-            });
-        }
-        let stage = EquilibriumStage::new(db, reactions).context(|| format!("unit '{name}'"))?;
+        let stage = build_stage(
+            db,
+            name,
+            &REFORMER_REACTIONS,
+            &approaches,
+            &[Direction::Forward, Direction::Auto],
+        )?;
         Ok(Reformer {
             name: name.to_string(),
             spec: spec.clone(),

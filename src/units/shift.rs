@@ -7,14 +7,14 @@
 //! 15-20 K above the water dew point so that no water condenses on the catalyst.
 
 use super::common::{
-    check_inlets, check_temperature, degc, dew_point_k, dry_fraction, figure, outlet_pressure,
-    require_vapour, resolve_approaches, run_stage, spec_error, stage_approaches, Key,
+    build_stage, check_inlets, check_temperature, degc, dew_point_k, dry_fraction, figure,
+    outlet_pressure, require_vapour, resolve_approaches, run_stage, spec_error, stage_approaches,
+    Key,
 };
 use super::{FigureKind, Stream, UnitResult};
-use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet, StageReaction};
+use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::{Result, ResultExt};
 use crate::quantity::CELSIUS_OFFSET_K;
-use crate::reaction::Reaction;
 use crate::thermo::SpeciesDb;
 
 /// The reactions of a shift converter's equilibrium stage.
@@ -69,11 +69,7 @@ pub struct Shift {
     name: String,
     spec: ShiftSpec,
     key: Key,
-    /// The stage with the approach taken forward and backward: a single reaction's direction
-    /// is known before the solve (see [`Shift::direction`]), which saves the stage's own
-    /// zero-approach solve.
-    forward: EquilibriumStage,
-    backward: EquilibriumStage,
+    stage: EquilibriumStage,
 }
 
 impl Shift {
@@ -90,57 +86,19 @@ impl Shift {
         }
         let approaches = resolve_approaches(name, &spec.approaches, &SHIFT_REACTIONS)?;
         outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
-        let reaction = Reaction::named(db, SHIFT_REACTIONS[0])?;
-        let build = |direction| {
-            EquilibriumStage::new(
-                db,
-                vec![StageReaction {
-                    reaction: reaction.clone(),
-                    approach_k: approaches[0],
-                    direction,
-                }],
-            )
-            .context(|| format!("unit '{name}'"))
-        };
+        // The stage finds the direction of a lone reaction from the inlet (Direction::Auto).
+        let stage = build_stage(db, name, &SHIFT_REACTIONS, &approaches, &[Direction::Auto])?;
         Ok(Shift {
             name: name.to_string(),
             spec: spec.clone(),
             key: Key::new(db, name)?,
-            forward: build(Direction::Forward)?,
-            backward: build(Direction::Backward)?,
+            stage,
         })
     }
 
     /// The spec.
     pub fn spec(&self) -> &ShiftSpec {
         &self.spec
-    }
-
-    /// Which way the shift runs, as the stage's `Auto` would find it at zero approach. For one
-    /// reaction the sign of the extent is that of ln K(T) - ln Q at the inlet, T being the inlet
-    /// temperature for an adiabatic bed (the heat released moves K toward Q, so the sign cannot
-    /// change on the way) and the outlet temperature for a fixed one. Shift has no change in
-    /// moles, so Q does not depend on pressure.
-    fn direction(&self, db: &SpeciesDb, flows: &[f64], t: f64) -> Result<Direction> {
-        let k = &self.key;
-        let reactants = flows[k.co] * flows[k.h2o];
-        let products = flows[k.co2] * flows[k.h2];
-        if reactants == 0.0 {
-            return Ok(if products == 0.0 {
-                Direction::Forward
-            } else {
-                Direction::Backward
-            });
-        }
-        if products == 0.0 {
-            return Ok(Direction::Forward);
-        }
-        let ln_k = self.forward.reactions()[0].reaction.ln_k(db, t)?;
-        Ok(if ln_k - (products / reactants).ln() >= 0.0 {
-            Direction::Forward
-        } else {
-            Direction::Backward
-        })
     }
 
     /// Solve; `guess`: the stage extent of a previous solve (a warm start).
@@ -167,19 +125,8 @@ impl Shift {
         let h_in = inlet
             .enthalpy_w(db)
             .context(|| format!("unit '{name}', inlet enthalpy"))?;
-        let t_k = match mode {
-            EnergyMode::FixedTemperature { temperature_k } => temperature_k,
-            _ => t_in,
-        };
-        let stage_used = match self
-            .direction(db, &inlet.flows, t_k)
-            .context(|| format!("unit '{name}'"))?
-        {
-            Direction::Backward => &self.backward,
-            _ => &self.forward,
-        };
         let stage = run_stage(
-            stage_used,
+            &self.stage,
             db,
             name,
             StageInlet {
@@ -280,7 +227,7 @@ impl Shift {
         Ok(UnitResult {
             outlets: vec![Stream::vapour(out, t_out, p)],
             duty_w: duty,
-            approaches: stage_approaches(stage_used),
+            approaches: stage_approaches(&self.stage),
             figures,
             equilibrium: Some(stage),
             warnings,
