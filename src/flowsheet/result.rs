@@ -68,7 +68,7 @@ pub struct FlowsheetResult {
     pub units: Vec<SolvedUnit>,
     /// Plant summary.
     pub summary: Summary,
-    /// Warnings of all units (prefixed with the unit name) and of the flowsheet.
+    /// Warnings of all units (each names its unit) and of the flowsheet.
     pub warnings: Vec<String>,
     /// True when every unit converged.
     pub converged: bool,

@@ -93,12 +93,8 @@ pub fn solve(fs: &Flowsheet, db: &SpeciesDb) -> Result<FlowsheetResult> {
                 destination: dest(name),
             });
         }
-        warnings.extend(
-            result
-                .warnings
-                .iter()
-                .map(|w| format!("{}: {w}", unit.name)),
-        );
+        // Unit warnings already name their unit ("unit 'hts': ...").
+        warnings.extend(result.warnings.iter().cloned());
         units.push(SolvedUnit {
             name: unit.name.clone(),
             type_name: unit.unit_type.name().to_string(),

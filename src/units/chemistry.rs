@@ -120,6 +120,20 @@ impl CarbonCheck {
                 db.by_index(*i).phase != crate::thermo::Phase::Gas || flows[*i] > 0.0
             });
             if !present {
+                // Carbon former present, its partner absent (methane with no hydrogen, CO with
+                // no CO2): the activity is unbounded.
+                let unbounded = reaction.stoichiometry.iter().all(|(i, nu)| {
+                    db.by_index(*i).phase != crate::thermo::Phase::Gas
+                        || (*nu < 0.0) == (flows[*i] > 0.0)
+                });
+                if unbounded {
+                    warnings.push(format!(
+                        "unit '{unit}': the outlet has the carbon former of {} but none of its \
+                         other product, so its carbon activity is unbounded: carbon formation \
+                         thermodynamically possible (screening check)",
+                        reaction.name
+                    ));
+                }
                 continue;
             }
             let a = carbon_activity(db, reaction, temperature_k, p)

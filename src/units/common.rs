@@ -410,6 +410,25 @@ pub(crate) fn run_stage(
     Ok(r)
 }
 
+/// Warnings for the reactions a stage could not run at all (a species on each side absent and
+/// not formable: a reformer without steam, a shift converter without CO and steam).
+pub(crate) fn frozen_warnings(
+    unit: &str,
+    stage: &EquilibriumStage,
+    result: &StageResult,
+    warnings: &mut Vec<String>,
+) {
+    for (r, frozen) in stage.reactions().iter().zip(&result.frozen) {
+        if *frozen {
+            warnings.push(format!(
+                "unit '{unit}': reaction {} cannot proceed (a species on each side is absent \
+                 from the inlet); it was left unreacted",
+                r.reaction.name
+            ));
+        }
+    }
+}
+
 /// The (reaction name, approach) pairs a stage used.
 pub(crate) fn stage_approaches(stage: &EquilibriumStage) -> Vec<(String, f64)> {
     stage

@@ -10,8 +10,8 @@
 //! temperatures to represent a bed short of equilibrium.
 
 use super::common::{
-    build_stage, check_inlets, dry_fraction, figure, outlet_pressure, require_vapour,
-    resolve_approaches, run_stage, stage_approaches, Key,
+    build_stage, check_inlets, dry_fraction, figure, frozen_warnings, outlet_pressure,
+    require_vapour, resolve_approaches, run_stage, stage_approaches, Key,
 };
 use super::{FigureKind, Stream, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
@@ -145,6 +145,7 @@ impl Methanator {
             ),
         ];
         let mut warnings = Vec::new();
+        frozen_warnings(name, &self.stage, &stage, &mut warnings);
         if rise > LARGE_RISE_K {
             warnings.push(format!(
                 "unit '{name}': temperature rise {rise:.1} K is large (common practice: 20-30 K \

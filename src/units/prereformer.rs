@@ -10,8 +10,8 @@
 
 use super::chemistry::{CarbonCheck, HigherHydrocarbons};
 use super::common::{
-    build_stage, check_inlets, dry_fraction, figure, outlet_pressure, require_vapour,
-    resolve_approaches, run_stage, stage_approaches, Key,
+    build_stage, check_inlets, dry_fraction, figure, frozen_warnings, outlet_pressure,
+    require_vapour, resolve_approaches, run_stage, stage_approaches, Key,
 };
 use super::{FigureKind, Stream, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
@@ -135,6 +135,7 @@ impl Prereformer {
             ));
         }
         let mut warnings = Vec::new();
+        frozen_warnings(name, &self.stage, &stage, &mut warnings);
         let outlet = Stream::vapour(out, t_out, p);
         self.carbon
             .report(db, name, &outlet, &mut figures, &mut warnings)?;

@@ -13,8 +13,9 @@
 
 use super::chemistry::{CarbonCheck, HigherHydrocarbons};
 use super::common::{
-    build_stage, check_inlets, check_temperature, dry_fraction, figure, outlet_pressure,
-    require_vapour, resolve_approaches, run_stage, spec_error, stage_approaches, Key,
+    build_stage, check_inlets, check_temperature, dry_fraction, figure, frozen_warnings,
+    outlet_pressure, require_vapour, resolve_approaches, run_stage, spec_error, stage_approaches,
+    Key,
 };
 use super::{FigureKind, Stream, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
@@ -149,6 +150,7 @@ impl Reformer {
             ));
         }
         let mut warnings = Vec::new();
+        frozen_warnings(name, &self.stage, &stage, &mut warnings);
         let outlet = Stream::vapour(out, t_out, p);
         self.carbon
             .report(db, name, &outlet, &mut figures, &mut warnings)?;
@@ -244,5 +246,22 @@ mod tests {
         assert!(e.contains("unit 'r'") && e.contains("data range"), "{e}");
         let two = Reformer::new(&db, "r", &spec(1100.0, &[])).unwrap();
         assert!(two.solve(&db, &[&feed, &feed], None).is_err());
+    }
+
+    #[test]
+    fn a_reformer_without_steam_says_nothing_reacted_and_carbon_is_possible() {
+        // Common practice: methane with no steam cannot be reformed, and methane cracking can
+        // deposit carbon; both must be said, not hidden behind a converged result.
+        let db = db();
+        let feed = gas(&db, &[("CH4", 1.0)], 773.15, 20e5);
+        let r = Reformer::new(&db, "dry", &spec(1123.15, &[]))
+            .unwrap()
+            .solve(&db, &[&feed], None)
+            .unwrap();
+        assert_balances(&db, &[&feed], &r);
+        let text = r.warnings.join("\n");
+        assert!(text.contains("reaction reforming cannot proceed"), "{text}");
+        assert!(text.contains("carbon activity is unbounded"), "{text}");
+        assert_eq!(r.equilibrium.as_ref().unwrap().frozen, vec![true, true]);
     }
 }

@@ -8,8 +8,8 @@
 
 use super::common::{
     build_stage, check_inlets, check_temperature, degc, dew_point_k, dry_fraction, figure,
-    outlet_pressure, require_vapour, resolve_approaches, run_stage, spec_error, stage_approaches,
-    Key,
+    frozen_warnings, outlet_pressure, require_vapour, resolve_approaches, run_stage, spec_error,
+    stage_approaches, Key,
 };
 use super::{FigureKind, Stream, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
@@ -175,6 +175,7 @@ impl Shift {
             ));
         }
         let mut warnings = Vec::new();
+        frozen_warnings(name, &self.stage, &stage, &mut warnings);
         let catalyst = match self.spec.catalyst {
             Some(c) => c,
             None => {
