@@ -244,6 +244,17 @@ fn demo_train_json_keeps_the_stable_keys_and_closes_the_balances() {
         }
     }
     assert!(v["cautions"].as_str().unwrap().contains("local codes"));
+
+    // Conservation of mass (common practice): products carry the mass of the feeds, within
+    // 1e-9 relative.
+    let mass = |pick: fn(&Value) -> bool| -> f64 {
+        streams
+            .values()
+            .filter(|s| pick(s))
+            .map(|s| f(&s["mass_kg_h"]))
+            .sum()
+    };
+    assert_rel(mass(is_product), mass(is_feed), 1e-9, "mass balance");
 }
 
 /// log10 K of CO + H2O = CO2 + H2 from the NIST-JANAF log Kf columns, linear in 1/T between

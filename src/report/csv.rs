@@ -10,7 +10,7 @@
 //! - `phase`: `vapour` or `liquid`
 //! - `temperature_degC`, `temperature_K`
 //! - `pressure_bar` (absolute)
-//! - `total_kmol_h`, `total_Nm3_h` (ideal gas at 273.15 K and 101 325 Pa, DIN 1343)
+//! - `total_kmol_h`, `total_Nm3_h` (ideal gas at 273.15 K and 101 325 Pa, DIN 1343), `mass_kg_h`
 //! - `enthalpy_kW` (total, formation enthalpies included)
 //! - `<species>_kmol_h` for each species that flows in some stream, in database order
 //! - `<species>_mol_pct_wet` for the same species
@@ -22,7 +22,9 @@
 use super::tables::{phase_name, present_species, source_name};
 use crate::error::{Result, ResultExt};
 use crate::flowsheet::result::FlowsheetResult;
-use crate::quantity::{kelvin_to_degc, mol_s_to_kmol_h, mol_s_to_nm3_h, pa_to_bar, w_to_kw};
+use crate::quantity::{
+    kelvin_to_degc, kg_s_to_kg_h, mol_s_to_kmol_h, mol_s_to_nm3_h, pa_to_bar, w_to_kw,
+};
 use crate::thermo::SpeciesDb;
 
 /// Render the stream table as CSV.
@@ -46,6 +48,7 @@ pub fn render(db: &SpeciesDb, result: &FlowsheetResult) -> Result<String> {
         "pressure_bar",
         "total_kmol_h",
         "total_Nm3_h",
+        "mass_kg_h",
         "enthalpy_kW",
     ]
     .iter()
@@ -71,6 +74,7 @@ pub fn render(db: &SpeciesDb, result: &FlowsheetResult) -> Result<String> {
             number(pa_to_bar(st.pressure_pa)),
             number(mol_s_to_kmol_h(st.total())),
             number(mol_s_to_nm3_h(st.total())),
+            number(kg_s_to_kg_h(crate::thermo::mixture::mass(db, &st.flows))),
             number(w_to_kw(enthalpy_w)),
         ];
         fields.extend(

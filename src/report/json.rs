@@ -10,7 +10,7 @@
 //! - top level: `title`, `converged`, `summary`, `balances`, `cautions`
 //! - `streams.<name>`: `source` ("feed" or the unit name), `destination` (unit name or null for a
 //!   product), `phase` ("vapour" or "liquid"), `temperature_degC`, `total_kmol_h`,
-//!   `total_Nm3_h` (ideal gas at 273.15 K and 101 325 Pa, DIN 1343), `mole_percent_wet`,
+//!   `total_Nm3_h` (ideal gas at 273.15 K and 101 325 Pa, DIN 1343), `mass_kg_h`, `mole_percent_wet`,
 //!   `mole_percent_dry` {species: value}
 //! - `units.<name>`: `outlet_temperature_K`, `approach_K` {reaction: K},
 //!   `figures` {key: {label, value, unit}} in report units (% for fractions, ppm, degC, K,
@@ -30,7 +30,9 @@ use serde_json::{json, Map, Value};
 use super::tables::{figure_value, phase_name, present_species, source_name};
 use crate::error::{Result, ResultExt};
 use crate::flowsheet::result::{FlowsheetResult, SolvedStream};
-use crate::quantity::{kelvin_to_degc, mol_s_to_kmol_h, mol_s_to_nm3_h, pa_to_bar, w_to_kw};
+use crate::quantity::{
+    kelvin_to_degc, kg_s_to_kg_h, mol_s_to_kmol_h, mol_s_to_nm3_h, pa_to_bar, w_to_kw,
+};
 use crate::thermo::SpeciesDb;
 
 /// Render the solve result as pretty-printed JSON, ending in a newline.
@@ -158,6 +160,10 @@ fn stream_value(db: &SpeciesDb, s: &SolvedStream, species: &[usize]) -> Result<V
     m.insert("pressure_bar".into(), number(pa_to_bar(st.pressure_pa)));
     m.insert("total_kmol_h".into(), number(mol_s_to_kmol_h(st.total())));
     m.insert("total_Nm3_h".into(), number(mol_s_to_nm3_h(st.total())));
+    m.insert(
+        "mass_kg_h".into(),
+        number(kg_s_to_kg_h(crate::thermo::mixture::mass(db, &st.flows))),
+    );
     m.insert("flow_kmol_h".into(), map(&flow, false));
     m.insert("mole_percent_wet".into(), map(&wet, false));
     m.insert("mole_percent_dry".into(), map(&dry, true));

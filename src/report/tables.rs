@@ -9,8 +9,10 @@
 
 use crate::error::Result;
 use crate::flowsheet::result::{FlowsheetResult, SolvedStream, StreamSource};
-use crate::quantity::{kelvin_to_degc, mol_s_to_kmol_h, mol_s_to_nm3_h, pa_to_bar, w_to_kw};
-use crate::thermo::SpeciesDb;
+use crate::quantity::{
+    kelvin_to_degc, kg_s_to_kg_h, mol_s_to_kmol_h, mol_s_to_nm3_h, pa_to_bar, w_to_kw,
+};
+use crate::thermo::{mixture, SpeciesDb};
 use crate::units::{Figure, FigureKind, StreamPhase};
 
 /// Widest a block of stream columns may grow before the next block starts, characters.
@@ -21,7 +23,7 @@ const MAX_STREAMS_PER_BLOCK: usize = 6;
 const COLUMN_GAP: usize = 2;
 
 /// Labels of the stream rows above the compositions, matching [`stream_column`].
-const STREAM_LABELS: [&str; 7] = [
+const STREAM_LABELS: [&str; 8] = [
     "from",
     "to",
     "phase",
@@ -29,6 +31,7 @@ const STREAM_LABELS: [&str; 7] = [
     "pressure, bar",
     "total, kmol/h",
     "total, Nm3/h",
+    "mass, kg/h",
 ];
 
 /// How a column is aligned.
@@ -366,7 +369,12 @@ fn stream_column(
         fixed(kelvin_to_degc(st.temperature_k), 1),
         fixed(pa_to_bar(st.pressure_pa), 2),
         fixed(mol_s_to_kmol_h(st.total()), 2),
-        fixed(mol_s_to_nm3_h(st.total()), 0),
+        // Normal cubic metres are a gas measure; a liquid shows only kmol/h and kg/h.
+        match st.phase {
+            StreamPhase::Vapour => fixed(mol_s_to_nm3_h(st.total()), 0),
+            StreamPhase::Liquid => "-".to_string(),
+        },
+        fixed(kg_s_to_kg_h(mixture::mass(db, &st.flows)), 0),
     ];
     cells.extend(
         species
