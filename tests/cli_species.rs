@@ -62,7 +62,7 @@ fn user_species_file_adds_records_and_reports_yaml_positions() {
     std::fs::write(
         &good,
         "species:\n  - name: Xx\n    description: test gas\n    formula: He\n    elements: {He: 1}\n    \
-         phase: gas\n    molar-mass: 4.002602\n    source: demo record\n    nasa7:\n      \
+         phase: gas\n    molar-mass: 4.002602\n    source: demo record\n    standard-pressure: 1 bar\n    nasa7:\n      \
          temperature-ranges: [200.0, 1000.0, 3000.0]\n      low: [2.5, 0, 0, 0, 0, -745.375, 0.9]\n      \
          high: [2.5, 0, 0, 0, 0, -745.375, 0.9]\n",
     )

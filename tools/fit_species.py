@@ -464,6 +464,7 @@ def write_yaml(entries):
             f"    phase: {e['phase']}",
             f"    molar-mass: {round(molar_mass(e['elements']), 6)!r}",
             f"    source: \"{e['source']}\"",
+            "    standard-pressure: 1 bar",
             "    nasa7:",
             f"      temperature-ranges: [{fnum(rec.tmin)}, {fnum(rec.tmid)}, {fnum(rec.tmax)}]",
             f"      low: [{', '.join(fnum(a) for a in rec.low)}]",

@@ -12,6 +12,7 @@ use serde::Deserialize;
 
 use super::species::{Nasa7, Phase, Species};
 use crate::error::{Error, Result};
+use crate::quantity::{parse_pressure, STANDARD_PRESSURE_PA};
 
 /// The database text shipped with syntrain.
 pub const EMBEDDED_SPECIES_YAML: &str = include_str!("../../data/species.yaml");
@@ -44,6 +45,7 @@ struct RecordModel {
     phase: Phase,
     molar_mass: f64,
     source: String,
+    standard_pressure: String,
     nasa7: Nasa7Model,
 }
 
@@ -210,12 +212,26 @@ fn convert(r: RecordModel) -> Result<Species> {
             r.molar_mass
         )));
     }
+    // Records at another standard pressure (1 atm, say) are brought to 1 bar: for an ideal gas
+    // S(1 bar) = S(P_ref) + R ln(P_ref / 1 bar), i.e. a7 grows by ln(P_ref / 1 bar); a solid's
+    // properties do not depend on the pressure at this level.
+    let p_ref = parse_pressure(
+        &format!("species {}: standard-pressure", r.name),
+        &r.standard_pressure,
+    )?;
+    let shift = match r.phase {
+        Phase::Gas => (p_ref / STANDARD_PRESSURE_PA).ln(),
+        Phase::Solid => 0.0,
+    };
+    let (mut low, mut high) = (r.nasa7.low, r.nasa7.high);
+    low[6] += shift;
+    high[6] += shift;
     let nasa7 = Nasa7 {
         t_min_k: t_min,
         t_mid_k: t_mid,
         t_max_k: t_max,
-        low: r.nasa7.low,
-        high: r.nasa7.high,
+        low,
+        high,
     };
     // Continuity at the break: evaluate both ranges at t_mid.
     let lo = Nasa7 {
@@ -262,6 +278,7 @@ species:
     phase: gas
     molar-mass: 2.016
     source: test record
+    standard-pressure: 1 bar
     nasa7:
       temperature-ranges: [200.0, 1000.0, 3000.0]
       low: [3.5, 0, 0, 0, 0, -1043.5, -1.0]
@@ -301,6 +318,30 @@ species:
             Err(Error::Yaml { location, .. }) => assert!(location.starts_with(':')),
             other => panic!("expected a YAML error, got {other:?}"),
         }
+    }
+
+    #[test]
+    fn a_record_at_one_atmosphere_is_brought_to_one_bar() {
+        // Ideal gas: S(1 bar) - S(1 atm) = R ln(1.01325) = 0.1094 J/(mol K) (NIST-JANAF (Chase
+        // 1998) introduction: the change of standard state from 1 atm to 1 bar).
+        let mut db = SpeciesDb::embedded().unwrap();
+        db.add_yaml("u", &ONE.replace("XE1", "XB")).unwrap();
+        db.add_yaml(
+            "u",
+            &ONE.replace("XE1", "XA")
+                .replace("standard-pressure: 1 bar", "standard-pressure: 1 atm"),
+        )
+        .unwrap();
+        let s_bar = db.get("XB").unwrap().entropy(500.0).unwrap();
+        let s_atm = db.get("XA").unwrap().entropy(500.0).unwrap();
+        assert!((s_atm - s_bar - 0.10938).abs() < 1e-4, "{}", s_atm - s_bar);
+        let h = db.get("XA").unwrap().enthalpy(500.0).unwrap();
+        assert_eq!(h, db.get("XB").unwrap().enthalpy(500.0).unwrap());
+        // A missing standard pressure is refused.
+        let none = ONE
+            .replace("XE1", "XC")
+            .replace("    standard-pressure: 1 bar\n", "");
+        assert!(db.add_yaml("u", &none).is_err());
     }
 
     #[test]
