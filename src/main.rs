@@ -11,12 +11,13 @@ use syntrain::report;
 use syntrain::report::species as species_report;
 use syntrain::thermo::SpeciesDb;
 
+/// Shown under every help page.
+const CAUTION: &str = "Screening results only: hot hydrogen and carbon monoxide at pressure are \
+flammable and toxic. Follow local codes and licensed engineering practice.";
+
 /// Equilibrium and energy balances of steam-reforming hydrogen and syngas trains.
-///
-/// Screening results only: hot hydrogen and carbon monoxide at pressure are flammable and toxic.
-/// Follow local codes and licensed engineering practice.
 #[derive(Parser)]
-#[command(name = "syntrain", version, about, long_about = None)]
+#[command(name = "syntrain", version, about, long_about = None, after_help = CAUTION)]
 struct Cli {
     /// Extra species records to add to the shipped database (same format as data/species.yaml).
     #[arg(long, global = true, value_name = "FILE")]

@@ -460,10 +460,12 @@ impl EquilibriumStage {
         let (mut lo, mut hi) = (t_min + margin, t_max - margin);
         let mut t = ctx.inlet.temperature_k.clamp(lo, hi);
         let scale = target.abs().max(ctx.enthalpy_scale);
+        let mut last_residual = f64::INFINITY;
         for iteration in 1..=MAX_TEMPERATURE_ITERATIONS {
             let (sol, dlnk_dt) = self.equilibrium_at(ctx, t, directions, zero_approach, state)?;
             let (h, dh_dt, dxi) = self.outlet_enthalpy(ctx, &sol, t, &dlnk_dt);
             let f = h - target;
+            last_residual = f.abs() / scale;
             if f.abs() <= ENERGY_TOLERANCE * scale {
                 return Ok((t, sol, iteration));
             }
@@ -497,7 +499,7 @@ impl EquilibriumStage {
         Err(Error::NotConverged {
             what: "stage temperature (energy balance)".into(),
             iterations: MAX_TEMPERATURE_ITERATIONS,
-            residual: f64::NAN,
+            residual: last_residual,
             hint: "; the energy balance has no solution inside the species data range".into(),
         })
     }
