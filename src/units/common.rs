@@ -166,13 +166,7 @@ pub(crate) fn require_vapour(db: &SpeciesDb, unit: &str, inlets: &[&Stream]) -> 
 
 /// Outlet pressure after a pressure drop; the drop must be finite, non-negative and leave P > 0.
 pub(crate) fn outlet_pressure(unit: &str, inlet_pa: f64, drop_pa: f64) -> Result<f64> {
-    if !(drop_pa.is_finite() && drop_pa >= 0.0) {
-        return Err(spec_error(
-            unit,
-            "pressure-drop",
-            format!("{drop_pa} Pa must be finite and not negative"),
-        ));
-    }
+    check_pressure_drop(unit, drop_pa)?;
     let p = inlet_pa - drop_pa;
     if p > 0.0 {
         Ok(p)
@@ -187,6 +181,33 @@ pub(crate) fn outlet_pressure(unit: &str, inlet_pa: f64, drop_pa: f64) -> Result
             ),
         ))
     }
+}
+
+/// A pressure drop must be finite and not negative (checked when a unit is prepared).
+pub(crate) fn check_pressure_drop(unit: &str, drop_pa: f64) -> Result<()> {
+    if drop_pa.is_finite() && drop_pa >= 0.0 {
+        Ok(())
+    } else {
+        Err(spec_error(
+            unit,
+            "pressure-drop",
+            format!("{drop_pa} Pa must be finite and not negative"),
+        ))
+    }
+}
+
+/// The single vapour inlet of a reactor and its outlet pressure after `drop_pa`.
+pub(crate) fn reactor_inlet<'a>(
+    db: &SpeciesDb,
+    unit: &str,
+    type_name: &str,
+    inlets: &[&'a Stream],
+    drop_pa: f64,
+) -> Result<(&'a Stream, f64)> {
+    check_inlets(db, unit, type_name, inlets, 1, Some(1))?;
+    require_vapour(db, unit, inlets)?;
+    let inlet = inlets[0];
+    Ok((inlet, outlet_pressure(unit, inlet.pressure_pa, drop_pa)?))
 }
 
 /// Temperature range (K) in which every species with a non-zero flow has data.

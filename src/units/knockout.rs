@@ -10,8 +10,8 @@
 //! liquid is neglected. Duty = H(gas) + H(condensate) - H(inlet).
 
 use super::common::{
-    check_inlets, check_temperature, degc, dew_point_k, figure, outlet_pressure, require_vapour,
-    spec_error, Key,
+    check_inlets, check_pressure_drop, check_temperature, degc, dew_point_k, figure,
+    outlet_pressure, require_vapour, spec_error, Key,
 };
 use super::{FigureKind, Stream, StreamPhase, UnitResult};
 use crate::error::{Result, ResultExt};
@@ -53,7 +53,7 @@ impl Knockout {
                 ));
             }
         }
-        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        check_pressure_drop(name, spec.pressure_drop_pa)?;
         Ok(Knockout {
             name: name.to_string(),
             spec: spec.clone(),

@@ -10,8 +10,8 @@
 //! temperatures to represent a bed short of equilibrium.
 
 use super::common::{
-    build_stage, check_inlets, dry_fraction, figure, frozen_warnings, outlet_pressure,
-    require_vapour, resolve_approaches, run_stage, stage_approaches, Key,
+    build_stage, check_pressure_drop, dry_fraction, figure, frozen_warnings, reactor_inlet,
+    resolve_approaches, run_stage, stage_approaches, Key,
 };
 use super::{FigureKind, Stream, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
@@ -51,7 +51,7 @@ impl Methanator {
     /// Check the spec and build the equilibrium stage.
     pub fn new(db: &SpeciesDb, name: &str, spec: &MethanatorSpec) -> Result<Methanator> {
         let approaches = resolve_approaches(name, &spec.approaches, &METHANATOR_REACTIONS)?;
-        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        check_pressure_drop(name, spec.pressure_drop_pa)?;
         let stage = build_stage(
             db,
             name,
@@ -81,11 +81,8 @@ impl Methanator {
     ) -> Result<UnitResult> {
         let name = &self.name;
         let key = &self.key;
-        check_inlets(db, name, "methanator", inlets, 1, Some(1))?;
-        require_vapour(db, name, inlets)?;
-        let inlet = inlets[0];
+        let (inlet, p) = reactor_inlet(db, name, "methanator", inlets, self.spec.pressure_drop_pa)?;
         let t_in = inlet.temperature_k;
-        let p = outlet_pressure(name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
         let stage = run_stage(
             &self.stage,
             db,

@@ -6,8 +6,8 @@
 //! water's vaporisation in the same balance, which this unit does not do.
 
 use super::common::{
-    check_inlets, degc, dew_point_k, enthalpy_sum, figure, outlet_pressure, require_vapour,
-    temperature_at_enthalpy, Key,
+    check_inlets, check_pressure_drop, degc, dew_point_k, enthalpy_sum, figure, outlet_pressure,
+    require_vapour, temperature_at_enthalpy, Key,
 };
 use super::{FigureKind, Stream, UnitResult};
 use crate::error::{Result, ResultExt};
@@ -31,7 +31,7 @@ pub struct Mixer {
 impl Mixer {
     /// Check the spec and prepare.
     pub fn new(db: &SpeciesDb, name: &str, spec: &MixerSpec) -> Result<Mixer> {
-        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        check_pressure_drop(name, spec.pressure_drop_pa)?;
         Ok(Mixer {
             name: name.to_string(),
             spec: spec.clone(),

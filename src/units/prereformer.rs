@@ -10,8 +10,8 @@
 
 use super::chemistry::{CarbonCheck, HigherHydrocarbons};
 use super::common::{
-    build_stage, check_inlets, dry_fraction, figure, frozen_warnings, outlet_pressure,
-    require_vapour, resolve_approaches, run_stage, stage_approaches, Key,
+    build_stage, check_pressure_drop, dry_fraction, figure, frozen_warnings, reactor_inlet,
+    resolve_approaches, run_stage, stage_approaches, Key,
 };
 use super::{FigureKind, Stream, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
@@ -45,7 +45,7 @@ impl Prereformer {
     /// Check the spec and build the equilibrium stage.
     pub fn new(db: &SpeciesDb, name: &str, spec: &PrereformerSpec) -> Result<Prereformer> {
         let approaches = resolve_approaches(name, &spec.approaches, &PREREFORMER_REACTIONS)?;
-        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        check_pressure_drop(name, spec.pressure_drop_pa)?;
         let stage = build_stage(
             db,
             name,
@@ -77,11 +77,9 @@ impl Prereformer {
     ) -> Result<UnitResult> {
         let name = &self.name;
         let key = &self.key;
-        check_inlets(db, name, "prereformer", inlets, 1, Some(1))?;
-        require_vapour(db, name, inlets)?;
-        let inlet = inlets[0];
+        let (inlet, p) =
+            reactor_inlet(db, name, "prereformer", inlets, self.spec.pressure_drop_pa)?;
         let t_in = inlet.temperature_k;
-        let p = outlet_pressure(name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
         let higher_in = self.higher.amount(&inlet.flows);
         let mut converted = inlet.flows.clone();
         self.higher.reform(name, key, &mut converted)?;

@@ -6,7 +6,9 @@
 //! Isothermal, with no duty: ideal-gas enthalpy does not depend on pressure, so the energy
 //! balance closes exactly.
 
-use super::common::{check_inlets, figure, outlet_pressure, require_vapour, spec_error, Key};
+use super::common::{
+    check_inlets, check_pressure_drop, figure, outlet_pressure, require_vapour, spec_error, Key,
+};
 use super::{FigureKind, Stream, UnitResult};
 use crate::error::Result;
 use crate::thermo::SpeciesDb;
@@ -71,7 +73,7 @@ impl Purifier {
                 format!("{p_tail} Pa must be a positive absolute pressure"),
             ));
         }
-        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        check_pressure_drop(name, spec.pressure_drop_pa)?;
         let mode = match &spec.product {
             PurifierProduct::Purity(x) => {
                 if !(*x > 0.0 && *x <= 1.0) {

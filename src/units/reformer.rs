@@ -13,9 +13,8 @@
 
 use super::chemistry::{CarbonCheck, HigherHydrocarbons};
 use super::common::{
-    build_stage, check_inlets, check_temperature, dry_fraction, figure, frozen_warnings,
-    outlet_pressure, require_vapour, resolve_approaches, run_stage, spec_error, stage_approaches,
-    Key,
+    build_stage, check_pressure_drop, check_temperature, dry_fraction, figure, frozen_warnings,
+    reactor_inlet, resolve_approaches, run_stage, spec_error, stage_approaches, Key,
 };
 use super::{FigureKind, Stream, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
@@ -59,7 +58,7 @@ impl Reformer {
             ));
         }
         let approaches = resolve_approaches(name, &spec.approaches, &REFORMER_REACTIONS)?;
-        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        check_pressure_drop(name, spec.pressure_drop_pa)?;
         let stage = build_stage(
             db,
             name,
@@ -91,11 +90,8 @@ impl Reformer {
     ) -> Result<UnitResult> {
         let name = &self.name;
         let key = &self.key;
-        check_inlets(db, name, "reformer", inlets, 1, Some(1))?;
-        require_vapour(db, name, inlets)?;
-        let inlet = inlets[0];
+        let (inlet, p) = reactor_inlet(db, name, "reformer", inlets, self.spec.pressure_drop_pa)?;
         let t_out = self.spec.outlet_temperature_k;
-        let p = outlet_pressure(name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
         let mut converted = inlet.flows.clone();
         self.higher.reform(name, key, &mut converted)?;
         check_temperature(db, name, "outlet-temperature", &converted, t_out)?;

@@ -7,9 +7,9 @@
 //! 15-20 K above the water dew point so that no water condenses on the catalyst.
 
 use super::common::{
-    build_stage, check_inlets, check_temperature, degc, dew_point_k, dry_fraction, figure,
-    frozen_warnings, outlet_pressure, require_vapour, resolve_approaches, run_stage, spec_error,
-    stage_approaches, Key,
+    build_stage, check_pressure_drop, check_temperature, degc, dew_point_k, dry_fraction, figure,
+    frozen_warnings, reactor_inlet, resolve_approaches, run_stage, spec_error, stage_approaches,
+    Key,
 };
 use super::{FigureKind, Stream, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
@@ -85,7 +85,7 @@ impl Shift {
             }
         }
         let approaches = resolve_approaches(name, &spec.approaches, &SHIFT_REACTIONS)?;
-        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        check_pressure_drop(name, spec.pressure_drop_pa)?;
         // The stage finds the direction of a lone reaction from the inlet (Direction::Auto).
         let stage = build_stage(db, name, &SHIFT_REACTIONS, &approaches, &[Direction::Auto])?;
         Ok(Shift {
@@ -110,11 +110,8 @@ impl Shift {
     ) -> Result<UnitResult> {
         let name = &self.name;
         let key = &self.key;
-        check_inlets(db, name, "shift", inlets, 1, Some(1))?;
-        require_vapour(db, name, inlets)?;
-        let inlet = inlets[0];
+        let (inlet, p) = reactor_inlet(db, name, "shift", inlets, self.spec.pressure_drop_pa)?;
         let t_in = inlet.temperature_k;
-        let p = outlet_pressure(name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
         let mode = match self.spec.outlet_temperature_k {
             Some(t) => {
                 check_temperature(db, name, "outlet-temperature", &inlet.flows, t)?;

@@ -1,7 +1,7 @@
 //! Splitter: divides one stream into several of the same temperature, pressure (less an optional
 //! pressure drop), phase and composition, by fraction or by total molar flow per outlet.
 
-use super::common::{check_inlets, outlet_pressure, spec_error};
+use super::common::{check_inlets, check_pressure_drop, outlet_pressure, spec_error};
 use super::{Stream, UnitResult};
 use crate::error::Result;
 use crate::thermo::SpeciesDb;
@@ -95,7 +95,7 @@ impl Splitter {
                 ));
             }
         }
-        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        check_pressure_drop(name, spec.pressure_drop_pa)?;
         Ok(Splitter {
             name: name.to_string(),
             spec: spec.clone(),

@@ -6,8 +6,8 @@
 //! outlet stays all vapour (use a knockout to condense the water).
 
 use super::common::{
-    check_inlets, check_temperature, degc, dew_point_k, figure, outlet_pressure, require_vapour,
-    spec_error, temperature_at_enthalpy, Key,
+    check_inlets, check_pressure_drop, check_temperature, degc, dew_point_k, figure,
+    outlet_pressure, require_vapour, spec_error, temperature_at_enthalpy, Key,
 };
 use super::{FigureKind, Stream, UnitResult};
 use crate::error::{Result, ResultExt};
@@ -100,7 +100,7 @@ impl Thermal {
             }
             _ => {}
         }
-        outlet_pressure(name, 1.0 + spec.pressure_drop_pa, spec.pressure_drop_pa)?;
+        check_pressure_drop(name, spec.pressure_drop_pa)?;
         Ok(Thermal {
             name: name.to_string(),
             kind,
