@@ -1,0 +1,1 @@
+//! (filled by the fix that goes with it)
