@@ -5,13 +5,16 @@
 //! standard state of every gas the pure ideal gas at 1 bar and of a solid the pure solid
 //! (activity one). The van 't Hoff relation d ln K / dT = dH / (R T^2) follows from the same data.
 //!
-//! The named reactions of the trade are built in (`reforming`, `shift`, the reforming of each
-//! higher hydrocarbon, `boudouard`, `methane-cracking`, and the oxidations); any other can be
-//! defined from its stoichiometry, and every definition is checked for its element balance.
+//! The named reactions of the trade are built in (`reforming`, `shift`, `dry-reforming`,
+//! `boudouard`, `methane-cracking`, and the oxidations); any other can be defined from its
+//! stoichiometry, and every definition is checked for its element balance. The complete steam
+//! reforming of every other carbon-bearing gas of carbon, hydrogen and oxygen (ethane, propane, a
+//! user's n-heptane or methanol) follows from the species data alone
+//! ([`Reaction::steam_reforming_of`]): C_n H_m O_k + (n - k) H2O = n CO + (n + m/2 - k) H2.
 
 use crate::error::{Error, Result};
 use crate::quantity::R_GAS;
-use crate::thermo::{Phase, SpeciesDb};
+use crate::thermo::{Phase, Species, SpeciesDb};
 
 /// One reaction: a name and the stoichiometric coefficients (products positive) by species index.
 #[derive(Debug, Clone, PartialEq)]
@@ -33,26 +36,6 @@ pub const NAMED_REACTIONS: &[(&str, &[(&str, f64)])] = &[
         &[("CO", -1.0), ("H2O", -1.0), ("CO2", 1.0), ("H2", 1.0)],
     ),
     (
-        "ethane-reforming",
-        &[("C2H6", -1.0), ("H2O", -2.0), ("CO", 2.0), ("H2", 5.0)],
-    ),
-    (
-        "propane-reforming",
-        &[("C3H8", -1.0), ("H2O", -3.0), ("CO", 3.0), ("H2", 7.0)],
-    ),
-    (
-        "n-butane-reforming",
-        &[("n-C4H10", -1.0), ("H2O", -4.0), ("CO", 4.0), ("H2", 9.0)],
-    ),
-    (
-        "i-butane-reforming",
-        &[("i-C4H10", -1.0), ("H2O", -4.0), ("CO", 4.0), ("H2", 9.0)],
-    ),
-    (
-        "ethylene-reforming",
-        &[("C2H4", -1.0), ("H2O", -2.0), ("CO", 2.0), ("H2", 4.0)],
-    ),
-    (
         "dry-reforming",
         &[("CH4", -1.0), ("CO2", -1.0), ("CO", 2.0), ("H2", 2.0)],
     ),
@@ -72,16 +55,50 @@ pub const NAMED_REACTIONS: &[(&str, &[(&str, f64)])] = &[
     ),
 ];
 
-/// The reforming reaction of each higher hydrocarbon the database ships, by species name.
-pub const HYDROCARBON_REFORMING: &[(&str, &str)] = &[
-    ("C2H6", "ethane-reforming"),
-    ("C3H8", "propane-reforming"),
-    ("n-C4H10", "n-butane-reforming"),
-    ("i-C4H10", "i-butane-reforming"),
-    ("C2H4", "ethylene-reforming"),
-];
+/// Carbon atoms that count as organic carbon in a steam-to-carbon ratio: those of every gas
+/// species holding carbon other than CO and CO2 (hydrocarbons, oxygenates); zero otherwise.
+pub fn organic_carbon_atoms(species: &Species) -> f64 {
+    let inorganic = matches!(species.name.as_str(), "CO" | "CO2");
+    if species.phase == Phase::Gas && !inorganic {
+        species.atoms("C")
+    } else {
+        0.0
+    }
+}
 
 impl Reaction {
+    /// The complete steam reforming of species `index` to CO and H2, named `<species>-reforming`:
+    /// C_n H_m O_k + (n - k) H2O = n CO + (n + m/2 - k) H2. `None` for the species it does not
+    /// apply to: anything but a gas of carbon with hydrogen and/or oxygen only, methane (which
+    /// comes to equilibrium instead), CO and CO2 (the products), and species whose hydrogen
+    /// would be consumed (n + m/2 < k).
+    pub fn steam_reforming_of(db: &SpeciesDb, index: usize) -> Option<Result<Reaction>> {
+        let species = db.by_index(index);
+        let n = species.atoms("C");
+        let m = species.atoms("H");
+        let k = species.atoms("O");
+        let only_cho = species
+            .elements
+            .iter()
+            .all(|(e, _)| matches!(e.as_str(), "C" | "H" | "O"));
+        let excluded = matches!(species.name.as_str(), "CH4" | "CO" | "CO2");
+        if species.phase != Phase::Gas || !only_cho || n <= 0.0 || excluded {
+            return None;
+        }
+        let h2 = n + m / 2.0 - k;
+        if h2 < 0.0 {
+            return None;
+        }
+        let name = format!("{}-reforming", species.name);
+        let terms = [
+            (species.name.as_str(), -1.0),
+            ("H2O", k - n),
+            ("CO", n),
+            ("H2", h2),
+        ];
+        Some(Reaction::new(db, &name, &terms))
+    }
+
     /// Define a reaction from (species name, coefficient) pairs, products positive; the element
     /// balance is checked and a species named twice is summed.
     pub fn new(db: &SpeciesDb, name: &str, terms: &[(&str, f64)]) -> Result<Reaction> {
@@ -277,9 +294,29 @@ mod tests {
         for (name, _) in NAMED_REACTIONS {
             Reaction::named(&db, name).unwrap();
         }
-        for (_, name) in HYDROCARBON_REFORMING {
-            Reaction::named(&db, name).unwrap();
+    }
+
+    #[test]
+    fn steam_reforming_follows_from_the_formula() {
+        let db = db();
+        let by = |name: &str| db.index_of(name).unwrap();
+        // C2H6 + 2 H2O = 2 CO + 5 H2; C3H8 + 3 H2O = 3 CO + 7 H2 (stoichiometry of
+        // C_n H_m + n H2O = n CO + (n + m/2) H2, common practice).
+        let r = Reaction::steam_reforming_of(&db, by("C2H6")).unwrap().unwrap();
+        assert_eq!(r.equation(&db), "C2H6 + 2 H2O = 2 CO + 5 H2");
+        assert_eq!(r.name, "C2H6-reforming");
+        let r = Reaction::steam_reforming_of(&db, by("C3H8")).unwrap().unwrap();
+        assert_eq!(r.equation(&db), "C3H8 + 3 H2O = 3 CO + 7 H2");
+        // Methane comes to equilibrium instead; CO and CO2 are the products; N2, H2O and
+        // graphite are no fuel for it.
+        for name in ["CH4", "CO", "CO2", "N2", "H2O", "H2", "C(gr)", "NH3"] {
+            assert!(Reaction::steam_reforming_of(&db, by(name)).is_none(), "{name}");
         }
+        // Organic carbon counts every gas carbon atom but those of CO and CO2.
+        assert_eq!(organic_carbon_atoms(db.by_index(by("C3H8"))), 3.0);
+        assert_eq!(organic_carbon_atoms(db.by_index(by("CH4"))), 1.0);
+        assert_eq!(organic_carbon_atoms(db.by_index(by("CO2"))), 0.0);
+        assert_eq!(organic_carbon_atoms(db.by_index(by("C(gr)"))), 0.0);
     }
 
     #[test]

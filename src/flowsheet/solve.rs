@@ -8,7 +8,7 @@
 //!   magnitude (sum over feeds of |H|, formation enthalpies included) and the sum of |duty|.
 //!
 //! A flowsheet that fails either check is an error, never a result. The steam-to-carbon ratio
-//! is H2O over carbon in hydrocarbons (CO and CO2 not counted), common practice.
+//! is H2O over organic carbon (carbon in every gas species but CO and CO2), common practice.
 
 use std::collections::HashMap;
 
@@ -16,7 +16,7 @@ use super::result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Sum
 use super::yaml::UnitType;
 use super::Flowsheet;
 use crate::error::{Error, Result};
-use crate::thermo::{mixture, Phase, SpeciesDb};
+use crate::thermo::{mixture, SpeciesDb};
 use crate::units::Stream;
 
 /// Largest relative element-balance error a solved flowsheet may have.
@@ -122,24 +122,13 @@ pub fn solve(fs: &Flowsheet, db: &SpeciesDb) -> Result<FlowsheetResult> {
     })
 }
 
-/// Carbon in hydrocarbons (gas species of C and H only), mol/s.
+/// Organic carbon (carbon in every gas species but CO and CO2), mol/s.
 fn organic_carbon(db: &SpeciesDb, flows: &[f64]) -> f64 {
     flows
         .iter()
         .enumerate()
         .filter(|(_, n)| **n != 0.0)
-        .map(|(i, n)| {
-            let s = db.by_index(i);
-            let hydrocarbon = s.phase == Phase::Gas
-                && s.atoms("C") > 0.0
-                && s.atoms("H") > 0.0
-                && s.elements.len() == 2;
-            if hydrocarbon {
-                n * s.atoms("C")
-            } else {
-                0.0
-            }
-        })
+        .map(|(i, n)| n * crate::reaction::organic_carbon_atoms(db.by_index(i)))
         .sum()
 }
 

@@ -1,6 +1,8 @@
 //! Chemistry shared by the reforming units: the complete steam reforming of the higher
-//! hydrocarbons (C2+ reformed to CO and H2 before methane and shift come to equilibrium, as on a
-//! nickel catalyst, where their equilibrium lies fully on the side of CO and H2), and the
+//! hydrocarbons and oxygenates (every gas of carbon with hydrogen and oxygen other than CH4, CO
+//! and CO2, found from the species data, reformed to CO and H2 before methane and shift come to
+//! equilibrium, as on a nickel catalyst, where their equilibrium lies fully on the side of CO and
+//! H2), the carbon-bearing species a unit's reactions cannot convert (named in a warning), and the
 //! carbon activity at an outlet by methane cracking (CH4 = C + 2 H2) and Boudouard
 //! (2 CO = C + CO2), a_C > 1 meaning carbon is thermodynamically possible.
 
@@ -8,10 +10,11 @@ use super::common::{figure, spec_error, Key};
 use super::FigureKind;
 use crate::error::{Result, ResultExt};
 use crate::quantity::STANDARD_PRESSURE_PA;
-use crate::reaction::{carbon_activity, Reaction, HYDROCARBON_REFORMING};
+use crate::reaction::{carbon_activity, Reaction};
 use crate::thermo::SpeciesDb;
 
-/// The reforming reaction of each higher hydrocarbon in the database, prepared once.
+/// The complete steam reforming of every species the database holds that a nickel catalyst
+/// converts completely (see [`Reaction::steam_reforming_of`]), prepared once.
 #[derive(Debug, Clone)]
 pub(crate) struct HigherHydrocarbons {
     /// (species index, stoichiometry of its reforming reaction, products positive).
@@ -21,16 +24,21 @@ pub(crate) struct HigherHydrocarbons {
 impl HigherHydrocarbons {
     pub(crate) fn new(db: &SpeciesDb) -> Result<HigherHydrocarbons> {
         let mut reactions = Vec::new();
-        for (species, name) in HYDROCARBON_REFORMING {
-            if let Some(i) = db.index_of(species) {
-                let r = Reaction::named(db, name)?;
+        for i in 0..db.len() {
+            if let Some(r) = Reaction::steam_reforming_of(db, i) {
+                let r = r?;
                 let nu = r.coefficient(i);
-                // Scale to one mole of hydrocarbon consumed per unit extent.
+                // Scale to one mole of the species consumed per unit extent.
                 let st = r.stoichiometry.iter().map(|(k, v)| (*k, -v / nu)).collect();
                 reactions.push((i, st));
             }
         }
         Ok(HigherHydrocarbons { reactions })
+    }
+
+    /// True when species `i` is reformed completely by these reactions.
+    pub(crate) fn converts(&self, i: usize) -> bool {
+        self.reactions.iter().any(|(k, _)| *k == i)
     }
 
     /// Higher hydrocarbons in `flows`, mol/s (molecules).
@@ -68,6 +76,31 @@ impl HigherHydrocarbons {
             ));
         }
         Ok(reformed)
+    }
+}
+
+/// Warn for every carbon-bearing gas in `flows` other than CH4, CO and CO2 that the unit's
+/// reactions leave unconverted (`converts` says which they convert): it passes through, its
+/// carbon counted in the steam-to-carbon ratio but not reformed.
+pub(crate) fn unconverted_carbon_warnings(
+    db: &SpeciesDb,
+    unit: &str,
+    flows: &[f64],
+    converts: impl Fn(usize) -> bool,
+    warnings: &mut Vec<String>,
+) {
+    for (i, n) in flows.iter().enumerate() {
+        let s = db.by_index(i);
+        let carbon = s.phase == crate::thermo::Phase::Gas && s.atoms("C") > 0.0;
+        let passive = matches!(s.name.as_str(), "CH4" | "CO" | "CO2");
+        if *n > 0.0 && carbon && !passive && !converts(i) {
+            warnings.push(format!(
+                "unit '{unit}': {} ({:.4} mol % of the inlet) passes unconverted: none of this \
+                 unit's reactions converts it",
+                s.name,
+                100.0 * n / flows.iter().sum::<f64>()
+            ));
+        }
     }
 }
 

@@ -6,7 +6,7 @@ use super::{Figure, FigureKind, Stream, StreamPhase};
 use crate::equilibrium::{Direction, EquilibriumStage, StageReaction, StageResult};
 use crate::error::{Error, Result, ResultExt};
 use crate::quantity::{kelvin_to_degc, R_GAS};
-use crate::reaction::Reaction;
+use crate::reaction::{organic_carbon_atoms, Reaction};
 use crate::thermo::{water, Phase, SpeciesDb};
 
 /// Database indices of the species the units look at by name.
@@ -17,8 +17,9 @@ pub(crate) struct Key {
     pub co: usize,
     pub co2: usize,
     pub ch4: usize,
-    /// Hydrocarbons (gas species of carbon and hydrogen only): (index, carbon atoms).
-    pub hydrocarbons: Vec<(usize, f64)>,
+    /// Species holding organic carbon (every gas with carbon other than CO and CO2):
+    /// (index, carbon atoms).
+    pub organic: Vec<(usize, f64)>,
 }
 
 impl Key {
@@ -30,24 +31,19 @@ impl Key {
             co: db.require("CO", &ctx)?,
             co2: db.require("CO2", &ctx)?,
             ch4: db.require("CH4", &ctx)?,
-            hydrocarbons: db
+            organic: db
                 .all()
                 .iter()
                 .enumerate()
-                .filter(|(_, s)| {
-                    s.phase == Phase::Gas
-                        && s.atoms("C") > 0.0
-                        && s.atoms("H") > 0.0
-                        && s.elements.len() == 2
-                })
-                .map(|(i, s)| (i, s.atoms("C")))
+                .map(|(i, s)| (i, organic_carbon_atoms(s)))
+                .filter(|(_, c)| *c > 0.0)
                 .collect(),
         })
     }
 
-    /// Carbon in hydrocarbons (organic carbon, not CO or CO2), mol/s.
+    /// Organic carbon (carbon in every gas species but CO and CO2), mol/s.
     pub(crate) fn organic_carbon(&self, flows: &[f64]) -> f64 {
-        self.hydrocarbons.iter().map(|(i, c)| flows[*i] * c).sum()
+        self.organic.iter().map(|(i, c)| flows[*i] * c).sum()
     }
 
     /// Steam-to-carbon ratio, H2O / organic carbon (None without organic carbon).
@@ -207,7 +203,34 @@ pub(crate) fn reactor_inlet<'a>(
     check_inlets(db, unit, type_name, inlets, 1, Some(1))?;
     require_vapour(db, unit, inlets)?;
     let inlet = inlets[0];
+    refuse_oxygen(db, unit, inlet)?;
     Ok((inlet, outlet_pressure(unit, inlet.pressure_pa, drop_pa)?))
+}
+
+/// Refuse free oxygen (any gas of oxygen atoms alone, O2 above all) in the inlet of a catalytic
+/// reactor: its reactions have no oxidation, so the oxygen would pass through beside the
+/// hydrogen, a mixture that burns. An oxidising reformer is a unit of its own.
+pub(crate) fn refuse_oxygen(db: &SpeciesDb, unit: &str, inlet: &Stream) -> Result<()> {
+    let total = inlet.total();
+    for (i, n) in inlet.flows.iter().enumerate() {
+        let s = db.by_index(i);
+        let oxidant = s.phase == Phase::Gas && s.elements.iter().all(|(e, _)| e == "O");
+        if *n > 0.0 && oxidant {
+            return Err(spec_error(
+                unit,
+                "inlet",
+                format!(
+                    "carries free oxygen: {} is {:.6} mol % ({:.1} ppm) of the inlet. The \
+                     catalytic reactors model no oxidation, so it would pass through beside the \
+                     hydrogen; remove it upstream (an oxidising reformer is a separate unit)",
+                    s.name,
+                    100.0 * n / total,
+                    1e6 * n / total
+                ),
+            ));
+        }
+    }
+    Ok(())
 }
 
 /// Temperature range (K) in which every species with a non-zero flow has data.

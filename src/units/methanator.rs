@@ -13,6 +13,7 @@ use super::common::{
     build_stage, check_pressure_drop, dry_fraction, figure, frozen_warnings, reactor_inlet,
     resolve_approaches, run_stage, stage_approaches, Key,
 };
+use super::chemistry::unconverted_carbon_warnings;
 use super::{FigureKind, Stream, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::Result;
@@ -142,6 +143,7 @@ impl Methanator {
             ),
         ];
         let mut warnings = Vec::new();
+        unconverted_carbon_warnings(db, name, &inlet.flows, |_| false, &mut warnings);
         frozen_warnings(name, &self.stage, &stage, &mut warnings);
         if rise > LARGE_RISE_K {
             warnings.push(format!(

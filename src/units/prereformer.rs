@@ -8,7 +8,7 @@
 //! that H_out = H_in overall and the unit's duty is zero. The stage's own result
 //! ([`UnitResult::equilibrium`]) therefore shows that internal duty, on the converted basis.
 
-use super::chemistry::{CarbonCheck, HigherHydrocarbons};
+use super::chemistry::{unconverted_carbon_warnings, CarbonCheck, HigherHydrocarbons};
 use super::common::{
     build_stage, check_pressure_drop, dry_fraction, figure, frozen_warnings, reactor_inlet,
     resolve_approaches, run_stage, stage_approaches, Key,
@@ -133,6 +133,13 @@ impl Prereformer {
             ));
         }
         let mut warnings = Vec::new();
+        unconverted_carbon_warnings(
+            db,
+            name,
+            &inlet.flows,
+            |i| self.higher.converts(i),
+            &mut warnings,
+        );
         frozen_warnings(name, &self.stage, &stage, &mut warnings);
         let outlet = Stream::vapour(out, t_out, p);
         self.carbon

@@ -11,7 +11,7 @@
 //! thermodynamically possible at the outlet (a screening check: carbon risk is usually highest
 //! part-way down the tubes, which an outlet check does not see).
 
-use super::chemistry::{CarbonCheck, HigherHydrocarbons};
+use super::chemistry::{unconverted_carbon_warnings, CarbonCheck, HigherHydrocarbons};
 use super::common::{
     build_stage, check_pressure_drop, check_temperature, dry_fraction, figure, frozen_warnings,
     reactor_inlet, resolve_approaches, run_stage, spec_error, stage_approaches, Key,
@@ -146,6 +146,13 @@ impl Reformer {
             ));
         }
         let mut warnings = Vec::new();
+        unconverted_carbon_warnings(
+            db,
+            name,
+            &inlet.flows,
+            |i| self.higher.converts(i),
+            &mut warnings,
+        );
         frozen_warnings(name, &self.stage, &stage, &mut warnings);
         let outlet = Stream::vapour(out, t_out, p);
         self.carbon

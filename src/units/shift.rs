@@ -11,6 +11,7 @@ use super::common::{
     frozen_warnings, reactor_inlet, resolve_approaches, run_stage, spec_error, stage_approaches,
     Key,
 };
+use super::chemistry::unconverted_carbon_warnings;
 use super::{FigureKind, Stream, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::{Result, ResultExt};
@@ -172,6 +173,7 @@ impl Shift {
             ));
         }
         let mut warnings = Vec::new();
+        unconverted_carbon_warnings(db, name, &inlet.flows, |_| false, &mut warnings);
         frozen_warnings(name, &self.stage, &stage, &mut warnings);
         let catalyst = match self.spec.catalyst {
             Some(c) => c,
