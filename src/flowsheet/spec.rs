@@ -147,7 +147,10 @@ fn unit_spec(db: &SpeciesDb, common: &Common<'_>, model: &UnitModel) -> Result<U
             approaches: shift_approaches(&m.approach),
             catalyst: m.catalyst.map(|c| match c {
                 ShiftCatalystModel::IronChromium => ShiftCatalyst::IronChromium,
-                ShiftCatalystModel::Copper => ShiftCatalyst::Copper,
+                ShiftCatalystModel::MediumTemperatureCopper => {
+                    ShiftCatalyst::MediumTemperatureCopper
+                }
+                ShiftCatalystModel::LowTemperatureCopper => ShiftCatalyst::LowTemperatureCopper,
             }),
         }),
         UnitModel::Methanator(m) => UnitSpec::Methanator(MethanatorSpec {

@@ -221,8 +221,11 @@ unit_model!(
 pub enum ShiftCatalystModel {
     /// Iron-chromium (high-temperature shift).
     IronChromium,
-    /// Copper-zinc (medium- and low-temperature shift).
-    Copper,
+    /// Copper-zinc for medium-temperature shift.
+    MediumTemperatureCopper,
+    /// Copper-zinc for low-temperature shift (`copper` is read as this).
+    #[serde(alias = "copper")]
+    LowTemperatureCopper,
 }
 
 unit_model!(
@@ -234,7 +237,8 @@ unit_model!(
         pressure_drop: Option<PressureDrop>,
         /// Approach temperature.
         approach: Option<ShiftApproach>,
-        /// Catalyst (`iron-chromium` or `copper`), for the temperature-limit cautions; the unit
+        /// Catalyst (`iron-chromium`, `medium-temperature-copper`, `low-temperature-copper`;
+        /// `copper` means low-temperature copper), for the temperature-limit cautions; the unit
         /// layer infers it from the inlet temperature (and says so) when left out.
         catalyst: Option<ShiftCatalystModel>,
     }

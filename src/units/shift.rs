@@ -3,8 +3,9 @@
 //! Adiabatic unless an outlet temperature is given (a cooled or isothermal converter).
 //!
 //! Catalyst cautions are common practice (no single source): iron-chromium (HTS) is kept below
-//! about 480-500 degC; copper (LTS, MTS) below about 250-270 degC, with the inlet at least about
-//! 15-20 K above the water dew point so that no water condenses on the catalyst.
+//! about 480-500 degC; medium-temperature copper (MTS, fed at about 200-240 degC) below about
+//! 330-350 degC; low-temperature copper (LTS) below about 250-270 degC; a copper charge is fed at
+//! least about 15-20 K above the water dew point so that no water condenses on it.
 
 use super::common::{
     build_stage, check_pressure_drop, check_temperature, degc, dew_point_k, dry_fraction, figure,
@@ -24,8 +25,11 @@ pub const SHIFT_REACTIONS: [&str; 1] = ["shift"];
 /// Highest outlet for an iron-chromium catalyst before a warning, K (480 degC; common practice:
 /// kept below about 480-500 degC).
 pub const IRON_CHROMIUM_MAX_K: f64 = 480.0 + CELSIUS_OFFSET_K;
-/// Highest outlet for a copper catalyst before a warning, K (270 degC; common practice: kept
-/// below about 250-270 degC).
+/// Highest outlet for a medium-temperature copper catalyst before a warning, K (350 degC;
+/// common practice: kept below about 330-350 degC).
+pub const MEDIUM_TEMPERATURE_COPPER_MAX_K: f64 = 350.0 + CELSIUS_OFFSET_K;
+/// Highest outlet for a low-temperature copper catalyst before a warning, K (270 degC; common
+/// practice: kept below about 250-270 degC).
 pub const COPPER_MAX_K: f64 = 270.0 + CELSIUS_OFFSET_K;
 /// Smallest inlet margin above the water dew point for a copper catalyst, K (common practice:
 /// at least about 15-20 K).
@@ -38,16 +42,43 @@ pub const COPPER_INFERENCE_BELOW_K: f64 = 260.0 + CELSIUS_OFFSET_K;
 pub enum ShiftCatalyst {
     /// Iron-chromium (high-temperature shift).
     IronChromium,
-    /// Copper-zinc (low- and medium-temperature shift).
-    Copper,
+    /// Copper-zinc for medium-temperature shift (fed at about 200-240 degC).
+    MediumTemperatureCopper,
+    /// Copper-zinc for low-temperature shift.
+    LowTemperatureCopper,
 }
 
 impl ShiftCatalyst {
-    fn label(self) -> &'static str {
+    /// The name as written in flowsheets.
+    pub fn label(self) -> &'static str {
         match self {
             ShiftCatalyst::IronChromium => "iron-chromium",
-            ShiftCatalyst::Copper => "copper",
+            ShiftCatalyst::MediumTemperatureCopper => "medium-temperature-copper",
+            ShiftCatalyst::LowTemperatureCopper => "low-temperature-copper",
         }
+    }
+
+    /// Highest outlet temperature before a warning, K (common practice).
+    pub fn max_outlet_k(self) -> f64 {
+        match self {
+            ShiftCatalyst::IronChromium => IRON_CHROMIUM_MAX_K,
+            ShiftCatalyst::MediumTemperatureCopper => MEDIUM_TEMPERATURE_COPPER_MAX_K,
+            ShiftCatalyst::LowTemperatureCopper => COPPER_MAX_K,
+        }
+    }
+
+    /// The usual range of upper limits quoted for the catalyst, degC (common practice).
+    fn usual_limits_degc(self) -> (f64, f64) {
+        match self {
+            ShiftCatalyst::IronChromium => (480.0, 500.0),
+            ShiftCatalyst::MediumTemperatureCopper => (330.0, 350.0),
+            ShiftCatalyst::LowTemperatureCopper => (250.0, 270.0),
+        }
+    }
+
+    /// True for the copper catalysts, which must stay clear of the water dew point.
+    pub fn is_copper(self) -> bool {
+        !matches!(self, ShiftCatalyst::IronChromium)
     }
 }
 
@@ -178,32 +209,29 @@ impl Shift {
         let catalyst = match self.spec.catalyst {
             Some(c) => c,
             None => {
-                let c = if t_in < COPPER_INFERENCE_BELOW_K {
-                    ShiftCatalyst::Copper
-                } else {
-                    ShiftCatalyst::IronChromium
-                };
+                let c = infer_catalyst(t_in, t_out);
                 warnings.push(format!(
-                    "unit '{name}': no catalyst given; {} assumed from the inlet temperature {} \
-                     (copper below 260 degC) for the temperature cautions",
+                    "unit '{name}': no catalyst given; {} assumed from the inlet {} and outlet {} \
+                     (copper below an inlet of {}, medium-temperature copper when its outlet is \
+                     above {}) for the temperature cautions; set `catalyst` to be sure",
                     c.label(),
-                    degc(t_in)
+                    degc(t_in),
+                    degc(t_out),
+                    degc(COPPER_INFERENCE_BELOW_K),
+                    degc(COPPER_MAX_K)
                 ));
                 c
             }
         };
-        match catalyst {
-            ShiftCatalyst::IronChromium if t_out > IRON_CHROMIUM_MAX_K => warnings.push(format!(
-                "unit '{name}': outlet {} is above about 480 degC, where an iron-chromium \
-                 catalyst is usually kept below (common practice: 480-500 degC)",
-                degc(t_out)
-            )),
-            ShiftCatalyst::Copper if t_out > COPPER_MAX_K => warnings.push(format!(
-                "unit '{name}': outlet {} is above about 270 degC, where a copper catalyst is \
-                 usually kept below (common practice: 250-270 degC)",
-                degc(t_out)
-            )),
-            _ => {}
+        if t_out > catalyst.max_outlet_k() {
+            let (low, high) = catalyst.usual_limits_degc();
+            warnings.push(format!(
+                "unit '{name}': outlet {} is above {}, the usual upper limit of a {} catalyst \
+                 (common practice: about {low:.0}-{high:.0} degC)",
+                degc(t_out),
+                degc(catalyst.max_outlet_k()),
+                catalyst.label()
+            ));
         }
         if let Some(dew) = dew {
             if t_in <= dew {
@@ -213,11 +241,11 @@ impl Shift {
                     degc(t_in),
                     degc(dew)
                 ));
-            } else if catalyst == ShiftCatalyst::Copper && t_in - dew < COPPER_DEW_MARGIN_K {
+            } else if catalyst.is_copper() && t_in - dew < COPPER_DEW_MARGIN_K {
                 warnings.push(format!(
                     "unit '{name}': inlet {} is only {:.1} K above the water dew point {}; a \
-                     copper catalyst is usually fed at least about 15-20 K above it (common \
-                     practice)",
+                     copper catalyst is usually fed at least {COPPER_DEW_MARGIN_K:.0} K above it \
+                     (common practice: about 15-20 K)",
                     degc(t_in),
                     t_in - dew,
                     degc(dew)
@@ -232,6 +260,20 @@ impl Shift {
             equilibrium: Some(stage),
             warnings,
         })
+    }
+}
+
+/// The catalyst assumed when none is given: copper below an inlet of 260 degC (low-temperature
+/// copper, or medium-temperature copper when the outlet passes the low-temperature limit, so
+/// that a medium-temperature converter raises no alarm meant for a low-temperature charge),
+/// iron-chromium otherwise.
+fn infer_catalyst(t_in: f64, t_out: f64) -> ShiftCatalyst {
+    if t_in >= COPPER_INFERENCE_BELOW_K {
+        ShiftCatalyst::IronChromium
+    } else if t_out > COPPER_MAX_K {
+        ShiftCatalyst::MediumTemperatureCopper
+    } else {
+        ShiftCatalyst::LowTemperatureCopper
     }
 }
 

@@ -61,7 +61,7 @@ fn lts_from_200_degc_leaves_0_1_to_0_5_percent_co_dry() {
         .unwrap();
     let mut lts_in = hts.outlets[0].clone();
     lts_in.temperature_k = 473.15;
-    let lts = shift(&db, Some(ShiftCatalyst::Copper), 0.0);
+    let lts = shift(&db, Some(ShiftCatalyst::LowTemperatureCopper), 0.0);
     let r = lts.solve(&db, &[&lts_in], None).unwrap();
     assert_balances(&db, &[&lts_in], &r);
     let slip = fig(&r, "co-slip-dry");
@@ -71,7 +71,7 @@ fn lts_from_200_degc_leaves_0_1_to_0_5_percent_co_dry() {
     assert!(fig(&r, "inlet-dew-point-margin") > COPPER_DEW_MARGIN_K);
     assert!(r.warnings.is_empty(), "{:?}", r.warnings);
     // A positive approach leaves more CO; a warm start gives the same answer.
-    let apart = shift(&db, Some(ShiftCatalyst::Copper), 10.0);
+    let apart = shift(&db, Some(ShiftCatalyst::LowTemperatureCopper), 10.0);
     let r10 = apart.solve(&db, &[&lts_in], None).unwrap();
     assert!(fig(&r10, "co-slip-dry") > slip);
     let g = r10.equilibrium.as_ref().unwrap().extents.clone();
@@ -84,7 +84,7 @@ fn catalyst_cautions_and_fixed_outlet_temperature() {
     let db = db();
     // Copper catalyst fed a hot gas: the outlet limit warns.
     let inlet = reformed_gas(&db, 623.15);
-    let r = shift(&db, Some(ShiftCatalyst::Copper), 0.0)
+    let r = shift(&db, Some(ShiftCatalyst::LowTemperatureCopper), 0.0)
         .solve(&db, &[&inlet], None)
         .unwrap();
     assert!(
@@ -106,7 +106,7 @@ fn catalyst_cautions_and_fixed_outlet_temperature() {
         460.0,
         28e5,
     );
-    let r = shift(&db, Some(ShiftCatalyst::Copper), 0.0)
+    let r = shift(&db, Some(ShiftCatalyst::LowTemperatureCopper), 0.0)
         .solve(&db, &[&wet], None)
         .unwrap();
     let margin = fig(&r, "inlet-dew-point-margin");

@@ -48,7 +48,7 @@ fn train() -> Vec<(&'static str, UnitSpec)> {
                 outlet_temperature_k: None,
                 pressure_drop_pa: 0.3e5,
                 approaches: Vec::new(),
-                catalyst: Some(ShiftCatalyst::Copper),
+                catalyst: Some(ShiftCatalyst::LowTemperatureCopper),
             }),
         ),
         ("final-cooler", UnitSpec::Cooler(thermal(313.15))),
