@@ -200,6 +200,11 @@ fn unit_spec(db: &SpeciesDb, common: &Common<'_>, model: &UnitModel) -> Result<U
                 product,
                 pressure_drop_pa: drop_pa(&m.pressure_drop),
                 tail_gas_pressure_pa: tail.0,
+                impurity_weights: m
+                    .impurity_weights
+                    .as_ref()
+                    .map(|w| w.iter().map(|(k, v)| (k.clone(), v.0)).collect())
+                    .unwrap_or_default(),
             })
         }
     })

@@ -323,6 +323,9 @@ unit_model!(
         purity: Option<Fraction>,
         /// Fraction of each impurity that goes to the product.
         impurity_split: Option<ImpuritySplit>,
+        /// With a purity: how readily each impurity reaches the product, 0..1 per species
+        /// (defaults in the unit's documentation, common practice).
+        impurity_weights: Option<OrderedMap<Fraction>>,
         /// Tail-gas pressure (required).
         tail_gas_pressure: Option<Pressure>,
         /// Pressure drop of the product below the inlet.

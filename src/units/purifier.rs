@@ -1,8 +1,16 @@
 //! Hydrogen purifier (e.g. pressure-swing adsorption) as a split: a hydrogen recovery to the
-//! product, and either the product purity (mole fraction H2; the impurities in the product then
-//! in proportion to their feed amounts) or the fraction of each impurity that reaches the
-//! product (default zero). Outlets [product, tail gas], both at the inlet temperature; the
-//! product leaves at the inlet pressure less a pressure drop, the tail gas at its own pressure.
+//! product, and either the product purity (mole fraction H2) or the fraction of each impurity
+//! that reaches the product (default zero). Outlets [product, tail gas], both at the inlet
+//! temperature; the product leaves at the inlet pressure less a pressure drop, the tail gas at
+//! its own pressure.
+//!
+//! With a purity, the impurities allowed into the product are shared out in the order of how
+//! weakly an adsorbent holds them (common practice, no single source: helium, argon and
+//! nitrogen break through first, then CO, then methane; CO2, water, ammonia and the C2+
+//! hydrocarbons are held essentially completely). Each impurity i reaches the product as
+//! min(1, w_i s) of its feed amount, one factor s for all chosen so that the product has the
+//! purity asked; the weights w_i are [`DEFAULT_IMPURITY_WEIGHTS`] (species not listed: zero),
+//! each overridable per flowsheet unit (`impurity-weights`).
 //! Isothermal, with no duty: ideal-gas enthalpy does not depend on pressure, so the energy
 //! balance closes exactly.
 
@@ -13,10 +21,25 @@ use super::{FigureKind, Stream, UnitResult};
 use crate::error::Result;
 use crate::thermo::SpeciesDb;
 
+/// Default weights (0..1) of how readily each impurity reaches the product when a purity is
+/// given (common practice: the order of adsorption strength He < Ar ~ N2 < CO < CH4 < CO2 <
+/// H2O; the values are screening figures, override them with plant data).
+pub const DEFAULT_IMPURITY_WEIGHTS: &[(&str, f64)] = &[
+    ("He", 1.0),
+    ("Ar", 1.0),
+    ("N2", 1.0),
+    ("O2", 1.0),
+    ("CO", 0.1),
+    ("CH4", 0.02),
+    ("CO2", 0.0),
+    ("H2O", 0.0),
+    ("NH3", 0.0),
+];
+
 /// What sets the product's impurities.
 #[derive(Debug, Clone, PartialEq)]
 pub enum PurifierProduct {
-    /// Mole fraction of H2 in the product (0 < x <= 1).
+    /// Mole fraction of H2 in the product (0 < x <= 1); the impurities shared by their weights.
     Purity(f64),
     /// Fraction (0..1) of each named impurity that reaches the product; unlisted ones: zero.
     ImpuritySplit(Vec<(String, f64)>),
@@ -33,6 +56,8 @@ pub struct PurifierSpec {
     pub pressure_drop_pa: f64,
     /// Tail-gas pressure, Pa (absolute; not above the feed pressure).
     pub tail_gas_pressure_pa: f64,
+    /// Weights (0..1) overriding [`DEFAULT_IMPURITY_WEIGHTS`] by species name (with a purity).
+    pub impurity_weights: Vec<(String, f64)>,
 }
 
 /// A purifier ready to solve.
@@ -47,8 +72,8 @@ pub struct Purifier {
 /// The product rule, resolved against the database.
 #[derive(Debug, Clone)]
 enum Mode {
-    /// Mole fraction H2 in the product.
-    Purity(f64),
+    /// Mole fraction H2 in the product, and the weight of every database species (H2: zero).
+    Purity(f64, Vec<f64>),
     /// Fraction of each database species to the product (H2 excluded).
     Split(Vec<f64>),
 }
@@ -83,9 +108,17 @@ impl Purifier {
                         format!("{x} must be a mole fraction above 0 and at most 1"),
                     ));
                 }
-                Mode::Purity(*x)
+                Mode::Purity(*x, weights(db, name, key.h2, &spec.impurity_weights)?)
             }
             PurifierProduct::ImpuritySplit(pairs) => {
+                if !spec.impurity_weights.is_empty() {
+                    return Err(spec_error(
+                        name,
+                        "impurity-weights",
+                        "go with a product `purity`; with an `impurity-split` each fraction is \
+                         given already",
+                    ));
+                }
                 let mut f = vec![0.0; db.len()];
                 for (species, v) in pairs {
                     let i =
@@ -151,7 +184,7 @@ impl Purifier {
         let mut product = vec![0.0; db.len()];
         product[h2] = h2_product;
         match &self.mode {
-            Mode::Purity(x) => {
+            Mode::Purity(x, w) => {
                 let impurities: f64 = inlet.total() - h2_feed;
                 let wanted = h2_product * (1.0 - x) / x;
                 if wanted > impurities * (1.0 + 1e-12) {
@@ -167,10 +200,28 @@ impl Purifier {
                     ));
                 }
                 if wanted > 0.0 {
-                    let share = (wanted / impurities).min(1.0);
-                    for (i, n) in inlet.flows.iter().enumerate() {
+                    let shares = weighted_shares(&inlet.flows, w, wanted).ok_or_else(|| {
+                        let reachable: f64 = inlet
+                            .flows
+                            .iter()
+                            .zip(w)
+                            .filter(|(_, w)| **w > 0.0)
+                            .map(|(n, _)| n)
+                            .sum();
+                        spec_error(
+                            name,
+                            "purity",
+                            format!(
+                                "{x} cannot be met: the product would need {wanted:.6} mol/s of \
+                                 impurities, but those that reach it (a weight above zero) \
+                                 amount to {reachable:.6} mol/s in the feed; raise the purity or \
+                                 give `impurity-weights` for the others"
+                            ),
+                        )
+                    })?;
+                    for (i, f) in shares.iter().enumerate() {
                         if i != h2 {
-                            product[i] = n * share;
+                            product[i] = inlet.flows[i] * f;
                         }
                     }
                 }
@@ -234,6 +285,86 @@ impl Purifier {
     }
 }
 
+/// The weight of every database species: the defaults, then the overrides (checked), H2 zero.
+fn weights(
+    db: &SpeciesDb,
+    unit: &str,
+    h2: usize,
+    overrides: &[(String, f64)],
+) -> Result<Vec<f64>> {
+    let mut w = vec![0.0; db.len()];
+    for (species, v) in DEFAULT_IMPURITY_WEIGHTS {
+        if let Some(i) = db.index_of(species) {
+            w[i] = *v;
+        }
+    }
+    for (species, v) in overrides {
+        let i = db.require(species, &format!(" in the impurity weights of unit '{unit}'"))?;
+        if i == h2 {
+            return Err(spec_error(
+                unit,
+                "impurity-weights",
+                "H2 is not an impurity; set its recovery with hydrogen-recovery",
+            ));
+        }
+        if !(*v >= 0.0 && *v <= 1.0) {
+            return Err(spec_error(
+                unit,
+                "impurity-weights",
+                format!("{species}: {v} must be a weight 0..1"),
+            ));
+        }
+        w[i] = *v;
+    }
+    w[h2] = 0.0;
+    Ok(w)
+}
+
+/// The fraction of each species' feed that reaches the product, min(1, w_i s), with s such that
+/// the product takes `wanted` mol/s of impurities in all; `None` when even every weighted
+/// impurity in full falls short. The species that reach their whole feed amount are fixed one
+/// round at a time, so at most one round per species.
+fn weighted_shares(flows: &[f64], weights: &[f64], wanted: f64) -> Option<Vec<f64>> {
+    let reachable: f64 = flows
+        .iter()
+        .zip(weights)
+        .filter(|(_, w)| **w > 0.0)
+        .map(|(n, _)| n)
+        .sum();
+    if wanted > reachable * (1.0 + 1e-12) {
+        return None;
+    }
+    let mut full = vec![false; flows.len()];
+    loop {
+        let taken: f64 = flows.iter().zip(&full).filter(|(_, f)| **f).map(|(n, _)| n).sum();
+        let weighted: f64 = flows
+            .iter()
+            .zip(weights)
+            .zip(&full)
+            .filter(|(_, f)| !**f)
+            .map(|((n, w), _)| n * w)
+            .sum();
+        let s = if weighted > 0.0 {
+            (wanted - taken) / weighted
+        } else {
+            0.0
+        };
+        let mut changed = false;
+        for i in 0..flows.len() {
+            if !full[i] && weights[i] > 0.0 && weights[i] * s >= 1.0 {
+                full[i] = true;
+                changed = true;
+            }
+        }
+        if !changed {
+            let shares = (0..flows.len())
+                .map(|i| if full[i] { 1.0 } else { (weights[i] * s).min(1.0) })
+                .collect();
+            return Some(shares);
+        }
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -261,6 +392,7 @@ mod tests {
             product,
             pressure_drop_pa: 0.5e5,
             tail_gas_pressure_pa: 1.3e5,
+            impurity_weights: Vec::new(),
         }
     }
 
@@ -275,10 +407,17 @@ mod tests {
         assert_balances(&db, &[&f], &r);
         assert!((fig(&r, "hydrogen-recovery") - 0.88).abs() < 1e-15);
         assert!((fig(&r, "product-purity") - 0.9999).abs() < 1e-14);
-        // Impurities in proportion to the feed: CO2/CH4 in the product as in the feed.
-        let (co2, ch4) = (db.index_of("CO2").unwrap(), db.index_of("CH4").unwrap());
+        // Impurities by their default weights (common practice): N2 1, CO 0.1, CH4 0.02, CO2
+        // none. The product's 0.88 * 0.75 * 1e-4 / 0.9999 mol/s of impurities is shared as
+        // s (0.01 + 0.1 * 0.02 + 0.02 * 0.05) = wanted.
+        let by = |n: &str| db.index_of(n).unwrap();
         let p = &r.outlets[0];
-        assert!((p.flows[co2] / p.flows[ch4] - 0.17 / 0.05).abs() < 1e-12);
+        let wanted = 0.88 * 0.75 * 1e-4 / 0.9999;
+        let s = wanted / (0.01 + 0.1 * 0.02 + 0.02 * 0.05);
+        assert!((p.flows[by("N2")] - 0.01 * s).abs() < 1e-15);
+        assert!((p.flows[by("CO")] - 0.02 * 0.1 * s).abs() < 1e-15);
+        assert!((p.flows[by("CH4")] - 0.05 * 0.02 * s).abs() < 1e-15);
+        assert_eq!(p.flows[by("CO2")], 0.0);
         assert_eq!(p.pressure_pa, 24.5e5);
         assert_eq!(r.outlets[1].pressure_pa, 1.3e5);
         assert_eq!(r.outlets[1].temperature_k, 313.15);
@@ -289,6 +428,50 @@ mod tests {
             .unwrap();
         assert_balances(&db, &[&f], &r);
         assert_eq!(fig(&r, "product-purity"), 1.0);
+    }
+
+    #[test]
+    fn weights_cap_at_the_whole_feed_amount_and_can_be_overridden() {
+        let db = db();
+        let f = feed(&db);
+        let by = |n: &str| db.index_of(n).unwrap();
+        // Purity 0.95 at 88 % recovery: 0.66 * 0.05 / 0.95 = 0.03474 mol/s of impurities; the
+        // 0.01 of N2 all goes (its share would exceed one), CO and CH4 share the rest 0.1 : 0.02.
+        let r = Purifier::new(&db, "psa", &spec(PurifierProduct::Purity(0.95)))
+            .unwrap()
+            .solve(&db, &[&f])
+            .unwrap();
+        assert_balances(&db, &[&f], &r);
+        let p = &r.outlets[0];
+        assert!((fig(&r, "product-purity") - 0.95).abs() < 1e-14);
+        assert!((p.flows[by("N2")] - 0.01).abs() < 1e-15);
+        let rest = 0.66 * 0.05 / 0.95 - 0.01;
+        let s = rest / (0.1 * 0.02 + 0.02 * 0.05);
+        assert!(0.1 * s < 1.0);
+        assert!((p.flows[by("CO")] - 0.1 * s * 0.02).abs() < 1e-14);
+        // An override lets CO2 through as readily as N2.
+        let mut with_co2 = spec(PurifierProduct::Purity(0.999));
+        with_co2.impurity_weights = vec![("CO2".into(), 1.0)];
+        let r = Purifier::new(&db, "psa", &with_co2)
+            .unwrap()
+            .solve(&db, &[&f])
+            .unwrap();
+        let p = &r.outlets[0];
+        assert!((p.flows[by("CO2")] / p.flows[by("N2")] - 17.0).abs() < 1e-9);
+        // Only held impurities in the feed: the purity cannot be met, and the error says why.
+        let held = gas(&db, &[("H2", 0.75), ("CO2", 0.25)], 313.15, 25e5);
+        let e = Purifier::new(&db, "psa", &spec(PurifierProduct::Purity(0.999)))
+            .unwrap()
+            .solve(&db, &[&held])
+            .unwrap_err()
+            .to_string();
+        assert!(e.contains("impurity-weights"), "{e}");
+        // Weights are checked.
+        let mut bad = spec(PurifierProduct::Purity(0.999));
+        bad.impurity_weights = vec![("CO".into(), 1.5)];
+        assert!(Purifier::new(&db, "psa", &bad).is_err());
+        bad.impurity_weights = vec![("H2".into(), 0.5)];
+        assert!(Purifier::new(&db, "psa", &bad).is_err());
     }
 
     #[test]

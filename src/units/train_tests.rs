@@ -72,6 +72,7 @@ fn train() -> Vec<(&'static str, UnitSpec)> {
                 ]),
                 pressure_drop_pa: 0.3e5,
                 tail_gas_pressure_pa: 1.5e5,
+                impurity_weights: Vec::new(),
             }),
         ),
         ("methanator-preheat", UnitSpec::Heater(thermal(573.15))),
