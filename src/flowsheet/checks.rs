@@ -113,14 +113,12 @@ fn flow_si(flow: crate::quantity::Flow) -> f64 {
 /// The number of inlets and outlets each type takes.
 pub fn check_ports(t: UnitType, from: &[String], to: &[String]) -> Result<(), String> {
     let n_in = from.len();
-    let inlets_ok = match t {
-        UnitType::Mixer => n_in >= 1,
-        _ => n_in == 1,
+    let (inlets_ok, wanted) = match t {
+        UnitType::Mixer => (n_in >= 1, "at least 1 inlet"),
+        _ => (n_in == 1, "exactly 1 inlet"),
     };
     if !inlets_ok {
-        return Err(format!(
-            "a {t} takes exactly 1 inlet in `from`; {n_in} given"
-        ));
+        return Err(format!("a {t} takes {wanted} in `from`; {n_in} given"));
     }
     let n_out = to.len();
     let outlets = match t {
@@ -286,6 +284,11 @@ mod tests {
         let one = names(&["a"]);
         let two = names(&["a", "b"]);
         assert!(check_ports(UnitType::Mixer, &two, &one).is_ok());
+        // A mixer with no inlet is told what a mixer takes, not what a cooler takes.
+        let none = check_ports(UnitType::Mixer, &[], &one).unwrap_err();
+        assert_eq!(none, "a mixer takes at least 1 inlet in `from`; 0 given");
+        let many = check_ports(UnitType::Cooler, &two, &one).unwrap_err();
+        assert_eq!(many, "a cooler takes exactly 1 inlet in `from`; 2 given");
         assert!(check_ports(UnitType::Cooler, &two, &one).is_err());
         assert!(check_ports(UnitType::Knockout, &one, &two).is_ok());
         assert!(check_ports(UnitType::Purifier, &one, &one).is_err());

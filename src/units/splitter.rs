@@ -117,10 +117,11 @@ impl Splitter {
     /// Fractions to each outlet for an inlet of `total` mol/s (they sum to one to rounding).
     fn fractions(&self, total: f64) -> Result<Vec<f64>> {
         let name = &self.name;
-        let (mut f, given_sum): (Vec<f64>, f64) = match &self.spec.split {
+        // `None`: the one outlet that takes the rest.
+        let (given, given_sum): (Vec<Option<f64>>, f64) = match &self.spec.split {
             Split::Fractions(v) => {
                 let sum: f64 = v.iter().flatten().sum();
-                (v.iter().map(|e| e.unwrap_or(f64::NAN)).collect(), sum)
+                (v.clone(), sum)
             }
             Split::Flows(v) => {
                 let sum: f64 = v.iter().flatten().sum();
@@ -141,19 +142,13 @@ impl Splitter {
                     return Ok(vec![1.0 / n; v.len()]);
                 }
                 (
-                    v.iter()
-                        .map(|e| e.map_or(f64::NAN, |x| x / total))
-                        .collect(),
+                    v.iter().map(|e| e.map(|x| x / total)).collect(),
                     sum / total,
                 )
             }
         };
         let rest = (1.0 - given_sum).max(0.0);
-        for x in f.iter_mut() {
-            if x.is_nan() {
-                *x = rest;
-            }
-        }
+        let mut f: Vec<f64> = given.iter().map(|x| x.unwrap_or(rest)).collect();
         let sum: f64 = f.iter().sum();
         if sum > 0.0 {
             for x in f.iter_mut() {
