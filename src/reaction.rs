@@ -302,15 +302,22 @@ mod tests {
         let by = |name: &str| db.index_of(name).unwrap();
         // C2H6 + 2 H2O = 2 CO + 5 H2; C3H8 + 3 H2O = 3 CO + 7 H2 (stoichiometry of
         // C_n H_m + n H2O = n CO + (n + m/2) H2, common practice).
-        let r = Reaction::steam_reforming_of(&db, by("C2H6")).unwrap().unwrap();
+        let r = Reaction::steam_reforming_of(&db, by("C2H6"))
+            .unwrap()
+            .unwrap();
         assert_eq!(r.equation(&db), "C2H6 + 2 H2O = 2 CO + 5 H2");
         assert_eq!(r.name, "C2H6-reforming");
-        let r = Reaction::steam_reforming_of(&db, by("C3H8")).unwrap().unwrap();
+        let r = Reaction::steam_reforming_of(&db, by("C3H8"))
+            .unwrap()
+            .unwrap();
         assert_eq!(r.equation(&db), "C3H8 + 3 H2O = 3 CO + 7 H2");
         // Methane comes to equilibrium instead; CO and CO2 are the products; N2, H2O and
         // graphite are no fuel for it.
         for name in ["CH4", "CO", "CO2", "N2", "H2O", "H2", "C(gr)", "NH3"] {
-            assert!(Reaction::steam_reforming_of(&db, by(name)).is_none(), "{name}");
+            assert!(
+                Reaction::steam_reforming_of(&db, by(name)).is_none(),
+                "{name}"
+            );
         }
         // Organic carbon counts every gas carbon atom but those of CO and CO2.
         assert_eq!(organic_carbon_atoms(db.by_index(by("C3H8"))), 3.0);

@@ -99,18 +99,16 @@ impl Flowsheet {
                             let key = field.split(", ").next().unwrap_or_default();
                             locate::locate(text, &[entry[0], entry[1], Key(key)])
                         }
-                        Error::UnknownSpecies { name, .. } => {
+                        Error::UnknownSpecies { name, .. } => locate::locate(
+                            text,
+                            &[entry[0], entry[1], Key("impurity-split"), Key(name)],
+                        )
+                        .or_else(|| {
                             locate::locate(
                                 text,
-                                &[entry[0], entry[1], Key("impurity-split"), Key(name)],
+                                &[entry[0], entry[1], Key("impurity-weights"), Key(name)],
                             )
-                            .or_else(|| {
-                                locate::locate(
-                                    text,
-                                    &[entry[0], entry[1], Key("impurity-weights"), Key(name)],
-                                )
-                            })
-                        }
+                        }),
                         _ => None,
                     }
                     .or_else(|| locate::locate(text, &entry));

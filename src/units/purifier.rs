@@ -286,12 +286,7 @@ impl Purifier {
 }
 
 /// The weight of every database species: the defaults, then the overrides (checked), H2 zero.
-fn weights(
-    db: &SpeciesDb,
-    unit: &str,
-    h2: usize,
-    overrides: &[(String, f64)],
-) -> Result<Vec<f64>> {
+fn weights(db: &SpeciesDb, unit: &str, h2: usize, overrides: &[(String, f64)]) -> Result<Vec<f64>> {
     let mut w = vec![0.0; db.len()];
     for (species, v) in DEFAULT_IMPURITY_WEIGHTS {
         if let Some(i) = db.index_of(species) {
@@ -299,7 +294,10 @@ fn weights(
         }
     }
     for (species, v) in overrides {
-        let i = db.require(species, &format!(" in the impurity weights of unit '{unit}'"))?;
+        let i = db.require(
+            species,
+            &format!(" in the impurity weights of unit '{unit}'"),
+        )?;
         if i == h2 {
             return Err(spec_error(
                 unit,
@@ -336,7 +334,12 @@ fn weighted_shares(flows: &[f64], weights: &[f64], wanted: f64) -> Option<Vec<f6
     }
     let mut full = vec![false; flows.len()];
     loop {
-        let taken: f64 = flows.iter().zip(&full).filter(|(_, f)| **f).map(|(n, _)| n).sum();
+        let taken: f64 = flows
+            .iter()
+            .zip(&full)
+            .filter(|(_, f)| **f)
+            .map(|(n, _)| n)
+            .sum();
         let weighted: f64 = flows
             .iter()
             .zip(weights)
@@ -358,7 +361,13 @@ fn weighted_shares(flows: &[f64], weights: &[f64], wanted: f64) -> Option<Vec<f6
         }
         if !changed {
             let shares = (0..flows.len())
-                .map(|i| if full[i] { 1.0 } else { (weights[i] * s).min(1.0) })
+                .map(|i| {
+                    if full[i] {
+                        1.0
+                    } else {
+                        (weights[i] * s).min(1.0)
+                    }
+                })
                 .collect();
             return Some(shares);
         }

@@ -7,12 +7,12 @@
 //! 330-350 degC; low-temperature copper (LTS) below about 250-270 degC; a copper charge is fed at
 //! least about 15-20 K above the water dew point so that no water condenses on it.
 
+use super::chemistry::unconverted_carbon_warnings;
 use super::common::{
     build_stage, check_pressure_drop, check_temperature, degc, dew_point_k, dry_fraction, figure,
     frozen_warnings, reactor_inlet, resolve_approaches, run_stage, spec_error, stage_approaches,
     Key,
 };
-use super::chemistry::unconverted_carbon_warnings;
 use super::{FigureKind, Stream, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::{Result, ResultExt};

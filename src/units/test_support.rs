@@ -52,6 +52,22 @@ pub(crate) fn assert_balances(db: &SpeciesDb, inlets: &[&Stream], r: &UnitResult
     );
 }
 
+/// The equilibrium gap of a named reaction in a vapour stream, recomputed from the stream alone:
+/// sum nu_i ln(y_i P / P0) - ln K(t_eq), with K from the species data (zero at equilibrium).
+/// Independent of the solver's own residual, so a test of it can fail.
+pub(crate) fn equilibrium_gap(db: &SpeciesDb, reaction: &str, s: &Stream, t_eq: f64) -> f64 {
+    let r = crate::reaction::Reaction::named(db, reaction).unwrap();
+    let total = s.total();
+    let ln_q: f64 = r
+        .stoichiometry
+        .iter()
+        .map(|(i, nu)| {
+            nu * (s.flows[*i] / total * s.pressure_pa / crate::quantity::STANDARD_PRESSURE_PA).ln()
+        })
+        .sum();
+    ln_q - r.ln_k(db, t_eq).unwrap()
+}
+
 /// The value of a figure by key (panics when it is missing).
 pub(crate) fn fig(r: &UnitResult, key: &str) -> f64 {
     r.figures

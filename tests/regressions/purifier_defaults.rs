@@ -30,8 +30,16 @@ fn demo_product_holds_no_co2_or_water_and_shares_the_rest_by_weight() {
     let share = |s: &str| flow(&v, product, s) / flow(&v, feed, s);
     let s = share("N2");
     assert!(s > 0.0 && s < 1.0, "N2 share {s}");
-    assert!((share("CO") / s - 0.1).abs() < 1e-9, "CO {}", share("CO") / s);
-    assert!((share("CH4") / s - 0.02).abs() < 1e-9, "CH4 {}", share("CH4") / s);
+    assert!(
+        (share("CO") / s - 0.1).abs() < 1e-9,
+        "CO {}",
+        share("CO") / s
+    );
+    assert!(
+        (share("CH4") / s - 0.02).abs() < 1e-9,
+        "CH4 {}",
+        share("CH4") / s
+    );
     // The purity asked (0.999) is met exactly.
     let total: f64 = v["streams"][product]["flow_kmol_h"]
         .as_object()
@@ -61,5 +69,9 @@ fn impurity_weights_override_the_defaults() {
     let file = write(dir.path(), "bad.yaml", &bad);
     let out = syntrain(&["solve", &arg(&file)]);
     assert_eq!(out.status.code(), Some(1));
-    assert!(stderr(&out).contains("impurity-weights"), "{}", stderr(&out));
+    assert!(
+        stderr(&out).contains("impurity-weights"),
+        "{}",
+        stderr(&out)
+    );
 }

@@ -8,10 +8,7 @@ use serde_json::Value;
 use super::support::{arg, stderr, stdout, syntrain, write};
 
 fn species_file(name: &str) -> String {
-    format!(
-        "{}/tests/data/species/{name}",
-        env!("CARGO_MANIFEST_DIR")
-    )
+    format!("{}/tests/data/species/{name}", env!("CARGO_MANIFEST_DIR"))
 }
 
 /// Cantera's reference for the heptane pre-reformer (tools/cantera_user_hydrocarbon.py).
@@ -88,8 +85,10 @@ fn user_added_heptane_is_reformed_in_a_prereformer_as_a_gibbs_minimiser_finds() 
 #[test]
 fn user_added_heptane_is_reformed_in_a_reformer() {
     let dir = tempfile::tempdir().unwrap();
-    let sheet = HEPTANE_PREREFORMER
-        .replace("type: prereformer", "type: reformer\n    outlet-temperature: 850 degC");
+    let sheet = HEPTANE_PREREFORMER.replace(
+        "type: prereformer",
+        "type: reformer\n    outlet-temperature: 850 degC",
+    );
     let v = solve_json(dir.path(), "n-heptane.yaml", &sheet);
     let out = &v["streams"]["out"]["flow_kmol_h"];
     assert!(
