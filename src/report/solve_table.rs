@@ -175,7 +175,7 @@ mod tests {
                     .to_string()
             };
             assert!(row("temperature, degC").contains("870.0"));
-            assert!(row("pressure, bar").contains("28.00"));
+            assert!(row("pressure, bar abs").contains("28.00"));
             assert!(row("total, kmol/h").contains("1980.00"));
             assert!(row("total, Nm3/h").contains("44380"));
             // Steam feed: 100 mol % water wet; no dry gas at all.

@@ -91,7 +91,11 @@ fn the_flowsheet_itself_is_refused_and_left_unchanged() {
     let case = write(dir.path(), "case.yaml", &original);
     let out = syntrain(&["solve", &arg(&case), "--output", &arg(&case)]);
     assert_eq!(out.status.code(), Some(1), "{}", stderr(&out));
-    assert!(stderr(&out).contains("input of this run"), "{}", stderr(&out));
+    assert!(
+        stderr(&out).contains("input of this run"),
+        "{}",
+        stderr(&out)
+    );
     assert_eq!(std::fs::read_to_string(&case).unwrap(), original);
     // The same through a symbolic link.
     #[cfg(unix)]
@@ -118,8 +122,5 @@ fn the_species_file_is_refused_too() {
         &arg(&species),
     ]);
     assert_eq!(out.status.code(), Some(1), "{}", stderr(&out));
-    assert_eq!(
-        std::fs::read_to_string(&species).unwrap(),
-        "species: []\n"
-    );
+    assert_eq!(std::fs::read_to_string(&species).unwrap(), "species: []\n");
 }

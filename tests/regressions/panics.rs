@@ -28,12 +28,7 @@ fn a_reader_that_closes_the_pipe_ends_the_run_quietly() {
         .unwrap();
     // Like `| head -c 100`: read a little, then close the pipe.
     let mut first = [0u8; 100];
-    child
-        .stdout
-        .take()
-        .unwrap()
-        .read_exact(&mut first)
-        .unwrap();
+    child.stdout.take().unwrap().read_exact(&mut first).unwrap();
     let out = child.wait_with_output().unwrap();
     assert_no_panic(&out);
     assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));

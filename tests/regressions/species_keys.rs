@@ -34,7 +34,14 @@ fn the_new_keys_are_read() {
         "x.yaml",
         &format!("species:\n{}", record("Xk", "4.002602")),
     );
-    let out = syntrain(&["--species-file", &arg(&file), "species", "Xk", "-t", "500 K"]);
+    let out = syntrain(&[
+        "--species-file",
+        &arg(&file),
+        "species",
+        "Xk",
+        "-t",
+        "500 K",
+    ]);
     assert!(out.status.success(), "{}", stderr(&out));
     // Cp = 2.5 R = 20.786 J/(mol K).
     assert!(stdout(&out).contains("20.7862"), "{}", stdout(&out));
@@ -54,7 +61,10 @@ fn an_earlier_key_is_refused_naming_the_new_one() {
     let out = syntrain(&["--species-file", &arg(&file), "species"]);
     assert_eq!(out.status.code(), Some(1));
     let err = stderr(&out);
-    assert!(err.contains("'Xo'") && err.contains("'temperature-ranges'"), "{err}");
+    assert!(
+        err.contains("'Xo'") && err.contains("'temperature-ranges'"),
+        "{err}"
+    );
     assert!(err.contains("from-k, break-k and to-k"), "{err}");
 }
 
@@ -64,7 +74,12 @@ fn the_shipped_file_speaks_only_the_new_keys() {
         std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("data/species.yaml"),
     )
     .unwrap();
-    for old in ["temperature-ranges:", "elements:", "      low:", "      high:"] {
+    for old in [
+        "temperature-ranges:",
+        "elements:",
+        "      low:",
+        "      high:",
+    ] {
         assert!(!text.contains(old), "data/species.yaml still has '{old}'");
     }
     assert_eq!(text.matches("    atoms: {").count(), 16);
