@@ -193,15 +193,6 @@ pub fn figure_number(figure: &Figure) -> String {
     }
 }
 
-/// A figure as text with its unit ("3.214 %", "870.0 degC").
-pub fn figure_text(figure: &Figure) -> String {
-    let number = figure_number(figure);
-    match figure_value(figure).1 {
-        "" => number,
-        unit => format!("{number} {unit}"),
-    }
-}
-
 /// A number with `decimals` decimals; "n/a" when not finite.
 pub fn fixed(value: f64, decimals: usize) -> String {
     if value.is_finite() {
@@ -659,6 +650,14 @@ mod tests {
         assert_eq!(mole_percent_cell(0.0125), "125 ppm");
         assert_eq!(mole_percent_cell(0.000_34), "3.40 ppm");
         assert_eq!(mole_percent_cell(99.9), "99.900");
+    }
+
+    /// A figure as the reports show it: number and unit.
+    fn figure_text(figure: &Figure) -> String {
+        match figure_value(figure).1 {
+            "" => figure_number(figure),
+            unit => format!("{} {unit}", figure_number(figure)),
+        }
     }
 
     #[test]

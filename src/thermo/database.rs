@@ -128,9 +128,8 @@ impl SpeciesDb {
     /// Add the records of YAML text; `origin` names it in error messages. All or nothing: every
     /// record is read and checked first, and the database changes only when all of them pass.
     pub fn add_yaml(&mut self, origin: &str, text: &str) -> Result<()> {
-        let model: FileModel = serde_norway::from_str(text).map_err(|e| {
-            old_key_error(origin, text).unwrap_or_else(|| Error::yaml(origin, &e))
-        })?;
+        let model: FileModel = serde_norway::from_str(text)
+            .map_err(|e| old_key_error(origin, text).unwrap_or_else(|| Error::yaml(origin, &e)))?;
         let mut added: Vec<Species> = Vec::with_capacity(model.species.len());
         for record in model.species {
             let species = convert(record)?;
@@ -485,7 +484,10 @@ species:
         assert!(err.contains("'atoms'"), "{err}");
         let nasa_only = old.replace("elements:", "atoms:");
         let err = db.add_yaml("old.yaml", &nasa_only).unwrap_err().to_string();
-        assert!(err.contains("'temperature-ranges'") && err.contains("break-k"), "{err}");
+        assert!(
+            err.contains("'temperature-ranges'") && err.contains("break-k"),
+            "{err}"
+        );
         let foreign = ONE.replace("    formula: H2\n", "    formula: H2\n    note: x\n");
         let err = db.add_yaml("f.yaml", &foreign).unwrap_err().to_string();
         assert!(err.contains("'note'") && err.contains("'source'"), "{err}");
