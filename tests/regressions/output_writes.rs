@@ -60,14 +60,18 @@ fn a_fifo_receives_the_report() {
     let reader = std::thread::spawn(move || std::fs::read_to_string(reader_path).unwrap());
     let out = solve_to(&fifo);
     assert!(out.status.success(), "{}", stderr(&out));
+    // Checked before joining: a FIFO replaced by a file would leave the reader waiting forever.
+    use std::os::unix::fs::FileTypeExt;
+    assert!(
+        std::fs::symlink_metadata(&fifo)
+            .unwrap()
+            .file_type()
+            .is_fifo(),
+        "the FIFO was replaced"
+    );
     let text = reader.join().unwrap();
     let v: serde_json::Value = serde_json::from_str(&text).expect("the FIFO got the JSON report");
     assert!(v["units"]["lts"].is_object());
-    use std::os::unix::fs::FileTypeExt;
-    assert!(std::fs::symlink_metadata(&fifo)
-        .unwrap()
-        .file_type()
-        .is_fifo());
 }
 
 #[cfg(unix)]
