@@ -1,7 +1,11 @@
-//! The `syntrain` command line: parse, call the library, print. Exit code 0 on success, 1 on
-//! any error (the whole error chain is printed once to stderr), 2 for a usage error (clap).
+//! The `syntrain` command line: parse, call the library, print. Exit code 0 on success (also
+//! when the reader of standard output closes the pipe early, as in `syntrain species | head`:
+//! the run ends quietly, like other Unix tools), 1 on any error (the whole error chain is printed
+//! once to stderr; a failed write to standard output is such an error), 2 for a usage error
+//! (clap).
 
-use std::path::PathBuf;
+use std::io::Write;
+use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
 use clap::{Parser, Subcommand, ValueEnum};
@@ -17,7 +21,14 @@ flammable and toxic. Follow local codes and licensed engineering practice.";
 
 /// Equilibrium and energy balances of steam-reforming hydrogen and syngas trains.
 #[derive(Parser)]
-#[command(name = "syntrain", version, about, long_about = None, after_help = CAUTION)]
+#[command(
+    name = "syntrain",
+    version,
+    about,
+    long_about = None,
+    after_help = CAUTION,
+    after_long_help = CAUTION
+)]
 struct Cli {
     /// Extra species records to add to the shipped database (same format as data/species.yaml).
     #[arg(long, global = true, value_name = "FILE")]
@@ -59,22 +70,26 @@ impl From<SolveFormat> for report::Format {
 #[derive(Subcommand)]
 enum Command {
     /// Solve a flowsheet file: stream table, units, summary, warnings and cautions.
+    #[command(after_help = CAUTION, after_long_help = CAUTION)]
     Solve {
         /// The flowsheet file (YAML), e.g. flowsheets/demo-train.yaml.
         file: PathBuf,
         /// Output format.
         #[arg(long, value_enum, default_value = "table")]
         format: SolveFormat,
-        /// Write the report to this file instead of standard output (nothing is written on an
-        /// error).
+        /// Write the report to this file instead of standard output. Nothing is written on an
+        /// error; a regular file is replaced atomically (keeping its permissions), a symbolic
+        /// link is followed, a FIFO or device is written into, an input file is refused.
         #[arg(long, short = 'o', value_name = "PATH")]
         output: Option<PathBuf>,
     },
     /// List the species database, or show one record with its properties.
+    #[command(after_help = CAUTION, after_long_help = CAUTION)]
     Species {
         /// A species name (e.g. CH4, n-C4H10, "C(gr)"); omit to list all.
         name: Option<String>,
         /// Temperatures at which to show Cp, H, S, G (e.g. "850 degC", "1100 K"); repeatable.
+        /// Without a species name, one table of every species at these temperatures.
         #[arg(long = "temperature", short = 't', value_name = "T")]
         temperatures: Vec<String>,
         /// Output format.
@@ -86,15 +101,34 @@ enum Command {
 fn main() -> ExitCode {
     let cli = Cli::parse();
     match run(cli) {
-        Ok(text) => {
-            print!("{text}");
-            ExitCode::SUCCESS
-        }
+        Ok(text) => print_stdout(&text),
         Err(err) => {
-            eprintln!("{}", syntrain::report::error_chain(&err));
+            report_error(&syntrain::report::error_chain(&err));
             ExitCode::FAILURE
         }
     }
+}
+
+/// Write the report to standard output through a buffer. A reader that went away (closed pipe)
+/// ends the run quietly with success; any other failure (a full disk, say) is an error.
+fn print_stdout(text: &str) -> ExitCode {
+    let stdout = std::io::stdout();
+    let mut out = std::io::BufWriter::new(stdout.lock());
+    match out.write_all(text.as_bytes()).and_then(|()| out.flush()) {
+        Ok(()) => ExitCode::SUCCESS,
+        Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => ExitCode::SUCCESS,
+        Err(e) => {
+            // The buffer still holds what could not be written; drop it without a second try.
+            let (_, _) = out.into_parts();
+            report_error(&format!("error: writing standard output\n  caused by: {e}"));
+            ExitCode::FAILURE
+        }
+    }
+}
+
+/// A line on standard error; if even that fails there is no one left to tell.
+fn report_error(text: &str) {
+    let _ = writeln!(std::io::stderr(), "{text}");
 }
 
 fn database(file: Option<&PathBuf>) -> syntrain::Result<SpeciesDb> {
@@ -118,8 +152,10 @@ fn run(cli: Cli) -> syntrain::Result<String> {
             let text = report::render_solution(&db, &result, format.into())?;
             match output {
                 Some(path) => {
-                    report::write_atomically(&path, &text)?;
-                    eprintln!("wrote {}", path.display());
+                    let mut inputs: Vec<&Path> = vec![&file];
+                    inputs.extend(cli.species_file.as_deref());
+                    report::write_output(&path, &text, &inputs)?;
+                    report_error(&format!("wrote {}", path.display()));
                     Ok(String::new())
                 }
                 None => Ok(text),

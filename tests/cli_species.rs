@@ -1,12 +1,17 @@
 //! The `syntrain species` command, run as the real binary.
 
-use std::process::Command;
+use std::process::{Command, Stdio};
 
+/// Run the binary; (exit code, stdout, stderr). Fails the test on any panic.
 fn syntrain(args: &[&str]) -> (i32, String, String) {
     let out = Command::new(env!("CARGO_BIN_EXE_syntrain"))
         .args(args)
+        .stdin(Stdio::null())
         .output()
         .expect("run syntrain");
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(!err.contains("panicked"), "the binary panicked: {err}");
+    assert_ne!(out.status.code(), Some(101), "exit code 101 (panic): {err}");
     (
         out.status.code().unwrap_or(-1),
         String::from_utf8_lossy(&out.stdout).into_owned(),
@@ -61,10 +66,11 @@ fn user_species_file_adds_records_and_reports_yaml_positions() {
     // A constant-Cp monatomic test gas (Cp = 5/2 R); demo record, not real data.
     std::fs::write(
         &good,
-        "species:\n  - name: Xx\n    description: test gas\n    formula: He\n    elements: {He: 1}\n    \
+        "species:\n  - name: Xx\n    description: test gas\n    formula: He\n    atoms: {He: 1}\n    \
          phase: gas\n    molar-mass: 4.002602\n    source: demo record\n    standard-pressure: 1 bar\n    nasa7:\n      \
-         temperature-ranges: [200.0, 1000.0, 3000.0]\n      low: [2.5, 0, 0, 0, 0, -745.375, 0.9]\n      \
-         high: [2.5, 0, 0, 0, 0, -745.375, 0.9]\n",
+         from-k: 200.0\n      break-k: 1000.0\n      to-k: 3000.0\n      \
+         below-break: [2.5, 0, 0, 0, 0, -745.375, 0.9]\n      \
+         above-break: [2.5, 0, 0, 0, 0, -745.375, 0.9]\n",
     )
     .unwrap();
     let path = good.to_str().unwrap();

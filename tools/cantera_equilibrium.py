@@ -71,16 +71,16 @@ def read_records(path):
 
 def nasa_parts(rec):
     n = rec["nasa7"]
-    t_low, t_mid, t_high = (float(x) for x in n["temperature-ranges"])
-    low = [float(x) for x in n["low"]]
-    high = [float(x) for x in n["high"]]
+    t_low, t_mid, t_high = (float(n[k]) for k in ("from-k", "break-k", "to-k"))
+    low = [float(x) for x in n["below-break"]]
+    high = [float(x) for x in n["above-break"]]
     assert len(low) == 7 and len(high) == 7
     return t_low, t_mid, t_high, low, high
 
 
 def make_species(rec):
     t_low, t_mid, t_high, low, high = nasa_parts(rec)
-    comp = {k: float(v) for k, v in rec["elements"].items()}
+    comp = {k: float(v) for k, v in rec["atoms"].items()}
     sp = ct.Species(rec["name"], comp)
     # cantera's NasaPoly2 order: [T_mid, 7 high-range, 7 low-range]
     sp.thermo = ct.NasaPoly2(t_low, t_high, P0, [t_mid] + high + low)

@@ -451,6 +451,8 @@ def write_yaml(entries):
         "# NASA-7: Cp/R = a1 + a2 T + a3 T^2 + a4 T^3 + a5 T^4;",
         "#         H/(RT) = a1 + a2 T/2 + a3 T^2/3 + a4 T^3/4 + a5 T^4/5 + a6/T;",
         "#         S/R = a1 ln T + a2 T + a3 T^2/2 + a4 T^3/3 + a5 T^4/4 + a7; R = 8.31446261815324 J/(mol K).",
+        "# Keys: atoms = atoms per molecule by element; nasa7: from-k, break-k and to-k bound the two",
+        "# ranges (K), below-break and above-break hold a1..a7 of each range.",
         "species:",
     ]
     for e in entries:
@@ -460,15 +462,17 @@ def write_yaml(entries):
             f"  - name: {e['name']}",
             f"    description: {e['description']}",
             f"    formula: {e['formula']}",
-            f"    elements: {{{els}}}",
+            f"    atoms: {{{els}}}",
             f"    phase: {e['phase']}",
             f"    molar-mass: {round(molar_mass(e['elements']), 6)!r}",
             f"    source: \"{e['source']}\"",
             "    standard-pressure: 1 bar",
             "    nasa7:",
-            f"      temperature-ranges: [{fnum(rec.tmin)}, {fnum(rec.tmid)}, {fnum(rec.tmax)}]",
-            f"      low: [{', '.join(fnum(a) for a in rec.low)}]",
-            f"      high: [{', '.join(fnum(a) for a in rec.high)}]",
+            f"      from-k: {fnum(rec.tmin)}",
+            f"      break-k: {fnum(rec.tmid)}",
+            f"      to-k: {fnum(rec.tmax)}",
+            f"      below-break: [{', '.join(fnum(a) for a in rec.low)}]",
+            f"      above-break: [{', '.join(fnum(a) for a in rec.high)}]",
         ]
     text = "\n".join(lines) + "\n"
     os.makedirs(os.path.dirname(OUT), exist_ok=True)

@@ -9,7 +9,7 @@
 //! - `destination`: the unit that uses it; empty for a product
 //! - `phase`: `vapour` or `liquid`
 //! - `temperature_degC`, `temperature_K`
-//! - `pressure_bar` (absolute)
+//! - `pressure_bar_abs` (absolute pressure, bar)
 //! - `total_kmol_h`, `total_Nm3_h` (ideal gas at 273.15 K and 101 325 Pa, DIN 1343), `mass_kg_h`
 //! - `enthalpy_kW` (total, formation enthalpies included)
 //! - `<species>_kmol_h` for each species that flows in some stream, in database order
@@ -45,7 +45,7 @@ pub fn render(db: &SpeciesDb, result: &FlowsheetResult) -> Result<String> {
         "phase",
         "temperature_degC",
         "temperature_K",
-        "pressure_bar",
+        "pressure_bar_abs",
         "total_kmol_h",
         "total_Nm3_h",
         "mass_kg_h",

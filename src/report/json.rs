@@ -1,7 +1,7 @@
 //! The solve result as one JSON object (RFC 8259), for scripts and spreadsheets.
 //!
-//! Stable keys (see the design notes; scripts may rely on them):
-//! - `streams.<name>`: `temperature_K`, `pressure_bar`, `flow_kmol_h` {species: value},
+//! Stable keys (listed in DEVELOPERS.md; scripts may rely on them):
+//! - `streams.<name>`: `temperature_K`, `pressure_bar` (absolute), `flow_kmol_h` {species: value},
 //!   `enthalpy_kW` (total, formation enthalpies included)
 //! - `units.<name>`: `type`, `inlets` [stream names], `outlets` [stream names], `duty_kW`
 //! - `warnings`: [strings]
@@ -14,7 +14,7 @@
 //!   `mole_percent_dry` {species: value}
 //! - `units.<name>`: `outlet_temperature_K`, `approach_K` {reaction: K},
 //!   `figures` {key: {label, value, unit}} in report units (% for fractions, ppm, degC, K,
-//!   kmol/h, bar), `warnings`, and for equilibrium units `converged`, `iterations`,
+//!   kmol/h, bar abs), `warnings`, and for equilibrium units `converged`, `iterations`,
 //!   `residuals` [one per reaction], `max_residual`, `energy_residual`
 //! - `summary`: `hydrogen_product_kmol_h` and `hydrogen_product_Nm3_h` (null without a purifier),
 //!   `methane_slip_percent_dry` {unit: %}, `co_slip_percent_dry` {unit: %},

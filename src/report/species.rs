@@ -39,18 +39,30 @@ fn properties(s: &Species, t: f64) -> Result<[f64; 6]> {
     ])
 }
 
-/// Text table: the whole database, or one record with its properties.
+/// Text table: the whole database, or one record with its properties. With temperatures and no
+/// name, one table of every species at each of those temperatures follows the listing.
 pub fn table(db: &SpeciesDb, name: Option<&str>, temperatures_k: &[f64]) -> Result<String> {
     let mut out = String::new();
     match name {
         None => {
+            // Columns as wide as their widest entry, so long descriptions keep the table aligned.
+            let width = |f: &dyn Fn(&Species) -> usize, header: &str| {
+                db.all()
+                    .iter()
+                    .map(f)
+                    .chain([header.len()])
+                    .max()
+                    .unwrap_or(0)
+            };
+            let name_w = width(&|s| s.name.chars().count(), "species");
+            let desc_w = width(&|s| s.description.chars().count(), "description");
             out.push_str(&format!(
-                "{:<9} {:<18} {:<6} {:>10} {:>14}  source\n",
+                "{:<name_w$} {:<desc_w$} {:<6} {:>10} {:>14}  source\n",
                 "species", "description", "phase", "M g/mol", "range K"
             ));
             for s in db.all() {
                 out.push_str(&format!(
-                    "{:<9} {:<18} {:<6} {:>10.4} {:>14}  {}\n",
+                    "{:<name_w$} {:<desc_w$} {:<6} {:>10.4} {:>14}  {}\n",
                     s.name,
                     s.description,
                     phase_name(s.phase),
@@ -63,10 +75,8 @@ pub fn table(db: &SpeciesDb, name: Option<&str>, temperatures_k: &[f64]) -> Resu
                 "\nStandard state 1 bar; H includes the formation enthalpy at 298.15 K.\n",
             );
             if !temperatures_k.is_empty() {
-                for s in db.all() {
-                    out.push('\n');
-                    out.push_str(&property_block(s, temperatures_k)?);
-                }
+                out.push('\n');
+                out.push_str(&properties_of_all(db, temperatures_k, name_w)?);
             }
         }
         Some(n) => {
@@ -87,6 +97,32 @@ pub fn table(db: &SpeciesDb, name: Option<&str>, temperatures_k: &[f64]) -> Resu
             ));
             out.push_str(&format!("  source       {}\n\n", s.source));
             out.push_str(&property_block(s, temperatures_or_default(temperatures_k))?);
+        }
+    }
+    Ok(out)
+}
+
+/// One table of every species at each temperature (species in database order, temperatures in
+/// the order given).
+fn properties_of_all(db: &SpeciesDb, temperatures_k: &[f64], name_w: usize) -> Result<String> {
+    let mut out = format!(
+        "{:<name_w$} {:>9} {:>9} {:>12} {:>12} {:>12} {:>12} {:>12}\n",
+        "species", "T K", "T degC", "Cp J/molK", "H kJ/mol", "H-H298", "S J/molK", "G kJ/mol"
+    );
+    for s in db.all() {
+        for &t in temperatures_k {
+            let p = properties(s, t)?;
+            out.push_str(&format!(
+                "{:<name_w$} {:>9.2} {:>9.2} {:>12.4} {:>12.4} {:>12.4} {:>12.4} {:>12.4}\n",
+                s.name,
+                p[0],
+                kelvin_to_degc(p[0]),
+                p[1],
+                p[2],
+                p[3],
+                p[4],
+                p[5]
+            ));
         }
     }
     Ok(out)
@@ -186,6 +222,30 @@ mod tests {
                 < 1e-3
         );
         assert!(table(&db, Some("XYZ"), &[]).is_err());
+        // Temperatures without a name: one row per species and temperature, each species at
+        // each temperature. CO2 at 1000 K: Cp 54.308 J/(mol K) (NIST-JANAF (Chase 1998), CO2
+        // table); the record is a fit within 0.5 %.
+        let list = table(&db, None, &[500.0, 1000.0]).unwrap();
+        let rows: Vec<&str> = list
+            .lines()
+            .filter(|l| l.contains(" 1000.00 ") || l.contains(" 500.00 "))
+            .collect();
+        assert_eq!(rows.len(), 2 * db.len(), "{list}");
+        let co2 = rows
+            .iter()
+            .find(|l| l.starts_with("CO2 ") && l.contains(" 1000.00 "))
+            .unwrap();
+        let cp: f64 = co2.split_whitespace().nth(3).unwrap().parse().unwrap();
+        assert!((cp - 54.308).abs() < 0.005 * 54.308, "{co2}");
+        // The listing stays aligned with a long description (isobutane (2-methylpropane)).
+        let header = list.lines().next().unwrap();
+        let phase_at = header.find("phase").unwrap();
+        for line in list.lines().skip(1).take(db.len()) {
+            assert!(
+                line[phase_at..].starts_with("gas") || line[phase_at..].starts_with("solid"),
+                "{line}"
+            );
+        }
         assert!(table(&db, Some("CH4"), &[5000.0]).is_err());
     }
 }

@@ -4,8 +4,9 @@
 //!
 //! The stream table has the streams as columns, in blocks narrow enough for a terminal, and the
 //! species as rows (only species present in some stream). Values leave in the units a plant
-//! engineer reads: degC, bar (absolute), kmol/h, Nm3/h (ideal gas at 273.15 K and 101 325 Pa,
-//! DIN 1343), kW, mol % wet and dry; the conversions are those of [`crate::quantity`].
+//! engineer reads: degC, bar abs (every pressure is absolute and labelled so), kmol/h, Nm3/h (ideal
+//! gas at 273.15 K and 101 325 Pa, DIN 1343), kW, mol % wet and dry with fractions below 0.1 %
+//! in ppm; the conversions are those of [`crate::quantity`].
 
 use crate::error::Result;
 use crate::flowsheet::result::{FlowsheetResult, SolvedStream, StreamSource};
@@ -15,8 +16,12 @@ use crate::quantity::{
 use crate::thermo::{mixture, SpeciesDb};
 use crate::units::{Figure, FigureKind, StreamPhase};
 
+/// Widest a line of the plain report may be, characters (a terminal of 100 columns).
+pub const REPORT_WIDTH: usize = 100;
+/// Indent of every table line in the plain layout, characters.
+const TABLE_INDENT: usize = 2;
 /// Widest a block of stream columns may grow before the next block starts, characters.
-const BLOCK_WIDTH: usize = 100;
+const BLOCK_WIDTH: usize = REPORT_WIDTH - TABLE_INDENT;
 /// Most stream columns in one block.
 const MAX_STREAMS_PER_BLOCK: usize = 6;
 /// Space between columns in the plain layout, characters (used to size the blocks).
@@ -28,7 +33,7 @@ const STREAM_LABELS: [&str; 8] = [
     "to",
     "phase",
     "temperature, degC",
-    "pressure, bar",
+    "pressure, bar abs",
     "total, kmol/h",
     "total, Nm3/h",
     "mass, kg/h",
@@ -113,7 +118,7 @@ pub fn build(db: &SpeciesDb, result: &FlowsheetResult) -> Result<SolveReport> {
         units: unit_table(result),
         figures: figure_table(result),
         equilibrium: equilibrium_table(result),
-        summary: summary_table(result),
+        summary: summary_table(db, result),
         warnings: result.warnings.clone(),
         cautions: super::CAUTIONS.to_string(),
     })
@@ -161,7 +166,7 @@ pub fn phase_name(phase: StreamPhase) -> &'static str {
 /// A figure converted to report units: (value, unit text).
 ///
 /// Fraction -> %, Ppm -> ppm, Temperature -> degC, TemperatureDifference -> K,
-/// MolarFlow -> kmol/h, Pressure -> bar, Number -> no unit.
+/// MolarFlow -> kmol/h, Pressure -> bar abs, Number -> no unit.
 pub fn figure_value(figure: &Figure) -> (f64, &'static str) {
     let v = figure.value;
     match figure.kind {
@@ -170,7 +175,7 @@ pub fn figure_value(figure: &Figure) -> (f64, &'static str) {
         FigureKind::Temperature => (kelvin_to_degc(v), "degC"),
         FigureKind::TemperatureDifference => (v, "K"),
         FigureKind::MolarFlow => (mol_s_to_kmol_h(v), "kmol/h"),
-        FigureKind::Pressure => (pa_to_bar(v), "bar"),
+        FigureKind::Pressure => (pa_to_bar(v), "bar abs"),
         FigureKind::Number => (v, ""),
     }
 }
@@ -185,15 +190,6 @@ pub fn figure_number(figure: &Figure) -> String {
         FigureKind::MolarFlow => fixed(value, 2),
         FigureKind::Pressure => fixed(value, 2),
         FigureKind::Number => significant(value, 4),
-    }
-}
-
-/// A figure as text with its unit ("3.214 %", "870.0 degC").
-pub fn figure_text(figure: &Figure) -> String {
-    let number = figure_number(figure);
-    match figure_value(figure).1 {
-        "" => number,
-        unit => format!("{number} {unit}"),
     }
 }
 
@@ -239,6 +235,18 @@ pub fn percent(value: f64) -> String {
         "-".to_string()
     } else if value.abs() < 5.0e-4 {
         format!("{value:.1e}")
+    } else {
+        fixed(value, 3)
+    }
+}
+
+/// A mole fraction given in percent, for a stream table cell: like [`percent`] from 0.1 % up,
+/// in parts per million below ("125 ppm", "3.40 ppm"), so small contents read without exponents.
+pub fn mole_percent_cell(value: f64) -> String {
+    if value == 0.0 {
+        "-".to_string()
+    } else if value.abs() < 0.1 {
+        format!("{} ppm", significant(value * 1.0e4, 3))
     } else {
         fixed(value, 3)
     }
@@ -379,12 +387,12 @@ fn stream_column(
     cells.extend(
         species
             .iter()
-            .map(|&i| percent(100.0 * st.mole_fraction(i))),
+            .map(|&i| mole_percent_cell(100.0 * st.mole_fraction(i))),
     );
     cells.extend(
         dry_species
             .iter()
-            .map(|&i| percent(100.0 * st.dry_mole_fraction(db, i))),
+            .map(|&i| mole_percent_cell(100.0 * st.dry_mole_fraction(db, i))),
     );
     cells
 }
@@ -514,7 +522,31 @@ fn equilibrium_table(result: &FlowsheetResult) -> Option<Table> {
     (!table.rows.is_empty()).then_some(table)
 }
 
-fn summary_table(result: &FlowsheetResult) -> Table {
+/// The gas leaving the purifiers as product: total flow (mol/s) and hydrogen mole fraction.
+struct Product {
+    total: f64,
+    purity: f64,
+}
+
+/// The product of every purifier (its first outlet) taken together; None without a purifier or
+/// without flow.
+fn purifier_product(db: &SpeciesDb, result: &FlowsheetResult) -> Option<Product> {
+    let h2 = db.index_of("H2")?;
+    let mut total = 0.0;
+    let mut hydrogen = 0.0;
+    for unit in result.units.iter().filter(|u| u.type_name == "purifier") {
+        if let Some(product) = unit.result.outlets.first() {
+            total += product.total();
+            hydrogen += product.flows.get(h2).copied().unwrap_or(0.0);
+        }
+    }
+    (total > 0.0).then(|| Product {
+        total,
+        purity: hydrogen / total,
+    })
+}
+
+fn summary_table(db: &SpeciesDb, result: &FlowsheetResult) -> Table {
     use Align::{Left, Right};
     let s = &result.summary;
     let mut table = Table::new(
@@ -527,16 +559,27 @@ fn summary_table(result: &FlowsheetResult) -> Table {
     };
     match s.hydrogen_product_mol_s {
         Some(n) => {
-            push(
-                "hydrogen product".into(),
-                fixed(mol_s_to_kmol_h(n), 2),
-                "kmol/h",
-            );
-            push(
-                "hydrogen product".into(),
-                fixed(mol_s_to_nm3_h(n), 0),
-                "Nm3/h",
-            );
+            let h2 = "hydrogen contained in the product";
+            push(h2.into(), fixed(mol_s_to_kmol_h(n), 2), "kmol/h");
+            push(h2.into(), fixed(mol_s_to_nm3_h(n), 0), "Nm3/h");
+            if let Some(product) = purifier_product(db, result) {
+                let total = "product gas, total flow";
+                push(
+                    total.into(),
+                    fixed(mol_s_to_kmol_h(product.total), 2),
+                    "kmol/h",
+                );
+                push(
+                    total.into(),
+                    fixed(mol_s_to_nm3_h(product.total), 0),
+                    "Nm3/h",
+                );
+                push(
+                    "product purity, H2".into(),
+                    fixed(100.0 * product.purity, 3),
+                    "mol %",
+                );
+            }
         }
         None => push("hydrogen product".into(), "-".into(), "(no purifier)"),
     }
@@ -601,6 +644,20 @@ mod tests {
         assert_eq!(percent(0.0), "-");
         assert_eq!(percent(12.3456), "12.346");
         assert_eq!(percent(1.0e-4), "1.0e-4");
+        // Stream cells: ppm below 0.1 % (1 % = 10 000 ppm by definition).
+        assert_eq!(mole_percent_cell(0.0), "-");
+        assert_eq!(mole_percent_cell(0.1), "0.100");
+        assert_eq!(mole_percent_cell(0.0125), "125 ppm");
+        assert_eq!(mole_percent_cell(0.000_34), "3.40 ppm");
+        assert_eq!(mole_percent_cell(99.9), "99.900");
+    }
+
+    /// A figure as the reports show it: number and unit.
+    fn figure_text(figure: &Figure) -> String {
+        match figure_value(figure).1 {
+            "" => figure_number(figure),
+            unit => format!("{} {unit}", figure_number(figure)),
+        }
     }
 
     #[test]
@@ -620,7 +677,10 @@ mod tests {
         assert_eq!(figure_text(&f(5.0e-6, FigureKind::Ppm)), "5.0 ppm");
         // 1 mol/s = 3.6 kmol/h; 1 bar = 1e5 Pa (ISO 80000-4).
         assert_eq!(figure_text(&f(1.0, FigureKind::MolarFlow)), "3.60 kmol/h");
-        assert_eq!(figure_text(&f(2.5e6, FigureKind::Pressure)), "25.00 bar");
+        assert_eq!(
+            figure_text(&f(2.5e6, FigureKind::Pressure)),
+            "25.00 bar abs"
+        );
         assert_eq!(
             figure_text(&f(12.0, FigureKind::TemperatureDifference)),
             "12.0 K"

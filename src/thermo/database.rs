@@ -1,9 +1,14 @@
 //! The species database: the records shipped in `data/species.yaml` (embedded in the binary, so
 //! syntrain works from any folder), plus any records a user adds from a file of the same format.
 //!
-//! Each record is checked when read: temperature ranges in order, molar mass consistent with the
-//! elements (IUPAC conventional atomic weights, IUPAC 2013), and the two polynomial ranges
-//! continuous at the break temperature.
+//! Each record is checked when read: temperatures in order and covering at least 300-1500 K,
+//! molar mass consistent with the atoms (IUPAC conventional atomic weights, IUPAC 2013), and the
+//! two polynomial ranges continuous at the break temperature. A file is added all or nothing.
+//!
+//! The keys are syntrain's own (DEVELOPERS.md, "Species records"); the polynomial is the
+//! published NASA 7-coefficient form of [`super::species`]. A file that still uses an earlier
+//! key (`elements`, `temperature-ranges`, `low`, `high`) is refused with a message naming the
+//! key to write instead.
 
 use std::collections::HashMap;
 use std::path::Path;
@@ -28,12 +33,35 @@ const ATOMIC_WEIGHTS: &[(&str, f64)] = &[
     ("S", 32.06),
 ];
 
+/// Every record must cover at least this span, K: the temperatures of a reforming train from
+/// feed preheat to reformer exit with room to spare (common practice). Because every record
+/// covers it, any mixture of records has a common range to work in.
+const REQUIRED_SPAN_K: (f64, f64) = (300.0, 1500.0);
+
+/// Keys of the first release's species files and the keys that replaced them (first column:
+/// where the key sits). Files with an old key are refused with a message naming the new one.
+const RENAMED_KEYS: &[(&str, &str, &str)] = &[
+    ("record", "elements", "atoms"),
+    ("nasa7", "temperature-ranges", "from-k, break-k and to-k"),
+    ("nasa7", "low", "below-break"),
+    ("nasa7", "high", "above-break"),
+];
+
+/// Keys that belong to other file formats, never to ours, with what to write instead.
+const FOREIGN_KEYS: &[(&str, &str)] = &[
+    ("thermo", "nasa7"),
+    ("composition", "atoms"),
+    ("note", "source"),
+];
+
+/// A species file: `species:` followed by a list of records.
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields)]
 struct FileModel {
     species: Vec<RecordModel>,
 }
 
+/// One record, keys in kebab-case (see DEVELOPERS.md, "Species records").
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields, rename_all = "kebab-case")]
 struct RecordModel {
@@ -41,7 +69,8 @@ struct RecordModel {
     #[serde(default)]
     description: String,
     formula: String,
-    elements: std::collections::BTreeMap<String, f64>,
+    /// Atoms per molecule by element symbol.
+    atoms: std::collections::BTreeMap<String, f64>,
     phase: Phase,
     molar_mass: f64,
     source: String,
@@ -49,12 +78,15 @@ struct RecordModel {
     nasa7: Nasa7Model,
 }
 
+/// The two NASA 7-coefficient sets and the temperatures that bound them, K.
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields, rename_all = "kebab-case")]
 struct Nasa7Model {
-    temperature_ranges: [f64; 3],
-    low: [f64; 7],
-    high: [f64; 7],
+    from_k: f64,
+    break_k: f64,
+    to_k: f64,
+    below_break: [f64; 7],
+    above_break: [f64; 7],
 }
 
 /// A set of species records, looked up by name.
@@ -93,20 +125,28 @@ impl SpeciesDb {
         self.add_yaml(&path.display().to_string(), &text)
     }
 
-    /// Add the records of YAML text; `origin` names it in error messages.
+    /// Add the records of YAML text; `origin` names it in error messages. All or nothing: every
+    /// record is read and checked first, and the database changes only when all of them pass.
     pub fn add_yaml(&mut self, origin: &str, text: &str) -> Result<()> {
-        let model: FileModel = serde_norway::from_str(text).map_err(|e| Error::yaml(origin, &e))?;
+        let model: FileModel = serde_norway::from_str(text)
+            .map_err(|e| old_key_error(origin, text).unwrap_or_else(|| Error::yaml(origin, &e)))?;
+        let mut added: Vec<Species> = Vec::with_capacity(model.species.len());
         for record in model.species {
             let species = convert(record)?;
-            if self.index.contains_key(&species.name) {
+            let repeated = self.index.contains_key(&species.name)
+                || added.iter().any(|s| s.name == species.name);
+            if repeated {
                 return Err(Error::SpeciesRecord {
                     species: species.name,
                     reason: format!(
-                        "defined twice ({origin} repeats a name already in the database); \
-                         give the new record a name of its own"
+                        "defined twice ({origin} repeats a name already in the database or in \
+                         the same file); give the new record a name of its own"
                     ),
                 });
             }
+            added.push(species);
+        }
+        for species in added {
             self.index.insert(species.name.clone(), self.species.len());
             self.species.push(species);
         }
@@ -163,30 +203,85 @@ impl SpeciesDb {
     }
 }
 
+/// The error for a file that failed to read and holds a key of the first release or of another
+/// format, naming the record and the key to write instead; None when it holds no such key.
+fn old_key_error(origin: &str, text: &str) -> Option<Error> {
+    use serde_norway::Value;
+    let value: Value = serde_norway::from_str(text).ok()?;
+    let records = value.get("species")?.as_sequence()?;
+    for (k, record) in records.iter().enumerate() {
+        let name = record
+            .get("name")
+            .and_then(Value::as_str)
+            .map_or_else(|| format!("number {} in {origin}", k + 1), str::to_string);
+        let fail = |reason: String| {
+            Some(Error::SpeciesRecord {
+                species: name.clone(),
+                reason,
+            })
+        };
+        for (place, old, new) in RENAMED_KEYS {
+            let holder = match *place {
+                "record" => Some(record),
+                _ => record.get(*place),
+            };
+            if holder.and_then(|h| h.get(*old)).is_some() {
+                let at = if *place == "record" {
+                    String::new()
+                } else {
+                    format!(" under '{place}'")
+                };
+                return fail(format!(
+                    "key '{old}'{at} is an earlier name and is no longer read; write '{new}' \
+                     instead (see DEVELOPERS.md, \"Species records\")"
+                ));
+            }
+        }
+        for (foreign, ours) in FOREIGN_KEYS {
+            if record.get(*foreign).is_some() {
+                return fail(format!(
+                    "key '{foreign}' is not a key of syntrain species files; write '{ours}' \
+                     (see DEVELOPERS.md, \"Species records\")"
+                ));
+            }
+        }
+    }
+    None
+}
+
 fn convert(r: RecordModel) -> Result<Species> {
     let bad = |reason: String| Error::SpeciesRecord {
         species: r.name.clone(),
         reason,
     };
-    let [t_min, t_mid, t_max] = r.nasa7.temperature_ranges;
+    let (t_min, t_mid, t_max) = (r.nasa7.from_k, r.nasa7.break_k, r.nasa7.to_k);
     if !(t_min > 0.0 && t_min < t_mid && t_mid < t_max && t_max.is_finite()) {
         return Err(bad(format!(
-            "temperature-ranges [{t_min}, {t_mid}, {t_max}] must be increasing, positive, finite"
+            "from-k {t_min}, break-k {t_mid}, to-k {t_max} must be increasing, positive and \
+             finite"
+        )));
+    }
+    let (span_lo, span_hi) = REQUIRED_SPAN_K;
+    if t_min > span_lo || t_max < span_hi {
+        return Err(bad(format!(
+            "its data cover {t_min}-{t_max} K; every record must cover at least \
+             {span_lo}-{span_hi} K (feed preheat to reformer exit), so that records used together \
+             always share a temperature range"
         )));
     }
     if r.nasa7
-        .low
+        .below_break
         .iter()
-        .chain(&r.nasa7.high)
+        .chain(&r.nasa7.above_break)
         .any(|a| !a.is_finite())
     {
         return Err(bad("a NASA coefficient is not a finite number".into()));
     }
-    if r.elements.is_empty() {
-        return Err(bad("no elements given".into()));
+    if r.atoms.is_empty() {
+        return Err(bad("no atoms given".into()));
     }
     let mut mass = 0.0;
-    for (element, count) in &r.elements {
+    for (element, count) in &r.atoms {
         if !(*count > 0.0 && count.is_finite()) {
             return Err(bad(format!(
                 "element {element}: count {count} must be positive"
@@ -223,7 +318,7 @@ fn convert(r: RecordModel) -> Result<Species> {
         Phase::Gas => (p_ref / STANDARD_PRESSURE_PA).ln(),
         Phase::Solid => 0.0,
     };
-    let (mut low, mut high) = (r.nasa7.low, r.nasa7.high);
+    let (mut low, mut high) = (r.nasa7.below_break, r.nasa7.above_break);
     low[6] += shift;
     high[6] += shift;
     let nasa7 = Nasa7 {
@@ -258,7 +353,7 @@ fn convert(r: RecordModel) -> Result<Species> {
         name: r.name.clone(),
         description: r.description,
         formula: r.formula,
-        elements: r.elements.into_iter().collect(),
+        elements: r.atoms.into_iter().collect(),
         phase: r.phase,
         molar_mass_kg_per_mol: r.molar_mass / 1000.0,
         source: r.source,
@@ -274,15 +369,17 @@ mod tests {
 species:
   - name: XE1
     formula: H2
-    elements: {H: 2}
+    atoms: {H: 2}
     phase: gas
     molar-mass: 2.016
     source: test record
     standard-pressure: 1 bar
     nasa7:
-      temperature-ranges: [200.0, 1000.0, 3000.0]
-      low: [3.5, 0, 0, 0, 0, -1043.5, -1.0]
-      high: [3.5, 0, 0, 0, 0, -1043.5, -1.0]
+      from-k: 200.0
+      break-k: 1000.0
+      to-k: 3000.0
+      below-break: [3.5, 0, 0, 0, 0, -1043.5, -1.0]
+      above-break: [3.5, 0, 0, 0, 0, -1043.5, -1.0]
 "#;
 
     #[test]
@@ -342,6 +439,76 @@ species:
             .replace("XE1", "XC")
             .replace("    standard-pressure: 1 bar\n", "");
         assert!(db.add_yaml("u", &none).is_err());
+    }
+
+    #[test]
+    fn a_bad_record_leaves_the_database_unchanged() {
+        // Two records in one file, the second with a molar mass that does not match its atoms
+        // (H2 is 2.016 g/mol, IUPAC 2013): nothing of the file may be added.
+        let mut db = SpeciesDb::embedded().unwrap();
+        let n = db.len();
+        let second = ONE
+            .replace("species:\n", "")
+            .replace("XE1", "XE2")
+            .replace("2.016", "3.0");
+        let text = format!("{}{second}", ONE.trim_end_matches('\n'));
+        assert!(text.matches("- name:").count() == 2, "{text}");
+        match db.add_yaml("u.yaml", &text) {
+            Err(Error::SpeciesRecord { species, .. }) => assert_eq!(species, "XE2"),
+            other => panic!("expected a record error, got {other:?}"),
+        }
+        assert_eq!(db.len(), n);
+        assert!(db.index_of("XE1").is_none());
+        // The same name twice in one file is refused as a whole too.
+        let twice = format!("{}{}", ONE, ONE.replace("species:\n", ""));
+        assert!(db.add_yaml("u.yaml", &twice).is_err());
+        assert_eq!(db.len(), n);
+        // A good file goes in whole.
+        db.add_yaml("u.yaml", ONE).unwrap();
+        assert_eq!(db.len(), n + 1);
+    }
+
+    #[test]
+    fn earlier_keys_are_refused_with_the_new_name() {
+        let mut db = SpeciesDb::embedded().unwrap();
+        let old = ONE
+            .replace("atoms:", "elements:")
+            .replace(
+                "      from-k: 200.0\n      break-k: 1000.0\n      to-k: 3000.0\n",
+                "      temperature-ranges: [200.0, 1000.0, 3000.0]\n",
+            )
+            .replace("below-break:", "low:")
+            .replace("above-break:", "high:");
+        let err = db.add_yaml("old.yaml", &old).unwrap_err().to_string();
+        assert!(err.contains("XE1") && err.contains("'elements'"), "{err}");
+        assert!(err.contains("'atoms'"), "{err}");
+        let nasa_only = old.replace("elements:", "atoms:");
+        let err = db.add_yaml("old.yaml", &nasa_only).unwrap_err().to_string();
+        assert!(
+            err.contains("'temperature-ranges'") && err.contains("break-k"),
+            "{err}"
+        );
+        let foreign = ONE.replace("    formula: H2\n", "    formula: H2\n    note: x\n");
+        let err = db.add_yaml("f.yaml", &foreign).unwrap_err().to_string();
+        assert!(err.contains("'note'") && err.contains("'source'"), "{err}");
+        // The shipped file uses only the new keys.
+        assert!(!EMBEDDED_SPECIES_YAML.contains("temperature-ranges"));
+        assert!(!EMBEDDED_SPECIES_YAML.contains("elements: {"));
+    }
+
+    #[test]
+    fn a_record_must_cover_the_working_span() {
+        // A record valid only at 760-780 K used to reach a search whose bounds crossed.
+        let mut db = SpeciesDb::embedded().unwrap();
+        let narrow = ONE
+            .replace("from-k: 200.0", "from-k: 760.0")
+            .replace("break-k: 1000.0", "break-k: 770.0")
+            .replace("to-k: 3000.0", "to-k: 780.0");
+        let err = db.add_yaml("n.yaml", &narrow).unwrap_err().to_string();
+        assert!(err.contains("XE1") && err.contains("300-1500 K"), "{err}");
+        let crossed = ONE.replace("break-k: 1000.0", "break-k: 5000.0");
+        let err = db.add_yaml("c.yaml", &crossed).unwrap_err().to_string();
+        assert!(err.contains("increasing"), "{err}");
     }
 
     #[test]

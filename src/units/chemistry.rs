@@ -140,12 +140,12 @@ impl CarbonCheck {
             (
                 &self.cracking,
                 "carbon-activity-methane-cracking",
-                "carbon activity, methane cracking (CH4 = C + 2 H2)",
+                "carbon activity, CH4 cracking",
             ),
             (
                 &self.boudouard,
                 "carbon-activity-boudouard",
-                "carbon activity, Boudouard (2 CO = C + CO2)",
+                "carbon activity, Boudouard",
             ),
         ];
         for (reaction, key, label) in checks {

@@ -76,7 +76,7 @@ impl Mixer {
             if outlet.flows[self.key.h2o] > 0.0 {
                 figures.push(figure(
                     "steam-to-carbon",
-                    "steam-to-carbon ratio (H2O / organic carbon)",
+                    "steam-to-carbon ratio",
                     sc,
                     FigureKind::Number,
                 ));

@@ -106,7 +106,7 @@ impl Prereformer {
         let out = stage.outlet_flows.clone();
         let mut figures = vec![figure(
             "temperature-change",
-            "temperature change (outlet - inlet)",
+            "temperature change",
             t_out - t_in,
             FigureKind::TemperatureDifference,
         )];
@@ -127,7 +127,7 @@ impl Prereformer {
         if let Some(sc) = key.steam_to_carbon(&inlet.flows) {
             figures.push(figure(
                 "steam-to-carbon",
-                "steam-to-carbon ratio at the inlet (H2O / organic carbon)",
+                "steam-to-carbon ratio, inlet",
                 sc,
                 FigureKind::Number,
             ));

@@ -140,7 +140,7 @@ impl Reformer {
         if let Some(sc) = key.steam_to_carbon(&inlet.flows) {
             figures.push(figure(
                 "steam-to-carbon",
-                "steam-to-carbon ratio at the inlet (H2O / organic carbon)",
+                "steam-to-carbon ratio, inlet",
                 sc,
                 FigureKind::Number,
             ));

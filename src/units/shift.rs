@@ -198,7 +198,7 @@ impl Shift {
         if let Some(dew) = dew {
             figures.push(figure(
                 "inlet-dew-point-margin",
-                "inlet temperature above the water dew point",
+                "inlet above water dew point",
                 t_in - dew,
                 FigureKind::TemperatureDifference,
             ));

@@ -174,7 +174,7 @@ impl Thermal {
         if let Some(dew) = dew_point_k(&self.key, &outlet.flows, p) {
             figures.push(figure(
                 "outlet-dew-point-margin",
-                "outlet temperature above the water dew point",
+                "outlet above water dew point",
                 t_out - dew,
                 FigureKind::TemperatureDifference,
             ));
