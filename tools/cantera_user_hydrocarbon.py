@@ -34,8 +34,10 @@ def records():
 
 def nasa(rec):
     n = rec["nasa7"]
-    t_low, t_mid, t_high = (float(x) for x in n["temperature-ranges"])
-    return t_low, t_mid, t_high, [float(x) for x in n["low"]], [float(x) for x in n["high"]]
+    t_low, t_mid, t_high = (float(n[k]) for k in ("from-k", "break-k", "to-k"))
+    low = [float(x) for x in n["below-break"]]
+    high = [float(x) for x in n["above-break"]]
+    return t_low, t_mid, t_high, low, high
 
 
 def main():
@@ -43,7 +45,7 @@ def main():
     species = []
     for name in SPECIES:
         t_low, t_mid, t_high, low, high = nasa(recs[name])
-        comp = {e: float(v) for e, v in recs[name]["elements"].items()}
+        comp = {e: float(v) for e, v in recs[name]["atoms"].items()}
         sp = ct.Species(name, comp)
         sp.thermo = ct.NasaPoly2(t_low, t_high, 1.0e5, [t_mid] + high + low)
         species.append(sp)
