@@ -59,7 +59,13 @@ struct Case {
 fn case() -> impl Strategy<Value = Case> {
     (
         (temperature(), temperature(), 0.001..400.0f64),
-        (flow(), flow(), flow(), prop_oneof![5 => Just(0.0), 1 => 0.0..10.0f64], flow()),
+        (
+            flow(),
+            flow(),
+            flow(),
+            prop_oneof![5 => Just(0.0), 1 => 0.0..10.0f64],
+            flow(),
+        ),
         (temperature(), temperature(), approach(), approach()),
         (temperature(), approach(), temperature(), temperature()),
         (0.0..5.0f64, 0.01..1.0f64, 0.3..1.0f64),

@@ -1,7 +1,7 @@
 //! The stream table as CSV in wide form: one header line, then one line per stream, in the order
-//! of the result (feeds first, then unit outlets in solve order). Quoting and line ends follow
-//! RFC 4180: lines end in CRLF; a field holding a comma, a double quote, CR or LF is enclosed in
-//! double quotes with inner quotes doubled.
+//! of the result (feeds first, then unit outlets in solve order). Written by the `csv` crate:
+//! quoting and line ends follow RFC 4180 (lines end in CRLF; a field holding a comma, a double
+//! quote, CR or LF is enclosed in double quotes with inner quotes doubled).
 //!
 //! Columns, in this order:
 //! - `stream`: stream name
@@ -20,7 +20,7 @@
 //! a value that is not finite is left empty.
 
 use super::tables::{phase_name, present_species, source_name};
-use crate::error::{Result, ResultExt};
+use crate::error::{Error, Result, ResultExt};
 use crate::flowsheet::result::FlowsheetResult;
 use crate::quantity::{
     kelvin_to_degc, kg_s_to_kg_h, mol_s_to_kmol_h, mol_s_to_nm3_h, pa_to_bar, w_to_kw,
@@ -58,7 +58,10 @@ pub fn render(db: &SpeciesDb, result: &FlowsheetResult) -> Result<String> {
     header.extend(species.iter().map(|&i| format!("{}_mol_pct_wet", name(i))));
     header.extend(dry.iter().map(|&i| format!("{}_mol_pct_dry", name(i))));
 
-    let mut out = line(&header);
+    let mut out = csv::WriterBuilder::new()
+        .terminator(csv::Terminator::CRLF)
+        .from_writer(Vec::new());
+    out.write_record(&header).map_err(csv_error)?;
     for s in &result.streams {
         let st = &s.stream;
         let enthalpy_w = st
@@ -87,23 +90,24 @@ pub fn render(db: &SpeciesDb, result: &FlowsheetResult) -> Result<String> {
             dry.iter()
                 .map(|&i| number(100.0 * st.dry_mole_fraction(db, i))),
         );
-        out.push_str(&line(&fields));
+        out.write_record(&fields).map_err(csv_error)?;
     }
-    Ok(out)
+    let bytes = out
+        .into_inner()
+        .map_err(|e| csv_error(csv::Error::from(e.into_error())))?;
+    String::from_utf8(bytes).map_err(|e| Error::InvalidValue {
+        field: "CSV report".into(),
+        value: String::new(),
+        reason: format!("not UTF-8: {e}"),
+    })
 }
 
-/// One CSV record with its CRLF.
-fn line(fields: &[String]) -> String {
-    let quoted: Vec<String> = fields.iter().map(|f| quote(f)).collect();
-    format!("{}\r\n", quoted.join(","))
-}
-
-/// A field quoted per RFC 4180 where needed.
-fn quote(field: &str) -> String {
-    if field.contains([',', '"', '\r', '\n']) {
-        format!("\"{}\"", field.replace('"', "\"\""))
-    } else {
-        field.to_string()
+/// A CSV writer error as the library's error (writing into memory: not expected in practice).
+fn csv_error(e: csv::Error) -> Error {
+    Error::InvalidValue {
+        field: "CSV report".into(),
+        value: String::new(),
+        reason: e.to_string(),
     }
 }
 
@@ -122,22 +126,21 @@ mod tests {
     use crate::report::test_fixture::{fixture, with_db};
 
     #[test]
-    fn rfc_4180_quoting() {
-        // RFC 4180, section 2, rules 6 and 7.
-        assert_eq!(quote("plain"), "plain");
-        assert_eq!(quote("a,b"), "\"a,b\"");
-        assert_eq!(quote("say \"hi\""), "\"say \"\"hi\"\"\"");
-        assert_eq!(quote("two\nlines"), "\"two\nlines\"");
-        assert_eq!(line(&["a".into(), "b,c".into()]), "a,\"b,c\"\r\n");
+    fn numbers_in_full_precision_and_empty_when_not_finite() {
         assert_eq!(number(f64::INFINITY), "");
+        assert_eq!(number(f64::NAN), "");
         assert_eq!(number(0.1), "0.1");
+        assert_eq!(number(1.0 / 3.0).parse::<f64>().unwrap(), 1.0 / 3.0);
     }
 
     #[test]
     fn wide_table_one_line_per_stream() {
         with_db(|db| {
             let mut result = fixture(db);
+            // RFC 4180, section 2, rules 6 and 7: a comma and quotes force quoting, inner
+            // quotes doubled; a line break inside a field stays inside the quotes.
             result.streams[0].name = "gas, \"natural\"".into();
+            result.streams[1].name = "two\nlines".into();
             let text = render(db, &result).unwrap();
             assert!(text.ends_with("\r\n"));
             let lines: Vec<&str> = text.split("\r\n").filter(|l| !l.is_empty()).collect();
@@ -149,6 +152,7 @@ mod tests {
             assert!(!header.contains(&"H2O_mol_pct_dry"));
             assert!(!header.iter().any(|h| h.starts_with("C2H6")));
             assert!(lines[1].starts_with("\"gas, \"\"natural\"\"\",feed,mixer,vapour,"));
+            assert!(lines[2].starts_with("\"two\nlines\","), "{}", lines[2]);
             // Reformed gas: 45 mol/s CO = 162 kmol/h; its row has as many fields as the header.
             let reformed: Vec<&str> = lines[4].split(',').collect();
             assert_eq!(reformed.len(), header.len());
