@@ -1,5 +1,12 @@
 //! Feed streams: from the file's flows (per species, molar or mass) or total and mole fractions
-//! to a vapour [`Stream`] in SI.
+//! to a [`Stream`] in SI.
+//!
+//! Phase: a feed of pure water is liquid (boiler-feed water) strictly below its saturation
+//! temperature at the feed pressure on the IAPWS-IF97 saturation line, eq. (31), and steam at
+//! or above it (at exactly T_s(P), saturated steam). A gas mixture is vapour, and one whose
+//! water partial pressure lies above the saturation pressure of water at the feed temperature
+//! (IAPWS-IF97 eq. 30), i.e. below its dew point, would be partly condensed and is refused with
+//! what to do instead.
 //!
 //! A mass flow of a species is converted with its molar mass; a total mass flow with mole
 //! fractions is converted with the mean molar mass of the mixture, M = sum x_i M_i. Mole
@@ -9,8 +16,9 @@
 use super::values::{FlowRate, OrderedMap};
 use super::yaml::FeedModel;
 use crate::error::{Error, Result};
-use crate::quantity::Flow;
-use crate::thermo::{Phase, SpeciesDb};
+use crate::quantity::{kelvin_to_degc, Flow};
+use crate::thermo::{water, Phase, SpeciesDb};
+use crate::units::stream::water_phase;
 use crate::units::Stream;
 
 /// Tolerance on the sum of mole fractions.
@@ -47,10 +55,90 @@ pub fn convert(db: &SpeciesDb, name: &str, model: &FeedModel) -> Result<Feed> {
             "the feed has no flow at all; give at least one species a flow above zero",
         );
     }
+    let stream = Stream::vapour(flows, model.temperature.0, model.pressure.0);
     Ok(Feed {
         name: name.to_string(),
-        stream: Stream::vapour(flows, model.temperature.0, model.pressure.0),
+        stream: with_phase(db, &field, stream)?,
     })
+}
+
+/// How close below its saturation temperature a pure-water feed is taken as liquid with a
+/// warning, K: a temperature rounded down from T_s(P) meant as saturated steam would otherwise
+/// turn into boiler water without a word.
+pub const NEAR_SATURATION_K: f64 = 1.0;
+
+/// A warning for a liquid-water feed within [`NEAR_SATURATION_K`] below its saturation
+/// temperature (taken as liquid; saturated steam needs T >= T_s(P)).
+pub fn near_saturation_warning(db: &SpeciesDb, feed: &Feed) -> Option<String> {
+    let s = &feed.stream;
+    let w = db.index_of("H2O")?;
+    if s.phase != crate::units::StreamPhase::Liquid || !s.is_pure_water(w) {
+        return None;
+    }
+    let t_s = water::saturation_temperature_k(s.pressure_pa).ok()?;
+    (t_s - s.temperature_k < NEAR_SATURATION_K).then(|| {
+        format!(
+            "feed '{}': water at {:.2} degC is {:.3} K below its saturation temperature \
+             {:.2} degC at {:.4} bar and is taken as liquid; for saturated steam give a \
+             temperature of at least {:.2} degC",
+            feed.name,
+            kelvin_to_degc(s.temperature_k),
+            t_s - s.temperature_k,
+            kelvin_to_degc(t_s),
+            s.pressure_pa / 1e5,
+            (kelvin_to_degc(t_s) * 100.0).ceil() / 100.0
+        )
+    })
+}
+
+/// A pure-water feed takes its phase from the saturation line; a gas mixture below its water
+/// dew point is refused.
+fn with_phase(db: &SpeciesDb, field: &str, mut stream: Stream) -> Result<Stream> {
+    let Some(w) = db.index_of("H2O") else {
+        return Ok(stream);
+    };
+    let (t, p) = (stream.temperature_k, stream.pressure_pa);
+    if stream.is_pure_water(w) {
+        stream.phase = water_phase(t, p).map_err(|e| match e {
+            Error::InvalidValue { reason, .. } => Error::InvalidValue {
+                field: format!("{field}.temperature"),
+                value: format!("{:.2} degC at {:.4} bar", kelvin_to_degc(t), p / 1e5),
+                reason: format!("a feed of pure water: {reason}"),
+            },
+            other => other,
+        })?;
+        return Ok(stream);
+    }
+    let total = stream.total();
+    let p_water = stream.flows[w] / total * p;
+    if p_water <= 0.0 || t >= water::CRITICAL_TEMPERATURE_K {
+        return Ok(stream);
+    }
+    // Below 0 degC the bound is the saturation pressure at 273.15 K (over ice it is lower still,
+    // so the check is lenient there).
+    let p_sat = water::saturation_pressure_pa(t.max(water::SATURATION_MIN_TEMPERATURE_K))?;
+    if p_water > p_sat {
+        let dew = water::saturation_temperature_k(p_water.min(water::CRITICAL_PRESSURE_PA))
+            .map(|d| format!("{:.1} degC", kelvin_to_degc(d)))
+            .unwrap_or_else(|_| "above the critical temperature".to_string());
+        return invalid(
+            &format!("{field}.temperature"),
+            &format!("{:.2} degC", kelvin_to_degc(t)),
+            &format!(
+                "the feed is a gas mixture partly condensed at its own temperature and pressure \
+                 ({:.4} bar): its water partial pressure {:.4} bar is above the saturation \
+                 pressure of water {:.4} bar at {:.2} degC (its dew point is {dew}), so part of \
+                 its water would be liquid; give it at a temperature above its dew point, or, \
+                 to model the wet gas with its condensate, give it hotter and pass it through \
+                 a knockout at this temperature (the knockout condenses and separates the water)",
+                p / 1e5,
+                p_water / 1e5,
+                p_sat / 1e5,
+                kelvin_to_degc(t)
+            ),
+        );
+    }
+    Ok(stream)
 }
 
 /// Index of a gas species, or an error naming the field.
@@ -184,5 +272,66 @@ mod tests {
             e.contains("feeds.coke.flows.C(gr)") && e.contains("not a gas"),
             "{e}"
         );
+    }
+
+    fn water_feed(t: f64, p: f64, pairs: Vec<(&str, Flow)>) -> FeedModel {
+        let mut m = model(Some(pairs), None);
+        m.temperature = Temperature(t);
+        m.pressure = Pressure(p);
+        m
+    }
+
+    #[test]
+    fn pure_water_below_saturation_is_a_liquid_feed() {
+        use crate::units::StreamPhase;
+        let db = SpeciesDb::embedded().unwrap();
+        // IAPWS-IF97 eq. (31): T_s(3 MPa) = 507.008 K (PyPI iapws 1.5.5, IAPWS97(P=3, x=0).T).
+        let bfw = water_feed(423.15, 3.0e6, vec![("H2O", Flow::Molar(1.0))]);
+        let feed = convert(&db, "bfw", &bfw).unwrap();
+        assert_eq!(feed.stream.phase, StreamPhase::Liquid);
+        assert!(near_saturation_warning(&db, &feed).is_none());
+        let steam = water_feed(507.01, 3.0e6, vec![("H2O", Flow::Molar(1.0))]);
+        assert_eq!(
+            convert(&db, "s", &steam).unwrap().stream.phase,
+            StreamPhase::Vapour
+        );
+        let near = water_feed(506.5, 3.0e6, vec![("H2O", Flow::Molar(1.0))]);
+        let feed = convert(&db, "near", &near).unwrap();
+        assert_eq!(feed.stream.phase, StreamPhase::Liquid);
+        let w = near_saturation_warning(&db, &feed).unwrap();
+        assert!(
+            w.contains("feed 'near'") && w.contains("233.86 degC"),
+            "{w}"
+        );
+        // Water at 0 degC would freeze; compressed water above the critical pressure is not
+        // modelled: both refused, naming the feed's temperature.
+        let ice = water_feed(273.15, 3.0e6, vec![("H2O", Flow::Molar(1.0))]);
+        let e = convert(&db, "ice", &ice).unwrap_err().to_string();
+        assert!(
+            e.contains("feeds.ice.temperature") && e.contains("freeze"),
+            "{e}"
+        );
+        let deep = water_feed(500.0, 25.0e6, vec![("H2O", Flow::Molar(1.0))]);
+        assert!(convert(&db, "deep", &deep).is_err());
+    }
+
+    #[test]
+    fn a_gas_mixture_below_its_dew_point_is_refused() {
+        let db = SpeciesDb::embedded().unwrap();
+        let pairs = || vec![("H2", Flow::Molar(0.7)), ("H2O", Flow::Molar(0.3))];
+        // y_H2O P = 7.5 bar: dew point 440.9 K (IAPWS-IF97 eq. 31); p_s(393.15 K) = 1.99 bar
+        // (eq. 30), so at 120 degC part of the water is liquid.
+        let e = convert(&db, "wet", &water_feed(393.15, 25e5, pairs()))
+            .unwrap_err()
+            .to_string();
+        assert!(
+            e.contains("feeds.wet.temperature")
+                && e.contains("partly condensed")
+                && e.contains("knockout"),
+            "{e}"
+        );
+        // Above the dew point it is a vapour feed.
+        let ok = convert(&db, "wet", &water_feed(445.0, 25e5, pairs())).unwrap();
+        assert_eq!(ok.stream.phase, crate::units::StreamPhase::Vapour);
     }
 }

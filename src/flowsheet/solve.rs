@@ -16,8 +16,8 @@ use super::result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Sum
 use super::yaml::UnitType;
 use super::Flowsheet;
 use crate::error::{Error, Result};
-use crate::thermo::{mixture, SpeciesDb};
-use crate::units::Stream;
+use crate::thermo::{mixture, water, SpeciesDb};
+use crate::units::{Stream, StreamPhase};
 
 /// Largest relative element-balance error a solved flowsheet may have.
 pub const ELEMENT_BALANCE_TOLERANCE: f64 = 1e-9;
@@ -57,6 +57,11 @@ pub fn solve(fs: &Flowsheet, db: &SpeciesDb) -> Result<FlowsheetResult> {
             )
         })
         .collect();
+    warnings.extend(
+        fs.feeds
+            .iter()
+            .filter_map(|f| super::feeds::near_saturation_warning(db, f)),
+    );
     for unit in fs.units_in_order() {
         let result = {
             let mut inlets: Vec<&Stream> = Vec::with_capacity(unit.inlets.len());
@@ -85,6 +90,7 @@ pub fn solve(fs: &Flowsheet, db: &SpeciesDb) -> Result<FlowsheetResult> {
             });
         }
         for (name, stream) in unit.outlets.iter().zip(&result.outlets) {
+            check_phase(db, &unit.name, name, stream)?;
             slot.insert(name, streams.len());
             streams.push(SolvedStream {
                 name: name.clone(),
@@ -119,6 +125,49 @@ pub fn solve(fs: &Flowsheet, db: &SpeciesDb) -> Result<FlowsheetResult> {
         converged,
         element_balance_residual,
         energy_balance_residual,
+    })
+}
+
+/// A unit outlet must be what its phase says: vapour at or above its water dew point, liquid
+/// water at or below its saturation temperature (IAPWS-IF97 eqs. 30 and 31; 1e-9 relative on
+/// the pressures for rounding). Otherwise it would be two phases, which a stream does not carry:
+/// an error naming the stream and the unit, never a quiet label.
+fn check_phase(db: &SpeciesDb, unit: &str, name: &str, s: &Stream) -> Result<()> {
+    let Some(w) = db.index_of("H2O") else {
+        return Ok(());
+    };
+    let (t, p, total) = (s.temperature_k, s.pressure_pa, s.total());
+    if s.flows[w] <= 0.0 || total <= 0.0 || t >= water::CRITICAL_TEMPERATURE_K {
+        return Ok(());
+    }
+    let p_sat = water::saturation_pressure_pa(t.max(water::SATURATION_MIN_TEMPERATURE_K))?;
+    let wrong = match s.phase {
+        StreamPhase::Vapour => s.flows[w] / total * p > p_sat * (1.0 + 1e-9),
+        StreamPhase::Liquid => p < p_sat * (1.0 - 1e-9),
+    };
+    if !wrong {
+        return Ok(());
+    }
+    let what = match s.phase {
+        StreamPhase::Vapour => format!(
+            "is gas below its water dew point (water partial pressure {:.4} bar above the \
+             saturation pressure {:.4} bar): part of its water would condense; keep it above \
+             its dew point, or cool it in a knockout, which condenses and separates the water",
+            s.flows[w] / total * p / 1e5,
+            p_sat / 1e5
+        ),
+        StreamPhase::Liquid => format!(
+            "is liquid water above its saturation temperature at {:.4} bar: part of it would \
+             flash to steam; raise its pressure or heat it to steam in a heater",
+            p / 1e5
+        ),
+    };
+    Err(Error::Flowsheet {
+        reason: format!(
+            "stream '{name}' from unit '{unit}' at {:.2} degC and {:.4} bar {what}",
+            t - 273.15,
+            p / 1e5
+        ),
     })
 }
 
@@ -346,5 +395,32 @@ mod tests {
             .unwrap_err()
             .to_string();
         assert!(e.contains("energy balance does not close"), "{e}");
+    }
+
+    #[test]
+    fn a_unit_outlet_in_two_phases_is_refused() {
+        let db = SpeciesDb::embedded().unwrap();
+        let f = |pairs: &[(&str, f64)]| {
+            let mut v = vec![0.0; db.len()];
+            for (n, x) in pairs {
+                v[db.index_of(n).unwrap()] = *x;
+            }
+            v
+        };
+        // Gas with 30 % water at 25 bar: dew point 440.9 K (IAPWS-IF97 eq. 31).
+        let wet = f(&[("H2", 0.7), ("H2O", 0.3)]);
+        assert!(check_phase(&db, "u", "s", &Stream::vapour(wet.clone(), 445.0, 25e5)).is_ok());
+        let e = check_phase(&db, "u", "s", &Stream::vapour(wet, 430.0, 25e5))
+            .unwrap_err()
+            .to_string();
+        assert!(
+            e.contains("stream 's' from unit 'u'") && e.contains("dew point"),
+            "{e}"
+        );
+        // Liquid water above its saturation temperature (T_s(1 bar) = 372.76 K) would flash.
+        let water = f(&[("H2O", 1.0)]);
+        let liquid = |t: f64| Stream::liquid(water.clone(), t, 1e5);
+        assert!(check_phase(&db, "u", "s", &liquid(360.0)).is_ok());
+        assert!(check_phase(&db, "u", "s", &liquid(380.0)).is_err());
     }
 }

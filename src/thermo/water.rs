@@ -347,6 +347,71 @@ mod saturation_enthalpy {
     }
 }
 
+/// Triple-point temperature of water, K (IAPWS): the lowest temperature at which liquid water
+/// is handled (the latent-heat equations start there).
+pub const TRIPLE_POINT_TEMPERATURE_K: f64 = 273.16;
+
+/// True when pure water at `temperature_k` and `pressure_pa` is liquid, by the IAPWS-IF97
+/// saturation line: liquid strictly below the saturation temperature T_s(p) of eq. (31), steam
+/// at or above it (at exactly T_s(p) the water is taken as saturated steam).
+///
+/// Below the lowest pressure of the line (611.213 Pa) water is vapour. Above the critical
+/// pressure it is taken as vapour at or above the critical temperature (the ideal-gas model,
+/// as for superheated steam); below the critical temperature it would be compressed liquid
+/// beyond the saturation line, which is not modelled, and that is an error. Liquid water below
+/// the triple point (0.01 degC) would freeze: an error too.
+pub fn is_liquid(temperature_k: f64, pressure_pa: f64) -> Result<bool> {
+    if !(temperature_k.is_finite() && temperature_k > 0.0) {
+        return Err(Error::InvalidValue {
+            field: "temperature".to_string(),
+            value: format!("{temperature_k} K"),
+            reason: "give a positive absolute temperature".to_string(),
+        });
+    }
+    if !(pressure_pa.is_finite() && pressure_pa > 0.0) {
+        return Err(Error::InvalidValue {
+            field: "pressure".to_string(),
+            value: format!("{pressure_pa} Pa"),
+            reason: "give a positive absolute pressure".to_string(),
+        });
+    }
+    if pressure_pa < SATURATION_MIN_PRESSURE_PA {
+        return Ok(false);
+    }
+    if pressure_pa > CRITICAL_PRESSURE_PA {
+        if temperature_k >= CRITICAL_TEMPERATURE_K {
+            return Ok(false);
+        }
+        return Err(Error::InvalidValue {
+            field: "pressure".to_string(),
+            value: format!("{:.4} bar", pressure_pa / 1e5),
+            reason: format!(
+                "water at {:.2} degC above the critical pressure {:.2} bar is compressed liquid \
+                 beyond the saturation line, which the water model (IAPWS-IF97 saturation line \
+                 and latent heat) does not cover; give a pressure below the critical pressure \
+                 or a temperature above the critical temperature {:.3} degC",
+                temperature_k - 273.15,
+                CRITICAL_PRESSURE_PA / 1e5,
+                CRITICAL_TEMPERATURE_K - 273.15
+            ),
+        });
+    }
+    let saturation_k = saturation_temperature_k(pressure_pa)?;
+    if temperature_k >= saturation_k {
+        return Ok(false);
+    }
+    if temperature_k < TRIPLE_POINT_TEMPERATURE_K {
+        return Err(Error::InvalidValue {
+            field: "temperature".to_string(),
+            value: format!("{:.2} degC", temperature_k - 273.15),
+            reason: "liquid water below its triple point (0.01 degC) would freeze; give a \
+                     temperature of at least 0.01 degC"
+                .to_string(),
+        });
+    }
+    Ok(true)
+}
+
 pub use saturation_enthalpy::{
     latent_heat_j_per_kg, latent_heat_j_per_mol, saturated_liquid_enthalpy_j_per_kg,
     saturated_vapour_enthalpy_j_per_kg,
@@ -559,6 +624,32 @@ mod tests {
             message.starts_with("temperature: value 700 K is not allowed"),
             "{message}"
         );
+    }
+
+    #[test]
+    fn liquid_below_the_saturation_line_and_steam_at_or_above_it() {
+        // IAPWS-IF97 Table 36: T_s(1 MPa) = 453.035632 K.
+        assert!(is_liquid(453.0, 1.0e6).unwrap());
+        assert!(!is_liquid(453.04, 1.0e6).unwrap());
+        // At exactly T_s(p) water is saturated steam (the rule stated above).
+        let t_s = saturation_temperature_k(1.0e6).unwrap();
+        assert!(!is_liquid(t_s, 1.0e6).unwrap());
+        assert!(is_liquid(t_s - 1e-9, 1.0e6).unwrap());
+        // PyPI iapws 1.5.5: IAPWS97(T=423.15, P=3).phase is "Liquid" (region 1) and
+        // IAPWS97(T=673.15, P=3).region is 2 (steam).
+        assert!(is_liquid(423.15, 3.0e6).unwrap());
+        assert!(!is_liquid(673.15, 3.0e6).unwrap());
+        // Below the triple-point pressure there is no liquid.
+        assert!(!is_liquid(280.0, 500.0).unwrap());
+        // Above the critical point: vapour (ideal gas) above T_c, an error below it.
+        assert!(!is_liquid(700.0, 25.0e6).unwrap());
+        let e = is_liquid(500.0, 25.0e6).unwrap_err().to_string();
+        assert!(e.contains("critical pressure"), "{e}");
+        // Liquid below the triple point would freeze.
+        let e = is_liquid(273.15, 1.0e5).unwrap_err().to_string();
+        assert!(e.contains("freeze"), "{e}");
+        assert!(is_liquid(f64::NAN, 1.0e5).is_err());
+        assert!(is_liquid(300.0, -1.0).is_err());
     }
 
     #[test]

@@ -137,8 +137,9 @@ pub(crate) fn require_vapour(db: &SpeciesDb, unit: &str, inlets: &[&Stream]) -> 
             return Err(spec_error(
                 unit,
                 &format!("inlet {}", k + 1),
-                "is liquid (condensate); this unit takes vapour only: vaporise the water in a \
-                 heater-boiler outside the model or feed it as steam",
+                "is liquid water; this unit takes vapour only: raise it to steam in a heater \
+                 (to a temperature above its saturation temperature) or mix it into hot gas in \
+                 a mixer first",
             ));
         }
         if let Some((i, _)) = s

@@ -1,17 +1,27 @@
-//! Mixer: adiabatic mixing of any number of vapour inlets.
+//! Mixer: adiabatic mixing of any number of inlets, gas or liquid water.
 //!
-//! Energy balance H_out(T) = sum H_in, solved by Newton's method on T with dH/dT = sum n_i Cp_i
-//! (ideal-gas mixture, NASA polynomials). The outlet leaves at the lowest inlet pressure less an
-//! optional pressure drop. Liquid inlets are refused: mixing condensate into gas would need the
-//! water's vaporisation in the same balance, which this unit does not do.
+//! Energy balance H_out = sum H_in, liquid inlets with their latent heat (their enthalpy is the
+//! ideal-gas value less the latent heat, IAPWS SR1-86(1992)), so liquid water mixed into hot gas
+//! takes its heat of vaporisation from the gas. The outlet leaves at the lowest inlet pressure
+//! less an optional pressure drop.
+//!
+//! - A gas outlet (any species besides water): all vapour, its temperature from H(T) = sum H_in
+//!   by Newton's method with dH/dT = sum n_i Cp_i (ideal-gas mixture, NASA polynomials). If that
+//!   temperature lies below the water dew point of the outlet (IAPWS-IF97 saturation line), part
+//!   of the water would stay liquid: an error saying so (two phases are not carried in one
+//!   stream; send more or hotter gas, or less or hotter water).
+//! - A pure-water outlet: liquid, wet steam or steam by its enthalpy against saturated liquid
+//!   and saturated steam at the outlet pressure (see [`super::stream::water_at_enthalpy`]); wet
+//!   steam is an error naming its vapour fraction.
 
 use super::common::{
     check_inlets, check_pressure_drop, degc, dew_point_k, enthalpy_sum, figure, outlet_pressure,
-    require_vapour, temperature_at_enthalpy, Key,
+    spec_error, temperature_at_enthalpy, Key,
 };
-use super::{FigureKind, Stream, UnitResult};
+use super::stream::{check_phases, water_at_enthalpy, WaterState};
+use super::{FigureKind, Stream, StreamPhase, UnitResult};
 use crate::error::{Result, ResultExt};
-use crate::thermo::SpeciesDb;
+use crate::thermo::{mixture, SpeciesDb};
 
 /// Specification of a mixer.
 #[derive(Debug, Clone, Default, PartialEq)]
@@ -48,7 +58,8 @@ impl Mixer {
     pub fn solve(&self, db: &SpeciesDb, inlets: &[&Stream]) -> Result<UnitResult> {
         let name = &self.name;
         check_inlets(db, name, "mixer", inlets, 1, None)?;
-        require_vapour(db, name, inlets)?;
+        let w = self.key.h2o;
+        check_phases(db, name, w, inlets)?;
         let mut flows = vec![0.0; db.len()];
         let mut p_min = f64::INFINITY;
         let (mut nt, mut n_total) = (0.0, 0.0);
@@ -68,10 +79,66 @@ impl Mixer {
         } else {
             inlets[0].temperature_k
         };
-        let t = temperature_at_enthalpy(db, name, &flows, h_in, start)?;
-        let outlet = Stream::vapour(flows, t, pressure);
+        let liquid_in: f64 = inlets
+            .iter()
+            .filter(|s| s.phase == StreamPhase::Liquid)
+            .map(|s| s.flows[w])
+            .sum();
+        let probe = Stream::vapour(flows, start, pressure);
+        let outlet = if probe.is_pure_water(w) {
+            match water_at_enthalpy(db, name, w, &probe.flows, h_in, pressure, start)? {
+                WaterState::Liquid(t) => Stream::liquid(probe.flows, t, pressure),
+                WaterState::Vapour(t) => Stream::vapour(probe.flows, t, pressure),
+                WaterState::Wet {
+                    temperature_k,
+                    vapour_fraction,
+                    ..
+                } => {
+                    return Err(spec_error(
+                        name,
+                        "energy balance",
+                        format!(
+                            "the mixed water would be wet steam at its saturation temperature \
+                             {} and {:.4} bar, {:.1} % vapour by mole; a stream here is either \
+                             liquid or vapour: change the inlet temperatures so that the mix is \
+                             all liquid or all steam",
+                            degc(temperature_k),
+                            pressure / 1e5,
+                            100.0 * vapour_fraction
+                        ),
+                    ));
+                }
+            }
+        } else {
+            // Below the dew point the all-vapour enthalpy is above what the inlets bring.
+            if let Some(dew) = dew_point_k(&self.key, &probe.flows, pressure) {
+                let h_dew = mixture::enthalpy(db, &probe.flows, dew)?;
+                if h_in < h_dew {
+                    let what = if liquid_in > 0.0 {
+                        "the gas cannot vaporise all the liquid water fed to it"
+                    } else {
+                        "part of its water would condense"
+                    };
+                    return Err(spec_error(
+                        name,
+                        "energy balance",
+                        format!(
+                            "the mix would end below its water dew point {} at {:.4} bar \
+                             ({:.3} kW short of an all-vapour mix at the dew point): {what}, \
+                             and a stream here is either liquid or vapour; send more or hotter \
+                             gas, or less or hotter water (steam), so that the mix stays above \
+                             its dew point",
+                            degc(dew),
+                            pressure / 1e5,
+                            (h_dew - h_in) / 1e3
+                        ),
+                    ));
+                }
+            }
+            let t = temperature_at_enthalpy(db, name, &probe.flows, h_in, start)?;
+            Stream::vapour(probe.flows, t, pressure)
+        };
         let mut figures = Vec::new();
-        let mut warnings = Vec::new();
         if let Some(sc) = self.key.steam_to_carbon(&outlet.flows) {
             if outlet.flows[self.key.h2o] > 0.0 {
                 figures.push(figure(
@@ -89,14 +156,14 @@ impl Mixer {
                 dew,
                 FigureKind::Temperature,
             ));
-            if t < dew {
-                warnings.push(format!(
-                    "unit '{name}': the mixed gas at {} is below its water dew point {}; water \
-                     would condense (the mixer treats the outlet as all vapour)",
-                    degc(t),
-                    degc(dew)
-                ));
-            }
+        }
+        if liquid_in > 0.0 && outlet.phase == StreamPhase::Vapour {
+            figures.push(figure(
+                "vaporised-water",
+                "liquid water vaporised",
+                liquid_in,
+                FigureKind::MolarFlow,
+            ));
         }
         Ok(UnitResult {
             outlets: vec![outlet],
@@ -104,7 +171,7 @@ impl Mixer {
             approaches: Vec::new(),
             figures,
             equilibrium: None,
-            warnings,
+            warnings: Vec::new(),
         })
     }
 }
@@ -136,14 +203,83 @@ mod tests {
     }
 
     #[test]
-    fn liquid_inlets_and_no_inlets_are_refused() {
+    fn liquid_water_takes_its_latent_heat_from_the_gas() {
         let db = db();
         let m = Mixer::new(&db, "mix", &MixerSpec::default()).unwrap();
-        let mut water = gas(&db, &[("H2O", 1.0)], 300.0, 2e5);
+        let w = db.index_of("H2O").unwrap();
+        let hot = gas(&db, &[("N2", 10.0)], 1073.15, 30e5);
+        let mut water = gas(&db, &[("H2O", 1.0)], 423.15, 30e5);
         water.phase = StreamPhase::Liquid;
+        let r = m.solve(&db, &[&hot, &water]).unwrap();
+        assert_balances(&db, &[&hot, &water], &r);
+        let out = &r.outlets[0];
+        assert_eq!(out.phase, StreamPhase::Vapour);
+        assert!((fig(&r, "vaporised-water") - 1.0).abs() < 1e-15);
+        // The same water as steam (the old treatment) leaves the mix hotter by exactly the
+        // latent heat at 423.15 K: IAPWS SR1-86 via PyPI iapws 1.5.5, 2113.900 kJ/kg
+        // x 18.015268 g/mol = 38.0826 kJ/mol.
+        let steam = gas(&db, &[("H2O", 1.0)], 423.15, 30e5);
+        let r2 = m.solve(&db, &[&hot, &steam]).unwrap();
+        let h = |s: &Stream| s.enthalpy_w(&db).unwrap();
+        let latent = h(&r2.outlets[0]) - h(out);
+        assert!((latent - 38_082.6).abs() < 1.0, "{latent}");
+        assert!(r2.outlets[0].temperature_k > out.temperature_k + 50.0);
+        assert!(out.flows[w] == 1.0);
+    }
+
+    #[test]
+    fn pure_water_mixes_to_liquid_steam_or_an_error() {
+        let db = db();
+        let m = Mixer::new(&db, "mix", &MixerSpec::default()).unwrap();
+        let liquid = |n: f64, t: f64| {
+            let mut s = gas(&db, &[("H2O", n)], t, 30e5);
+            s.phase = StreamPhase::Liquid;
+            s
+        };
+        // Two liquids: liquid at an enthalpy-weighted temperature (near the mean).
+        let (a, b) = (liquid(1.0, 303.15), liquid(1.0, 423.15));
+        let r = m.solve(&db, &[&a, &b]).unwrap();
+        assert_balances(&db, &[&a, &b], &r);
+        assert_eq!(r.outlets[0].phase, StreamPhase::Liquid);
+        let t = r.outlets[0].temperature_k;
+        assert!((t - 363.15).abs() < 5.0, "{t}");
+        // Superheated steam with a little spray water: steam (a desuperheater).
+        let steam = gas(&db, &[("H2O", 10.0)], 723.15, 30e5);
+        let spray = liquid(1.0, 423.15);
+        let r = m.solve(&db, &[&steam, &spray]).unwrap();
+        assert_balances(&db, &[&steam, &spray], &r);
+        assert_eq!(r.outlets[0].phase, StreamPhase::Vapour);
+        // T_s(3 MPa) = 507.008 K (IAPWS-IF97 eq. 31, PyPI iapws 1.5.5).
+        assert!(r.outlets[0].temperature_k > 507.0);
+        // Equal amounts of steam at 240 degC and water at 150 degC: wet steam, an error.
+        let steam = gas(&db, &[("H2O", 1.0)], 513.15, 30e5);
+        let e = m.solve(&db, &[&steam, &spray]).unwrap_err().to_string();
+        assert!(e.contains("unit 'mix'") && e.contains("wet steam"), "{e}");
+    }
+
+    #[test]
+    fn a_mix_below_its_dew_point_is_an_error() {
+        let db = db();
+        let m = Mixer::new(&db, "mix", &MixerSpec::default()).unwrap();
+        // Gas at 60 degC with steam that saturates it: all vapour, below the dew point.
+        let cold = gas(&db, &[("H2", 1.0)], 333.15, 20e5);
+        let steam = gas(&db, &[("H2O", 1.0)], 500.0, 20e5);
+        let e = m.solve(&db, &[&cold, &steam]).unwrap_err().to_string();
+        assert!(
+            e.contains("unit 'mix'") && e.contains("below its water dew point"),
+            "{e}"
+        );
+    }
+
+    #[test]
+    fn odd_inlets_and_no_inlets_are_refused() {
+        let db = db();
+        let m = Mixer::new(&db, "mix", &MixerSpec::default()).unwrap();
+        let mut wet = gas(&db, &[("H2O", 1.0), ("H2", 0.1)], 300.0, 2e5);
+        wet.phase = StreamPhase::Liquid;
         let gas = gas(&db, &[("H2", 1.0)], 500.0, 2e5);
-        let e = m.solve(&db, &[&gas, &water]).unwrap_err().to_string();
-        assert!(e.contains("unit 'mix'") && e.contains("liquid"), "{e}");
+        let e = m.solve(&db, &[&gas, &wet]).unwrap_err().to_string();
+        assert!(e.contains("inlet 2") && e.contains("water only"), "{e}");
         let e = m.solve(&db, &[]).unwrap_err().to_string();
         assert!(e.contains("unit 'mix'") && e.contains("at least 1"), "{e}");
         let bad = MixerSpec {

@@ -1,17 +1,27 @@
-//! Heater and cooler: a vapour stream brought to an outlet temperature, or given a duty, with an
+//! Heater and cooler: a stream brought to an outlet temperature, or given a duty, with an
 //! optional pressure drop. For a given duty the outlet temperature solves H(T) = H_in + duty by
 //! Newton's method with dH/dT = sum n_i Cp_i (ideal gas, NASA polynomials).
 //!
-//! A cooler does not condense: when its outlet lies below the water dew point it warns and the
-//! outlet stays all vapour (use a knockout to condense the water).
+//! Pure water (water the only species) changes phase on the IAPWS-IF97 saturation line at the
+//! outlet pressure, and the duty includes the latent heat (IAPWS SR1-86(1992)):
+//! - outlet temperature given: the outlet is liquid strictly below T_s(P_out), steam at or above
+//!   it (boiler-feed water heated to 400 degC leaves as superheated steam; steam cooled below
+//!   T_s leaves as condensate; steam cooled to exactly T_s stays saturated steam);
+//! - duty given: the outlet state follows from the enthalpy, and a duty that would leave wet
+//!   steam (part boiled or part condensed) is an error naming the duties of saturated liquid and
+//!   saturated steam.
+//!
+//! A gas mixture is not condensed here: an outlet below its water dew point is an error that
+//! points to a knockout, which condenses the water and separates it.
 
 use super::common::{
     check_inlets, check_pressure_drop, check_temperature, degc, dew_point_k, figure,
-    outlet_pressure, require_vapour, spec_error, temperature_at_enthalpy, Key,
+    outlet_pressure, spec_error, temperature_at_enthalpy, Key,
 };
-use super::{FigureKind, Stream, UnitResult};
-use crate::error::{Result, ResultExt};
-use crate::thermo::{mixture, SpeciesDb};
+use super::stream::{check_phases, water_at_enthalpy, water_phase, WaterState};
+use super::{FigureKind, Stream, StreamPhase, UnitResult};
+use crate::error::{Error, Result, ResultExt};
+use crate::thermo::{mixture, water, SpeciesDb};
 
 /// What a heater or cooler is asked for.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -119,17 +129,43 @@ impl Thermal {
         self.kind
     }
 
+    /// The error for a gas mixture taken below its dew point (at `t_out` when known).
+    fn below_dew_point(&self, field: &str, t_out: Option<f64>, dew: f64, p: f64) -> Error {
+        let at = t_out.map_or(String::new(), |t| format!(" at {}", degc(t)));
+        let drum = t_out.map_or(String::new(), |t| {
+            format!(
+                ", `temperature: {:.1} degC`",
+                crate::quantity::kelvin_to_degc(t)
+            )
+        });
+        spec_error(
+            &self.name,
+            field,
+            format!(
+                "the outlet{at} would be below its water dew point {} at {:.4} bar: part of the \
+                 water would condense, and a {} does not separate condensate; use a knockout \
+                 instead (it cools to its drum temperature{drum} and condenses and separates \
+                 the water), or keep this outlet above the dew point",
+                degc(dew),
+                p / 1e5,
+                self.kind.name()
+            ),
+        )
+    }
+
     /// Heat or cool the inlet.
     pub fn solve(&self, db: &SpeciesDb, inlets: &[&Stream]) -> Result<UnitResult> {
         let name = &self.name;
         check_inlets(db, name, self.kind.name(), inlets, 1, Some(1))?;
-        require_vapour(db, name, inlets)?;
+        let w = self.key.h2o;
+        check_phases(db, name, w, inlets)?;
         let inlet = inlets[0];
         let p = outlet_pressure(name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
         let h_in = inlet
             .enthalpy_w(db)
             .context(|| format!("unit '{name}', inlet enthalpy"))?;
-        let (t_out, duty) = match self.spec.target {
+        let pure_water = inlet.is_pure_water(w);
+        let outlet = match self.spec.target {
             ThermalTarget::OutletTemperature(t) => {
                 let t_in = inlet.temperature_k;
                 let wrong = match self.kind {
@@ -154,40 +190,129 @@ impl Thermal {
                     ));
                 }
                 check_temperature(db, name, "outlet-temperature", &inlet.flows, t)?;
-                let h_out = mixture::enthalpy(db, &inlet.flows, t)?;
-                (t, h_out - h_in)
+                let phase = if pure_water {
+                    water_phase(t, p).map_err(|e| {
+                        spec_error(name, "outlet-temperature", format!("outlet water: {e}"))
+                    })?
+                } else if inlet.total() > 0.0 {
+                    StreamPhase::Vapour
+                } else {
+                    inlet.phase
+                };
+                Stream {
+                    flows: inlet.flows.clone(),
+                    temperature_k: t,
+                    pressure_pa: p,
+                    phase,
+                }
             }
             ThermalTarget::Duty(q) => {
-                let t =
-                    temperature_at_enthalpy(db, name, &inlet.flows, h_in + q, inlet.temperature_k)?;
-                (t, q)
+                let target = h_in + q;
+                if pure_water {
+                    let state = water_at_enthalpy(
+                        db,
+                        name,
+                        w,
+                        &inlet.flows,
+                        target,
+                        p,
+                        inlet.temperature_k,
+                    )?;
+                    match state {
+                        WaterState::Liquid(t) => Stream::liquid(inlet.flows.clone(), t, p),
+                        WaterState::Vapour(t) => Stream::vapour(inlet.flows.clone(), t, p),
+                        WaterState::Wet {
+                            temperature_k,
+                            vapour_fraction,
+                            saturated_liquid_w,
+                            saturated_vapour_w,
+                        } => {
+                            return Err(spec_error(
+                                name,
+                                "duty",
+                                format!(
+                                    "{:.3} kW would leave the water as wet steam at its \
+                                     saturation temperature {} and {:.4} bar, {:.1} % vapour by \
+                                     mole; a stream here is either liquid or vapour: give a duty \
+                                     of at most {:.3} kW (saturated liquid) or at least {:.3} kW \
+                                     (saturated steam), or an outlet temperature",
+                                    q / 1e3,
+                                    degc(temperature_k),
+                                    p / 1e5,
+                                    100.0 * vapour_fraction,
+                                    (saturated_liquid_w - h_in) / 1e3,
+                                    (saturated_vapour_w - h_in) / 1e3
+                                ),
+                            ));
+                        }
+                    }
+                } else {
+                    if let Some(dew) = dew_point_k(&self.key, &inlet.flows, p) {
+                        let h_dew = mixture::enthalpy(db, &inlet.flows, dew)?;
+                        if target < h_dew {
+                            return Err(self.below_dew_point("duty", None, dew, p));
+                        }
+                    }
+                    let t = temperature_at_enthalpy(
+                        db,
+                        name,
+                        &inlet.flows,
+                        target,
+                        inlet.temperature_k,
+                    )?;
+                    let phase = if inlet.total() > 0.0 {
+                        StreamPhase::Vapour
+                    } else {
+                        inlet.phase
+                    };
+                    Stream {
+                        flows: inlet.flows.clone(),
+                        temperature_k: t,
+                        pressure_pa: p,
+                        phase,
+                    }
+                }
             }
         };
-        let outlet = Stream::vapour(inlet.flows.clone(), t_out, p);
+        let t_out = outlet.temperature_k;
+        let duty = match self.spec.target {
+            ThermalTarget::OutletTemperature(_) => outlet.enthalpy_w(db)? - h_in,
+            ThermalTarget::Duty(q) => q,
+        };
         let mut figures = vec![figure(
             "temperature-change",
             "temperature change",
             t_out - inlet.temperature_k,
             FigureKind::TemperatureDifference,
         )];
-        let mut warnings = Vec::new();
-        if let Some(dew) = dew_point_k(&self.key, &outlet.flows, p) {
+        if pure_water && outlet.phase != inlet.phase {
+            let (key, label) = match outlet.phase {
+                StreamPhase::Vapour => ("vaporised-water", "liquid water vaporised"),
+                StreamPhase::Liquid => ("condensed-water", "steam condensed"),
+            };
+            figures.push(figure(key, label, inlet.flows[w], FigureKind::MolarFlow));
+        }
+        if outlet.phase == StreamPhase::Liquid && pure_water {
+            if let Ok(t_s) = water::saturation_temperature_k(p) {
+                figures.push(figure(
+                    "outlet-subcooling",
+                    "outlet temperature below the saturation temperature",
+                    t_s - t_out,
+                    FigureKind::TemperatureDifference,
+                ));
+            }
+        } else if let Some(dew) = dew_point_k(&self.key, &outlet.flows, p) {
             figures.push(figure(
                 "outlet-dew-point-margin",
                 "outlet above water dew point",
                 t_out - dew,
                 FigureKind::TemperatureDifference,
             ));
-            if t_out < dew {
-                warnings.push(format!(
-                    "unit '{name}': outlet {} is below the water dew point {}; the {} does not \
-                     condense water: use a knockout",
-                    degc(t_out),
-                    degc(dew),
-                    self.kind.name()
-                ));
+            if !pure_water && t_out < dew {
+                return Err(self.below_dew_point("outlet-temperature", Some(t_out), dew, p));
             }
         }
+        let warnings = Vec::new();
         Ok(UnitResult {
             outlets: vec![outlet],
             duty_w: duty,
@@ -202,7 +327,7 @@ impl Thermal {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::units::test_support::{assert_balances, db, gas};
+    use crate::units::test_support::{assert_balances, db, fig, gas};
 
     fn unit(db: &SpeciesDb, kind: ThermalKind, target: ThermalTarget) -> Thermal {
         let spec = ThermalSpec {
@@ -238,7 +363,7 @@ mod tests {
     }
 
     #[test]
-    fn cooler_below_the_dew_point_warns() {
+    fn cooler_below_the_dew_point_of_a_gas_is_an_error() {
         let db = db();
         let s = gas(&db, &[("H2", 3.0), ("H2O", 1.0)], 700.0, 25e5);
         let c = unit(
@@ -246,10 +371,102 @@ mod tests {
             ThermalKind::Cooler,
             ThermalTarget::OutletTemperature(320.0),
         );
-        let r = c.solve(&db, &[&s]).unwrap();
-        assert_balances(&db, &[&s], &r);
-        assert!(r.duty_w < 0.0);
-        assert!(r.warnings[0].contains("use a knockout"), "{:?}", r.warnings);
+        let e = c.solve(&db, &[&s]).unwrap_err().to_string();
+        assert!(
+            e.contains("unit 'hx'") && e.contains("dew point") && e.contains("use a knockout"),
+            "{e}"
+        );
+        // The same by duty: refused before the temperature search.
+        let c = unit(&db, ThermalKind::Cooler, ThermalTarget::Duty(-60_000.0));
+        let e = c.solve(&db, &[&s]).unwrap_err().to_string();
+        assert!(e.contains("use a knockout"), "{e}");
+    }
+
+    fn water(db: &SpeciesDb, phase: StreamPhase, t: f64) -> Stream {
+        let mut s = gas(db, &[("H2O", 1.0)], t, 30e5);
+        s.phase = phase;
+        s
+    }
+
+    #[test]
+    fn boiler_feed_water_to_steam_includes_the_latent_heat() {
+        // IAPWS-IF97 (PyPI iapws 1.5.5): h(673.15 K, 3 MPa) - h(423.15 K, 3 MPa)
+        // = 2597.758 kJ/kg; with 0.5 bar drop the outlet is at 2.95 MPa (a 0.3 kJ/kg change).
+        let db = db();
+        let bfw = water(&db, StreamPhase::Liquid, 423.15);
+        let h = unit(
+            &db,
+            ThermalKind::Heater,
+            ThermalTarget::OutletTemperature(673.15),
+        );
+        let r = h.solve(&db, &[&bfw]).unwrap();
+        assert_balances(&db, &[&bfw], &r);
+        assert_eq!(r.outlets[0].phase, StreamPhase::Vapour);
+        let per_kg = r.duty_w / 18.015_268;
+        assert!((per_kg / 2_597.758 - 1.0).abs() < 0.01, "{per_kg} kJ/kg");
+        // By duty back to the same outlet temperature.
+        let q = unit(&db, ThermalKind::Heater, ThermalTarget::Duty(r.duty_w));
+        let r2 = q.solve(&db, &[&bfw]).unwrap();
+        assert_eq!(r2.outlets[0].phase, StreamPhase::Vapour);
+        assert!((r2.outlets[0].temperature_k - 673.15).abs() < 1e-8);
+        // A heater that stays below T_s(2.95 MPa) = 505.6 K keeps the water liquid.
+        let h = unit(
+            &db,
+            ThermalKind::Heater,
+            ThermalTarget::OutletTemperature(473.15),
+        );
+        let r = h.solve(&db, &[&bfw]).unwrap();
+        assert_balances(&db, &[&bfw], &r);
+        assert_eq!(r.outlets[0].phase, StreamPhase::Liquid);
+        assert!(fig(&r, "outlet-subcooling") > 30.0);
+    }
+
+    #[test]
+    fn steam_cooled_below_saturation_condenses() {
+        let db = db();
+        let steam = water(&db, StreamPhase::Vapour, 600.0);
+        let c = unit(
+            &db,
+            ThermalKind::Cooler,
+            ThermalTarget::OutletTemperature(400.0),
+        );
+        let r = c.solve(&db, &[&steam]).unwrap();
+        assert_balances(&db, &[&steam], &r);
+        assert_eq!(r.outlets[0].phase, StreamPhase::Liquid);
+        assert!((fig(&r, "condensed-water") - 1.0).abs() < 1e-15);
+        // Heat removed: ideal-gas cooling plus the latent heat at 400 K (IAPWS SR1-86).
+        let sp = db.get("H2O").unwrap();
+        let expected = sp.enthalpy(400.0).unwrap()
+            - sp.enthalpy(600.0).unwrap()
+            - water::latent_heat_j_per_mol(400.0).unwrap();
+        assert!((r.duty_w - expected).abs() < 1e-9 * expected.abs());
+        // To exactly T_s(2.95 MPa) it stays saturated steam (the stated rule).
+        let t_s = water::saturation_temperature_k(29.5e5).unwrap();
+        let c = unit(
+            &db,
+            ThermalKind::Cooler,
+            ThermalTarget::OutletTemperature(t_s),
+        );
+        assert_eq!(
+            c.solve(&db, &[&steam]).unwrap().outlets[0].phase,
+            StreamPhase::Vapour
+        );
+    }
+
+    #[test]
+    fn a_duty_that_leaves_wet_steam_is_an_error() {
+        let db = db();
+        let bfw = water(&db, StreamPhase::Liquid, 423.15);
+        let h = unit(&db, ThermalKind::Heater, ThermalTarget::Duty(20_000.0));
+        let e = h.solve(&db, &[&bfw]).unwrap_err().to_string();
+        assert!(
+            e.contains("unit 'hx'") && e.contains("wet steam") && e.contains("saturated steam"),
+            "{e}"
+        );
+        // Liquid water with a gas in it is not a liquid stream.
+        let mut odd = gas(&db, &[("H2O", 1.0), ("N2", 0.1)], 400.0, 30e5);
+        odd.phase = StreamPhase::Liquid;
+        assert!(h.solve(&db, &[&odd]).is_err());
     }
 
     #[test]

@@ -51,11 +51,12 @@ fn train() -> Vec<(&'static str, UnitSpec)> {
                 catalyst: Some(ShiftCatalyst::LowTemperatureCopper),
             }),
         ),
-        ("final-cooler", UnitSpec::Cooler(thermal(313.15))),
+        // A cooler stays above the dew point; the knockout cools on to 40 degC and condenses.
+        ("final-cooler", UnitSpec::Cooler(thermal(443.15))),
         (
             "knockout",
             UnitSpec::Knockout(KnockoutSpec {
-                temperature_k: None,
+                temperature_k: Some(313.15),
                 pressure_drop_pa: 0.1e5,
             }),
         ),
