@@ -16,6 +16,7 @@
 // and the numerical kernels index several parallel arrays by the same loop variable.
 #![allow(clippy::neg_cmp_op_on_partial_ord, clippy::needless_range_loop)]
 
+pub mod diagnostics;
 pub mod equilibrium;
 pub mod error;
 pub mod flowsheet;

@@ -19,7 +19,7 @@ use crate::error::{Error, Result};
 use crate::quantity::{kelvin_to_degc, Flow};
 use crate::thermo::{water, Phase, SpeciesDb};
 use crate::units::stream::water_phase;
-use crate::units::Stream;
+use crate::units::{FigureKind, Stream, Warning};
 
 /// Tolerance on the sum of mole fractions.
 pub const MOLE_FRACTION_SUM_TOLERANCE: f64 = 1e-6;
@@ -69,7 +69,7 @@ pub const NEAR_SATURATION_K: f64 = 1.0;
 
 /// A warning for a liquid-water feed within [`NEAR_SATURATION_K`] below its saturation
 /// temperature (taken as liquid; saturated steam needs T >= T_s(P)).
-pub fn near_saturation_warning(db: &SpeciesDb, feed: &Feed) -> Option<String> {
+pub fn near_saturation_warning(db: &SpeciesDb, feed: &Feed) -> Option<Warning> {
     let s = &feed.stream;
     let w = db.index_of("H2O")?;
     if s.phase != crate::units::StreamPhase::Liquid || !s.is_pure_water(w) {
@@ -77,17 +77,15 @@ pub fn near_saturation_warning(db: &SpeciesDb, feed: &Feed) -> Option<String> {
     }
     let t_s = water::saturation_temperature_k(s.pressure_pa).ok()?;
     (t_s - s.temperature_k < NEAR_SATURATION_K).then(|| {
-        format!(
-            "feed '{}': water at {:.2} degC is {:.3} K below its saturation temperature \
-             {:.2} degC at {:.4} bar and is taken as liquid; for saturated steam give a \
-             temperature of at least {:.2} degC",
-            feed.name,
-            kelvin_to_degc(s.temperature_k),
-            t_s - s.temperature_k,
-            kelvin_to_degc(t_s),
-            s.pressure_pa / 1e5,
-            (kelvin_to_degc(t_s) * 100.0).ceil() / 100.0
+        Warning::new(
+            "feed-near-saturation",
+            "feed {subject}: water at {value} is just below its saturation temperature {limit} \
+             and is taken as liquid; for saturated steam give a temperature at or above the \
+             saturation temperature",
         )
+        .value(s.temperature_k, FigureKind::Temperature)
+        .limit(t_s)
+        .subject(feed.name.as_str())
     })
 }
 
@@ -299,9 +297,12 @@ mod tests {
         let feed = convert(&db, "near", &near).unwrap();
         assert_eq!(feed.stream.phase, StreamPhase::Liquid);
         let w = near_saturation_warning(&db, &feed).unwrap();
+        assert_eq!(w.code, "feed-near-saturation");
+        assert!((w.limit.unwrap() - 507.008).abs() < 1e-3, "{w:?}");
+        let text = w.to_string();
         assert!(
-            w.contains("feed 'near'") && w.contains("233.86 degC"),
-            "{w}"
+            text.contains("feed near") && text.contains("233.9 degC"),
+            "{text}"
         );
         // Water at 0 degC would freeze; compressed water above the critical pressure is not
         // modelled: both refused, naming the feed's temperature.

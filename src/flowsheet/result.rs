@@ -68,8 +68,8 @@ pub struct FlowsheetResult {
     pub units: Vec<SolvedUnit>,
     /// Plant summary.
     pub summary: Summary,
-    /// Warnings of all units (each names its unit) and of the flowsheet.
-    pub warnings: Vec<String>,
+    /// Warnings of all units (each names its unit) and of the flowsheet, as data.
+    pub warnings: Vec<crate::diagnostics::Warning>,
     /// True when every unit converged.
     pub converged: bool,
     /// Largest relative element-balance error, products vs feeds (per element, relative to

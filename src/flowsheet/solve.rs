@@ -17,7 +17,7 @@ use super::yaml::UnitType;
 use super::Flowsheet;
 use crate::error::{Error, Result};
 use crate::thermo::{mixture, water, SpeciesDb};
-use crate::units::{Stream, StreamPhase};
+use crate::units::{Stream, StreamPhase, Warning};
 
 /// Largest relative element-balance error a solved flowsheet may have.
 pub const ELEMENT_BALANCE_TOLERANCE: f64 = 1e-9;
@@ -47,14 +47,15 @@ pub fn solve(fs: &Flowsheet, db: &SpeciesDb) -> Result<FlowsheetResult> {
     }
 
     let mut units: Vec<SolvedUnit> = Vec::with_capacity(fs.units.len());
-    let mut warnings: Vec<String> = streams
+    let mut warnings: Vec<Warning> = streams
         .iter()
         .filter(|s| s.destination.is_none())
         .map(|s| {
-            format!(
-                "feed '{}' goes to no unit; it is listed as a product as it is",
-                s.name
+            Warning::new(
+                "feed-unused",
+                "feed {subject} goes to no unit; it is listed as a product as it is",
             )
+            .subject(s.name.as_str())
         })
         .collect();
     warnings.extend(
@@ -99,7 +100,7 @@ pub fn solve(fs: &Flowsheet, db: &SpeciesDb) -> Result<FlowsheetResult> {
                 destination: dest(name),
             });
         }
-        // Unit warnings already name their unit ("unit 'hts': ...").
+        // Unit warnings already name their unit.
         warnings.extend(result.warnings.iter().cloned());
         units.push(SolvedUnit {
             name: unit.name.clone(),

@@ -4,7 +4,9 @@
 //! - `streams.<name>`: `temperature_K`, `pressure_bar` (absolute), `flow_kmol_h` {species: value},
 //!   `enthalpy_kW` (total, formation enthalpies included)
 //! - `units.<name>`: `type`, `inlets` [stream names], `outlets` [stream names], `duty_kW`
-//! - `warnings`: [strings]
+//! - `warnings`: [{`unit`, `code`, `message`, `value`, `limit`}]: value and limit in report units
+//!   (degC for temperatures, K for differences, % for fractions), null where not applicable;
+//!   `unit` is null for a warning about the flowsheet as a whole
 //!
 //! Beside them:
 //! - top level: `title`, `converged`, `summary`, `balances`, `cautions`
@@ -34,6 +36,7 @@ use crate::quantity::{
     kelvin_to_degc, kg_s_to_kg_h, mol_s_to_kmol_h, mol_s_to_nm3_h, pa_to_bar, w_to_kw,
 };
 use crate::thermo::SpeciesDb;
+use crate::units::Warning;
 
 /// Render the solve result as pretty-printed JSON, ending in a newline.
 pub fn render(db: &SpeciesDb, result: &FlowsheetResult) -> Result<String> {
@@ -70,7 +73,7 @@ pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
             .map(|f| {
                 let (value, unit) = figure_value(f);
                 (
-                    f.key.clone(),
+                    f.key.to_string(),
                     json!({"label": f.label, "value": number(value), "unit": unit}),
                 )
             })
@@ -87,7 +90,7 @@ pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
             unit.insert("max_residual".into(), number(eq.max_residual()));
             unit.insert("energy_residual".into(), number(eq.energy_residual));
         }
-        unit.insert("warnings".into(), json!(r.warnings));
+        unit.insert("warnings".into(), warnings(&r.warnings));
         units.insert(u.name.clone(), Value::Object(unit));
     }
 
@@ -122,9 +125,27 @@ pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
             "energy_residual": number(result.energy_balance_residual),
         }),
     );
-    top.insert("warnings".into(), json!(result.warnings));
+    top.insert("warnings".into(), warnings(&result.warnings));
     top.insert("cautions".into(), json!(super::CAUTIONS));
     Ok(Value::Object(top))
+}
+
+/// Warnings as objects `{unit, code, message, value, limit}`; value and limit in report units
+/// (degC, K, %, ...), null where a warning has none, `unit` null for the flowsheet as a whole.
+fn warnings(list: &[Warning]) -> Value {
+    Value::Array(
+        list.iter()
+            .map(|w| {
+                json!({
+                    "unit": (!w.unit.is_empty()).then_some(w.unit.as_str()),
+                    "code": w.code,
+                    "message": w.message(),
+                    "value": w.report_value().map(number),
+                    "limit": w.report_limit().map(number),
+                })
+            })
+            .collect(),
+    )
 }
 
 fn stream_value(db: &SpeciesDb, s: &SolvedStream, species: &[usize]) -> Result<Value> {

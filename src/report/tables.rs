@@ -102,7 +102,7 @@ pub struct SolveReport {
     pub equilibrium: Option<Table>,
     /// Plant summary and balance checks.
     pub summary: Table,
-    /// Warnings of the units and the flowsheet.
+    /// Warnings of the units and the flowsheet, as text.
     pub warnings: Vec<String>,
     /// The cautions printed with every result.
     pub cautions: String,
@@ -119,7 +119,7 @@ pub fn build(db: &SpeciesDb, result: &FlowsheetResult) -> Result<SolveReport> {
         figures: figure_table(result),
         equilibrium: equilibrium_table(result),
         summary: summary_table(db, result),
-        warnings: result.warnings.clone(),
+        warnings: result.warnings.iter().map(|w| w.to_string()).collect(),
         cautions: super::CAUTIONS.to_string(),
     })
 }

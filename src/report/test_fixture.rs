@@ -38,7 +38,7 @@ fn stage(outlet: &Stream, residuals: Vec<f64>, converged: bool) -> StageResult {
     }
 }
 
-fn figure(key: &str, label: &str, value: f64, kind: FigureKind) -> Figure {
+fn figure(key: &'static str, label: &'static str, value: f64, kind: FigureKind) -> Figure {
     Figure {
         key: key.into(),
         label: label.into(),
@@ -297,7 +297,12 @@ pub fn fixture(db: &SpeciesDb) -> FlowsheetResult {
             cooling_duty_w: duties.iter().filter(|d| **d < 0.0).sum(),
         },
         units,
-        warnings: vec!["hts: outlet 430.0 degC is near the catalyst limit".into()],
+        warnings: vec![crate::units::Warning::new(
+            "catalyst-temperature",
+            "outlet {value} is near the catalyst limit",
+        )
+        .value(703.15, crate::units::FigureKind::Temperature)
+        .for_unit("hts")],
         converged: true,
         element_balance_residual: 1.0e-13,
         energy_balance_residual: 2.0e-12,

@@ -7,7 +7,7 @@
 //! (2 CO = C + CO2), a_C > 1 meaning carbon is thermodynamically possible.
 
 use super::common::{figure, spec_error, Key};
-use super::FigureKind;
+use super::{FigureKind, Warning};
 use crate::error::{Result, ResultExt};
 use crate::quantity::STANDARD_PRESSURE_PA;
 use crate::reaction::{carbon_activity, Reaction};
@@ -87,19 +87,23 @@ pub(crate) fn unconverted_carbon_warnings(
     unit: &str,
     flows: &[f64],
     converts: impl Fn(usize) -> bool,
-    warnings: &mut Vec<String>,
+    warnings: &mut Vec<Warning>,
 ) {
     for (i, n) in flows.iter().enumerate() {
         let s = db.by_index(i);
         let carbon = s.phase == crate::thermo::Phase::Gas && s.atoms("C") > 0.0;
         let passive = matches!(s.name.as_str(), "CH4" | "CO" | "CO2");
         if *n > 0.0 && carbon && !passive && !converts(i) {
-            warnings.push(format!(
-                "unit '{unit}': {} ({:.4} mol % of the inlet) passes unconverted: none of this \
-                 unit's reactions converts it",
-                s.name,
-                100.0 * n / flows.iter().sum::<f64>()
-            ));
+            warnings.push(
+                Warning::new(
+                    "unconverted-carbon",
+                    "{subject} ({value} of the inlet) passes unconverted: none of this unit's \
+                     reactions converts it",
+                )
+                .value(n / flows.iter().sum::<f64>(), FigureKind::Fraction)
+                .subject(s.name.as_str())
+                .for_unit(unit),
+            );
         }
     }
 }
@@ -127,7 +131,7 @@ impl CarbonCheck {
         unit: &str,
         outlet: &super::Stream,
         figures: &mut Vec<super::Figure>,
-        warnings: &mut Vec<String>,
+        warnings: &mut Vec<Warning>,
     ) -> Result<()> {
         let flows = &outlet.flows;
         let (temperature_k, pressure_pa) = (outlet.temperature_k, outlet.pressure_pa);
@@ -160,12 +164,16 @@ impl CarbonCheck {
                         || (*nu < 0.0) == (flows[*i] > 0.0)
                 });
                 if unbounded {
-                    warnings.push(format!(
-                        "unit '{unit}': the outlet has the carbon former of {} but none of its \
-                         other product, so its carbon activity is unbounded: carbon formation \
-                         thermodynamically possible (screening check)",
-                        reaction.name
-                    ));
+                    warnings.push(
+                        Warning::new(
+                            "carbon-formation",
+                            "the outlet has the carbon former of {subject} but none of its other \
+                             product, so its carbon activity is unbounded: carbon formation \
+                             thermodynamically possible (screening check)",
+                        )
+                        .subject(reaction.name.as_str())
+                        .for_unit(unit),
+                    );
                 }
                 continue;
             }
@@ -173,12 +181,18 @@ impl CarbonCheck {
                 .context(|| format!("unit '{unit}', carbon activity"))?;
             figures.push(figure(key, label, a, FigureKind::Number));
             if a > 1.0 {
-                warnings.push(format!(
-                    "unit '{unit}': carbon activity {a:.3} by {} at the outlet: carbon \
-                     formation thermodynamically possible at the outlet (screening check; \
-                     raise the steam-to-carbon ratio or the temperature)",
-                    reaction.name
-                ));
+                warnings.push(
+                    Warning::new(
+                        "carbon-formation",
+                        "carbon activity {value} by {subject} at the outlet (above {limit}): \
+                         carbon formation thermodynamically possible at the outlet (screening \
+                         check; raise the steam-to-carbon ratio or the temperature)",
+                    )
+                    .value(a, FigureKind::Number)
+                    .limit(1.0)
+                    .subject(reaction.name.as_str())
+                    .for_unit(unit),
+                );
             }
         }
         Ok(())

@@ -2,7 +2,7 @@
 //! composition (Newton's method on temperature with the exact derivative dH/dT = sum n_i Cp_i),
 //! the water dew point (IAPWS-IF97 saturation line), approach lists, and figure building.
 
-use super::{Figure, FigureKind, Stream, StreamPhase};
+use super::{Figure, FigureKind, Stream, StreamPhase, Warning};
 use crate::equilibrium::{Direction, EquilibriumStage, StageReaction, StageResult};
 use crate::error::{Error, Result, ResultExt};
 use crate::quantity::{kelvin_to_degc, R_GAS};
@@ -461,15 +461,19 @@ pub(crate) fn frozen_warnings(
     unit: &str,
     stage: &EquilibriumStage,
     result: &StageResult,
-    warnings: &mut Vec<String>,
+    warnings: &mut Vec<Warning>,
 ) {
     for (r, frozen) in stage.reactions().iter().zip(&result.frozen) {
         if *frozen {
-            warnings.push(format!(
-                "unit '{unit}': reaction {} cannot proceed (a species on each side is absent \
-                 from the inlet); it was left unreacted",
-                r.reaction.name
-            ));
+            warnings.push(
+                Warning::new(
+                    "reaction-frozen",
+                    "reaction {subject} cannot proceed (a species on each side is absent from \
+                     the inlet); it was left unreacted",
+                )
+                .subject(r.reaction.name.as_str())
+                .for_unit(unit),
+            );
         }
     }
 }
@@ -484,10 +488,15 @@ pub(crate) fn stage_approaches(stage: &EquilibriumStage) -> Vec<(String, f64)> {
 }
 
 /// A figure.
-pub(crate) fn figure(key: &str, label: &str, value: f64, kind: FigureKind) -> Figure {
+pub(crate) fn figure(
+    key: &'static str,
+    label: &'static str,
+    value: f64,
+    kind: FigureKind,
+) -> Figure {
     Figure {
-        key: key.to_string(),
-        label: label.to_string(),
+        key,
+        label,
         value,
         kind,
     }

@@ -13,7 +13,7 @@ use super::common::{
     check_inlets, check_pressure_drop, check_temperature, degc, dew_point_k, figure,
     outlet_pressure, require_vapour, spec_error, Key,
 };
-use super::{FigureKind, Stream, StreamPhase, UnitResult};
+use super::{FigureKind, Stream, StreamPhase, UnitResult, Warning};
 use crate::error::{Result, ResultExt};
 use crate::thermo::{water, SpeciesDb};
 
@@ -110,11 +110,16 @@ impl Knockout {
                 }
             }
         } else if water_in > 0.0 {
-            warnings.push(format!(
-                "unit '{name}': at {} (above the critical temperature of water) nothing \
-                 condenses",
-                degc(t)
-            ));
+            warnings.push(
+                Warning::new(
+                    "no-condensation",
+                    "at {value}, above the critical temperature of water ({limit}), nothing \
+                     condenses",
+                )
+                .value(t, FigureKind::Temperature)
+                .limit(water::CRITICAL_TEMPERATURE_K)
+                .for_unit(name.as_str()),
+            );
         }
         let gas = Stream::vapour(gas, t, p);
         let condensate = Stream {

@@ -14,7 +14,7 @@ use super::common::{
     build_stage, check_pressure_drop, dry_fraction, figure, frozen_warnings, reactor_inlet,
     resolve_approaches, run_stage, stage_approaches, Key,
 };
-use super::{FigureKind, Stream, UnitResult};
+use super::{FigureKind, Stream, UnitResult, Warning};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::Result;
 use crate::thermo::SpeciesDb;
@@ -146,11 +146,17 @@ impl Methanator {
         unconverted_carbon_warnings(db, name, &inlet.flows, |_| false, &mut warnings);
         frozen_warnings(name, &self.stage, &stage, &mut warnings);
         if rise > LARGE_RISE_K {
-            warnings.push(format!(
-                "unit '{name}': temperature rise {rise:.1} K is large (common practice: 20-30 K \
-                 is normal; check for CO or CO2 slipping from upstream, and the bed's design \
-                 temperature)"
-            ));
+            warnings.push(
+                Warning::new(
+                    "methanator-temperature-rise",
+                    "temperature rise {value} is above {limit} (common practice: 20-30 K is \
+                     normal; check for CO or CO2 slipping from upstream, and the bed's design \
+                     temperature)",
+                )
+                .value(rise, FigureKind::TemperatureDifference)
+                .limit(LARGE_RISE_K)
+                .for_unit(name.as_str()),
+            );
         }
         Ok(UnitResult {
             outlets: vec![Stream::vapour(out, t_out, p)],
@@ -232,6 +238,9 @@ mod tests {
             .unwrap();
         assert_balances(&db, &[&inlet], &r);
         assert!(fig(&r, "temperature-rise") > LARGE_RISE_K);
-        assert!(r.warnings[0].contains("large"), "{:?}", r.warnings);
+        let w = &r.warnings[0];
+        assert_eq!(w.code, "methanator-temperature-rise", "{:?}", r.warnings);
+        assert_eq!(w.limit, Some(LARGE_RISE_K));
+        assert_eq!(w.value, Some(fig(&r, "temperature-rise")));
     }
 }

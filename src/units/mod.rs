@@ -51,32 +51,15 @@ use crate::equilibrium::StageResult;
 use crate::error::Result;
 use crate::thermo::SpeciesDb;
 
-/// How a key figure is to be read (the report converts to the units engineers read).
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum FigureKind {
-    /// A fraction 0..1 (reported in %).
-    Fraction,
-    /// A mole fraction in parts per million by mole (stored as a fraction, reported in ppm).
-    Ppm,
-    /// An absolute temperature, K (reported in degC).
-    Temperature,
-    /// A temperature difference, K.
-    TemperatureDifference,
-    /// A molar flow, mol/s (reported in kmol/h).
-    MolarFlow,
-    /// A pressure, Pa (reported in bar).
-    Pressure,
-    /// A pure number.
-    Number,
-}
+pub use crate::diagnostics::{FigureKind, Warning};
 
 /// One key figure of a unit ("methane slip (dry)", "CO conversion", "temperature rise").
 #[derive(Debug, Clone, PartialEq)]
 pub struct Figure {
     /// Stable machine key, kebab-case ("methane-slip-dry").
-    pub key: String,
+    pub key: &'static str,
     /// Label for reports ("methane slip, dry").
-    pub label: String,
+    pub label: &'static str,
     /// Value in SI (fractions as fractions, temperatures in K, flows in mol/s).
     pub value: f64,
     /// How to read and convert it.
@@ -96,8 +79,8 @@ pub struct UnitResult {
     pub figures: Vec<Figure>,
     /// The equilibrium stage's own result (converged, iterations, residuals), where there is one.
     pub equilibrium: Option<StageResult>,
-    /// Cautions from common practice (catalyst temperature limits, dew point, carbon).
-    pub warnings: Vec<String>,
+    /// Cautions from common practice (catalyst temperature limits, dew point, carbon), as data.
+    pub warnings: Vec<Warning>,
 }
 
 /// The specification of one unit, by type.

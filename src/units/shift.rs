@@ -9,11 +9,11 @@
 
 use super::chemistry::unconverted_carbon_warnings;
 use super::common::{
-    build_stage, check_pressure_drop, check_temperature, degc, dew_point_k, dry_fraction, figure,
+    build_stage, check_pressure_drop, check_temperature, dew_point_k, dry_fraction, figure,
     frozen_warnings, reactor_inlet, resolve_approaches, run_stage, spec_error, stage_approaches,
     Key,
 };
-use super::{FigureKind, Stream, UnitResult};
+use super::{FigureKind, Stream, UnitResult, Warning};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::{Result, ResultExt};
 use crate::quantity::CELSIUS_OFFSET_K;
@@ -64,15 +64,6 @@ impl ShiftCatalyst {
             ShiftCatalyst::IronChromium => IRON_CHROMIUM_MAX_K,
             ShiftCatalyst::MediumTemperatureCopper => MEDIUM_TEMPERATURE_COPPER_MAX_K,
             ShiftCatalyst::LowTemperatureCopper => COPPER_MAX_K,
-        }
-    }
-
-    /// The usual range of upper limits quoted for the catalyst, degC (common practice).
-    fn usual_limits_degc(self) -> (f64, f64) {
-        match self {
-            ShiftCatalyst::IronChromium => (480.0, 500.0),
-            ShiftCatalyst::MediumTemperatureCopper => (330.0, 350.0),
-            ShiftCatalyst::LowTemperatureCopper => (250.0, 270.0),
         }
     }
 
@@ -210,46 +201,58 @@ impl Shift {
             Some(c) => c,
             None => {
                 let c = infer_catalyst(t_in, t_out);
-                warnings.push(format!(
-                    "unit '{name}': no catalyst given; {} assumed from the inlet {} and outlet {} \
-                     (copper below an inlet of {}, medium-temperature copper when its outlet is \
-                     above {}) for the temperature cautions; set `catalyst` to be sure",
-                    c.label(),
-                    degc(t_in),
-                    degc(t_out),
-                    degc(COPPER_INFERENCE_BELOW_K),
-                    degc(COPPER_MAX_K)
-                ));
+                warnings.push(
+                    Warning::new(
+                        "catalyst-assumed",
+                        "no catalyst given; {subject} assumed from the inlet {value} (copper \
+                         below an inlet of {limit}; medium-temperature copper when the outlet \
+                         passes the low-temperature copper limit) for the temperature \
+                         cautions; set `catalyst` to be sure",
+                    )
+                    .value(t_in, FigureKind::Temperature)
+                    .limit(COPPER_INFERENCE_BELOW_K)
+                    .subject(c.label())
+                    .for_unit(name.as_str()),
+                );
                 c
             }
         };
         if t_out > catalyst.max_outlet_k() {
-            let (low, high) = catalyst.usual_limits_degc();
-            warnings.push(format!(
-                "unit '{name}': outlet {} is above {}, the usual upper limit of a {} catalyst \
-                 (common practice: about {low:.0}-{high:.0} degC)",
-                degc(t_out),
-                degc(catalyst.max_outlet_k()),
-                catalyst.label()
-            ));
+            warnings.push(
+                Warning::new(
+                    "catalyst-temperature",
+                    "outlet {value} is above {limit}, the usual upper limit of a {subject} \
+                     catalyst (common practice)",
+                )
+                .value(t_out, FigureKind::Temperature)
+                .limit(catalyst.max_outlet_k())
+                .subject(catalyst.label())
+                .for_unit(name.as_str()),
+            );
         }
         if let Some(dew) = dew {
             if t_in <= dew {
-                warnings.push(format!(
-                    "unit '{name}': inlet {} is at or below the water dew point {}: water \
-                     would condense on the catalyst",
-                    degc(t_in),
-                    degc(dew)
-                ));
+                warnings.push(
+                    Warning::new(
+                        "dew-point",
+                        "inlet {value} is at or below the water dew point {limit}: water would \
+                         condense on the catalyst",
+                    )
+                    .value(t_in, FigureKind::Temperature)
+                    .limit(dew)
+                    .for_unit(name.as_str()),
+                );
             } else if catalyst.is_copper() && t_in - dew < COPPER_DEW_MARGIN_K {
-                warnings.push(format!(
-                    "unit '{name}': inlet {} is only {:.1} K above the water dew point {}; a \
-                     copper catalyst is usually fed at least {COPPER_DEW_MARGIN_K:.0} K above it \
-                     (common practice: about 15-20 K)",
-                    degc(t_in),
-                    t_in - dew,
-                    degc(dew)
-                ));
+                warnings.push(
+                    Warning::new(
+                        "dew-point",
+                        "inlet is only {value} above the water dew point; a copper catalyst is \
+                         usually fed at least {limit} above it (common practice: about 15-20 K)",
+                    )
+                    .value(t_in - dew, FigureKind::TemperatureDifference)
+                    .limit(COPPER_DEW_MARGIN_K)
+                    .for_unit(name.as_str()),
+                );
             }
         }
         Ok(UnitResult {

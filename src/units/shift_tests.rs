@@ -87,14 +87,17 @@ fn catalyst_cautions_and_fixed_outlet_temperature() {
         .solve(&db, &[&inlet], None)
         .unwrap();
     assert!(
-        r.warnings.iter().any(|w| w.contains("copper catalyst")),
+        r.warnings
+            .iter()
+            .any(|w| w.code == "catalyst-temperature" && w.limit == Some(COPPER_MAX_K)),
         "{:?}",
         r.warnings
     );
     // No catalyst given: inferred from the inlet temperature, and said so.
     let r = shift(&db, None, 0.0).solve(&db, &[&inlet], None).unwrap();
     assert!(
-        r.warnings[0].contains("iron-chromium assumed"),
+        r.warnings[0].code == "catalyst-assumed"
+            && r.warnings[0].subject.as_deref() == Some("iron-chromium"),
         "{:?}",
         r.warnings
     );
@@ -111,7 +114,9 @@ fn catalyst_cautions_and_fixed_outlet_temperature() {
     let margin = fig(&r, "inlet-dew-point-margin");
     assert!(margin > 0.0 && margin < 20.0, "{margin}");
     assert!(
-        r.warnings.iter().any(|w| w.contains("15-20 K")),
+        r.warnings
+            .iter()
+            .any(|w| w.code == "dew-point" && w.limit == Some(COPPER_DEW_MARGIN_K)),
         "{:?}",
         r.warnings
     );

@@ -204,12 +204,20 @@ fn water_below_saturation_is_reported_liquid() {
     // A heater that leaves water below saturation keeps it liquid.
     assert_eq!(v["streams"]["hot"]["phase"], "liquid");
     // A feed just below saturation (meant as saturated steam, rounded down?) is named.
-    let warnings = v["warnings"].to_string();
+    // IAPWS-IF97 eq. (31): T_s(3 MPa) = 233.858 degC (PyPI iapws 1.5.5).
+    let list = v["warnings"].as_array().unwrap();
+    let near: Vec<&serde_json::Value> = list
+        .iter()
+        .filter(|w| w["code"] == "feed-near-saturation")
+        .collect();
+    assert_eq!(near.len(), 1, "{list:?}");
     assert!(
-        warnings.contains("feed 'near'") && warnings.contains("233.86 degC"),
-        "{warnings}"
+        (f(&near[0]["limit"]) - 233.858).abs() < 1e-3,
+        "{:?}",
+        near[0]
     );
-    assert!(!warnings.contains("feed 'bfw'"), "{warnings}");
+    assert!((f(&near[0]["value"]) - 233.5).abs() < 1e-9, "{:?}", near[0]);
+    assert!(near[0]["message"].as_str().unwrap().contains("feed near"));
     // Liquid enthalpy carries the latent heat: IAPWS-IF97 h(233.9 degC steam) - h(233.5 degC
     // water) at 3 MPa is about 1.80 MJ/kg (latent heat at 30 bar, IAPWS SR1-86 1795 kJ/kg).
     let dh_kj_kg = (f(&v["streams"]["steam"]["enthalpy_kW"])
