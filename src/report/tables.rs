@@ -663,8 +663,8 @@ mod tests {
     #[test]
     fn figures_convert_to_report_units() {
         let f = |value, kind| Figure {
-            key: "k".into(),
-            label: "l".into(),
+            key: "k",
+            label: "l",
             value,
             kind,
         };

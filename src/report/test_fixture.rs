@@ -40,8 +40,8 @@ fn stage(outlet: &Stream, residuals: Vec<f64>, converged: bool) -> StageResult {
 
 fn figure(key: &'static str, label: &'static str, value: f64, kind: FigureKind) -> Figure {
     Figure {
-        key: key.into(),
-        label: label.into(),
+        key,
+        label,
         value,
         kind,
     }
