@@ -340,24 +340,52 @@ impl ExtentSystem {
     }
 
     /// Sensitivity of the equilibrium extents to the ln K values: solves H x = rhs at the given
-    /// equilibrium amounts (dxi/dT = H^-1 d lnK/dT). Frozen reactions get zero.
-    pub fn sensitivity(&self, solution: &ExtentSolution, inert: f64, rhs: &[f64]) -> Vec<f64> {
-        let active: Vec<usize> = (0..self.n_reactions)
-            .filter(|&j| !solution.frozen[j])
-            .collect();
+    /// equilibrium amounts (dxi/dT = H^-1 d lnK/dT) into `out` (frozen reactions get zero).
+    /// Returns false, with `out` zeroed, when the Hessian cannot be factorised (a species so
+    /// scarce that H is numerically singular); the caller must then do without the sensitivity.
+    #[must_use]
+    pub fn sensitivity(
+        &self,
+        solution: &ExtentSolution,
+        inert: f64,
+        rhs: &[f64],
+        out: &mut [f64],
+    ) -> bool {
+        let nr = self.n_reactions;
+        out[..nr].fill(0.0);
+        let mut active = [0usize; linalg::MAX_DIM];
+        let mut na = 0;
+        for j in 0..nr {
+            if !solution.frozen[j] {
+                active[na] = j;
+                na += 1;
+            }
+        }
+        let active = &active[..na];
+        if na == 0 {
+            return true;
+        }
         let basis = Basis::new(
             active.iter().map(|&j| (self.row(j), self.dnu[j], 0.0)),
             self.n_species,
         );
-        let mut scratch = vec![0.0; active.len() * active.len()];
-        let mut x: Vec<f64> = active.iter().map(|&j| rhs[j]).collect();
-        let mut out = vec![0.0; self.n_reactions];
-        if basis.newton_solve(&solution.amounts, inert, &mut x, &mut scratch) {
-            for (k, &j) in active.iter().enumerate() {
-                out[j] = x[k];
-            }
+        let mut scratch = [0.0f64; linalg::MAX_DIM * linalg::MAX_DIM];
+        let mut x = [0.0f64; linalg::MAX_DIM];
+        for (k, &j) in active.iter().enumerate() {
+            x[k] = rhs[j];
         }
-        out
+        if !basis.newton_solve(
+            &solution.amounts,
+            inert,
+            &mut x[..na],
+            &mut scratch[..na * na],
+        ) {
+            return false;
+        }
+        for (k, &j) in active.iter().enumerate() {
+            out[j] = x[k];
+        }
+        true
     }
 
     /// Move from the inlet to a point where every species of every reaction that can proceed is
