@@ -128,16 +128,6 @@ impl ExtentSystem {
         })
     }
 
-    /// Number of species.
-    pub fn n_species(&self) -> usize {
-        self.n_species
-    }
-
-    /// Number of reactions.
-    pub fn n_reactions(&self) -> usize {
-        self.n_reactions
-    }
-
     /// Coefficient of species `i` in reaction `j`.
     #[inline]
     pub fn nu(&self, j: usize, i: usize) -> f64 {
@@ -352,6 +342,13 @@ impl ExtentSystem {
         out: &mut [f64],
     ) -> bool {
         let nr = self.n_reactions;
+        if rhs.len() < nr
+            || out.len() < nr
+            || solution.frozen.len() != nr
+            || solution.amounts.len() != self.n_species
+        {
+            return false;
+        }
         out[..nr].fill(0.0);
         let mut active = [0usize; linalg::MAX_DIM];
         let mut na = 0;

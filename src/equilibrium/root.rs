@@ -36,6 +36,20 @@ pub enum Termination {
     NotFinite,
 }
 
+impl std::fmt::Display for Termination {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(match self {
+            Termination::Converged => "converged",
+            Termination::BracketNarrowed => "bracket narrowed to round-off",
+            Termination::IterationLimit => "iteration limit reached",
+            Termination::RootBelowBracket => "root below the bracket",
+            Termination::RootAboveBracket => "root above the bracket",
+            Termination::InvalidBracket => "no usable bracket",
+            Termination::NotFinite => "a value that is not finite",
+        })
+    }
+}
+
 /// Tolerances and limits of a root search.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct RootOptions {

@@ -136,8 +136,8 @@ const MAX_TEMPERATURE_ITERATIONS: usize = 100;
 /// reaction's species is taken as zero when [`Direction::Auto`] is decided; the same bound on
 /// |ln K - ln Q| decides a lone reaction at its inlet. Both are scale-free.
 pub const EXTENT_SIGN_TOLERANCE: f64 = 1e-9;
-/// Most species the reactions of one stage may involve.
-pub const MAX_STAGE_SPECIES: usize = 32;
+/// Most species the reactions of one stage may involve (the extent solver's limit).
+pub const MAX_STAGE_SPECIES: usize = super::extents::MAX_SPECIES;
 
 impl EquilibriumStage {
     /// Prepare a stage. Only gas-phase reactions are allowed (carbon formation is judged by
@@ -516,7 +516,8 @@ impl EquilibriumStage {
         state: &mut StageState,
     ) -> Result<(f64, ExtentSolution, Root)> {
         let target = ctx.inlet_enthalpy + duty_w;
-        let (lo, hi) = self.search_range(ctx, zero_approach)?;
+        let range = self.search_range(ctx, directions, zero_approach)?;
+        let (lo, hi) = (range.lo, range.hi);
         let scale = ctx.enthalpy_scale;
         let options = RootOptions {
             residual_tolerance: ENERGY_TOLERANCE,
@@ -556,16 +557,16 @@ impl EquilibriumStage {
             Termination::Converged | Termination::BracketNarrowed => {}
             Termination::RootAboveBracket => {
                 return Err(stop(format!(
-                    "; the outlet would lie above {hi:.2} K, the top of the species data range \
-                     {:.2}-{:.2} K less the largest approach; check the duty and the feed",
-                    ctx.t_min, ctx.t_max
+                    "; the outlet would lie above {hi:.2} K, {}; check the duty, the feed and \
+                     the approaches",
+                    self.range_end(ctx, range.hi_set_by)
                 )))
             }
             Termination::RootBelowBracket => {
                 return Err(stop(format!(
-                    "; the outlet would lie below {lo:.2} K, the bottom of the species data \
-                     range {:.2}-{:.2} K plus the largest approach; check the duty and the feed",
-                    ctx.t_min, ctx.t_max
+                    "; the outlet would lie below {lo:.2} K, {}; check the duty, the feed and \
+                     the approaches",
+                    self.range_end(ctx, range.lo_set_by)
                 )))
             }
             Termination::IterationLimit => {
@@ -597,36 +598,74 @@ impl EquilibriumStage {
         Ok((root.x, sol, root))
     }
 
-    /// Stream temperatures at which every reaction's equilibrium temperature lies inside the
-    /// species data: the data range narrowed by the largest approach on both sides. An error
-    /// names the approach and the data range when nothing is left.
-    fn search_range(&self, ctx: &Context<'_>, zero_approach: bool) -> Result<(f64, f64)> {
+    /// Stream temperatures at which every reaction's equilibrium temperature T - s_j dT_j lies
+    /// inside the species data range, with s_j taken at the inlet temperature: the range and,
+    /// for each end, the reaction whose approach set it (if any). An error names the approach
+    /// and the data range when nothing is left.
+    fn search_range(
+        &self,
+        ctx: &Context<'_>,
+        directions: &[f64],
+        zero_approach: bool,
+    ) -> Result<SearchRange> {
         let (t_min, t_max) = (ctx.t_min, ctx.t_max);
-        if zero_approach {
-            return Ok((t_min, t_max));
-        }
-        let Some(widest) = self
-            .reactions
-            .iter()
-            .max_by(|a, b| a.approach_k.abs().total_cmp(&b.approach_k.abs()))
-        else {
-            return Ok((t_min, t_max));
+        let mut range = SearchRange {
+            lo: t_min,
+            hi: t_max,
+            lo_set_by: None,
+            hi_set_by: None,
         };
-        let margin = widest.approach_k.abs();
-        let (lo, hi) = (t_min + margin, t_max - margin);
-        if lo < hi {
-            Ok((lo, hi))
-        } else {
-            Err(Error::InvalidValue {
-                field: format!("approach of {}", widest.reaction.name),
-                value: format!("{} K", widest.approach_k),
-                reason: format!(
-                    "leaves no outlet temperature whose equilibrium temperature lies inside the \
-                     species data range {t_min:.2}-{t_max:.2} K; an approach must be less than \
-                     half that range ({:.2} K)",
-                    0.5 * (t_max - t_min)
-                ),
-            })
+        if zero_approach {
+            return Ok(range);
+        }
+        let t_ref = ctx.inlet.temperature_k.max(t_min).min(t_max);
+        for (j, r) in self.reactions.iter().enumerate() {
+            if r.approach_k == 0.0 {
+                continue;
+            }
+            let dh_rt: f64 = (0..self.species.len())
+                .map(|k| self.system.nu(j, k) * self.nasa[k].h_rt(t_ref))
+                .sum();
+            let s = if dh_rt * directions[j] >= 0.0 {
+                1.0
+            } else {
+                -1.0
+            };
+            let shift = s * r.approach_k;
+            if t_min + shift > range.lo {
+                range.lo = t_min + shift;
+                range.lo_set_by = Some(j);
+            }
+            if t_max + shift < range.hi {
+                range.hi = t_max + shift;
+                range.hi_set_by = Some(j);
+            }
+            if !(range.lo < range.hi) {
+                return Err(Error::InvalidValue {
+                    field: format!("approach of {}", r.reaction.name),
+                    value: format!("{} K", r.approach_k),
+                    reason: format!(
+                        "leaves no outlet temperature whose equilibrium temperatures lie inside \
+                         the species data range {t_min:.2}-{t_max:.2} K; give a smaller approach"
+                    ),
+                });
+            }
+        }
+        Ok(range)
+    }
+
+    /// Why the search range ends where it does, for messages.
+    fn range_end(&self, ctx: &Context<'_>, set_by: Option<usize>) -> String {
+        match set_by {
+            Some(j) => format!(
+                "where the equilibrium temperature of {} (approach {} K) leaves the species \
+                 data range {:.2}-{:.2} K",
+                self.reactions[j].reaction.name, self.reactions[j].approach_k, ctx.t_min, ctx.t_max
+            ),
+            None => format!(
+                "the end of the species data range {:.2}-{:.2} K",
+                ctx.t_min, ctx.t_max
+            ),
         }
     }
 
@@ -690,6 +729,14 @@ struct StageState {
     equilibrium_temperatures_k: Vec<f64>,
     /// s_j of the last equilibrium evaluated.
     approach_signs: Vec<f64>,
+}
+
+/// The stream temperatures a search may visit, and the reaction whose approach set each end.
+struct SearchRange {
+    lo: f64,
+    hi: f64,
+    lo_set_by: Option<usize>,
+    hi_set_by: Option<usize>,
 }
 
 /// Extents at a temperature and their derivative there: x(T') ~ x + slope (T' - T).

@@ -318,7 +318,7 @@ pub(crate) fn temperature_at_enthalpy(
             what: format!("energy balance of unit '{unit}'"),
             iterations: root.iterations,
             residual: root.residual,
-            hint: format!("; the temperature search stopped: {termination:?}"),
+            hint: format!("; the temperature search stopped: {termination}"),
         }),
     }
 }
