@@ -42,6 +42,19 @@ fn element_balance_error(db: &SpeciesDb, a: &[f64], b: &[f64]) -> f64 {
         .fold(0.0, f64::max)
 }
 
+/// sum nu ln(y P/P0) - ln K(T_eq) of a named reaction at `flows`, from the reaction module (not
+/// the stage's own residuals).
+fn equilibrium_gap(db: &SpeciesDb, name: &str, flows: &[f64], t_eq: f64, p: f64) -> f64 {
+    let reaction = Reaction::named(db, name).unwrap();
+    let total: f64 = flows.iter().sum();
+    let ln_q: f64 = reaction
+        .stoichiometry
+        .iter()
+        .map(|(i, nu)| nu * (flows[*i] / total * p / STANDARD_PRESSURE_PA).ln())
+        .sum();
+    ln_q - reaction.ln_k(db, t_eq).unwrap()
+}
+
 #[test]
 fn reformer_at_fixed_temperature_closes_elements_and_energy() {
     let db = db();
@@ -70,7 +83,10 @@ fn reformer_at_fixed_temperature_closes_elements_and_energy() {
             None,
         )
         .unwrap();
-    assert!(r.converged && r.max_residual() < 1e-9);
+    assert!(r.converged);
+    for name in ["reforming", "shift"] {
+        assert!(equilibrium_gap(&db, name, &r.outlet_flows, 1133.15, 25e5).abs() < 1e-9);
+    }
     assert!(element_balance_error(&db, &inlet, &r.outlet_flows) < 1e-12);
     let h_in = mixture::enthalpy(&db, &inlet, 800.0).unwrap();
     let h_out = mixture::enthalpy(&db, &r.outlet_flows, 1133.15).unwrap();
@@ -214,7 +230,9 @@ fn adiabatic_shift_closes_its_energy_balance() {
             None,
         )
         .unwrap();
-    assert!(r.converged && r.energy_residual < 1e-9 && r.max_residual() < 1e-9);
+    assert!(r.converged);
+    let gap = equilibrium_gap(&db, "shift", &r.outlet_flows, r.outlet_temperature_k, 28e5);
+    assert!(gap.abs() < 1e-9, "{gap}");
     // Common practice: an HTS from 350 degC rises to 400-450 degC.
     let t_c = r.outlet_temperature_k - 273.15;
     assert!((400.0..=460.0).contains(&t_c), "{t_c}");
@@ -585,8 +603,10 @@ fn stress(count: usize, seed: u64) -> StressReport {
 #[test]
 fn random_stages_all_converge() {
     // Invariants (one physical root, element and energy conservation; the energy recomputed
-    // from the species data independently of the stage): 3000 seeded random stages.
-    let report = stress(3000, 2024);
+    // from the species data independently of the stage): the first 3000 stages of the
+    // million below (case 2616 among them is an adiabatic reformer on which plain Newton
+    // cycled).
+    let report = stress(3000, 7);
     assert_eq!(report.cases, 3000);
     assert!(
         report.failures.is_empty(),
