@@ -317,7 +317,10 @@ impl ExtentSystem {
     }
 
     /// The working basis of the given active reactions with their ln K.
-    fn basis(&self, active: &[usize], ln_k: &[f64]) -> Basis {
+    fn basis<'a>(&'a self, active: &[usize], ln_k: &'a [f64]) -> Basis<'a> {
+        if active.len() == self.n_reactions {
+            return Basis::borrowed(&self.nu, &self.dnu, ln_k, self.n_species);
+        }
         Basis::new(
             active.iter().map(|&j| (self.row(j), self.dnu[j], ln_k[j])),
             self.n_species,
@@ -362,10 +365,15 @@ impl ExtentSystem {
         if na == 0 {
             return true;
         }
-        let basis = Basis::new(
-            active.iter().map(|&j| (self.row(j), self.dnu[j], 0.0)),
-            self.n_species,
-        );
+        const NO_LN_K: [f64; linalg::MAX_DIM] = [0.0; linalg::MAX_DIM];
+        let basis = if na == nr {
+            Basis::borrowed(&self.nu, &self.dnu, &NO_LN_K[..nr], self.n_species)
+        } else {
+            Basis::new(
+                active.iter().map(|&j| (self.row(j), self.dnu[j], 0.0)),
+                self.n_species,
+            )
+        };
         let mut scratch = [0.0f64; linalg::MAX_DIM * linalg::MAX_DIM];
         let mut x = [0.0f64; linalg::MAX_DIM];
         for (k, &j) in active.iter().enumerate() {
