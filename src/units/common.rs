@@ -492,8 +492,25 @@ mod tests {
         let h = crate::thermo::mixture::enthalpy(&db, &n, 812.34).unwrap();
         let t = temperature_at_enthalpy(&db, "u", &n, h, 400.0).unwrap();
         assert!((t - 812.34).abs() < 1e-9);
-        // Outside the data range (200-3000 K here) is an error, not an extrapolation.
-        assert!(temperature_at_enthalpy(&db, "u", &n, h * 10.0, 400.0).is_err());
+        // From a start far on the other side, and from a start outside the data range.
+        for start in [2900.0, 250.0, 1e5, f64::NAN] {
+            let t = temperature_at_enthalpy(&db, "u", &n, h, start).unwrap();
+            assert!((t - 812.34).abs() < 1e-9, "from {start}: {t}");
+        }
+        // Outside the data range (200-3000 K here, data/species.yaml) is an error naming the
+        // side, not an extrapolation.
+        let h_top = crate::thermo::mixture::enthalpy(&db, &n, 3000.0).unwrap();
+        let h_bottom = crate::thermo::mixture::enthalpy(&db, &n, 200.0).unwrap();
+        let above = temperature_at_enthalpy(&db, "u", &n, h_top + 1.0, 400.0).unwrap_err();
+        assert!(
+            above.to_string().contains("above the species data range"),
+            "{above}"
+        );
+        let below = temperature_at_enthalpy(&db, "u", &n, h_bottom - 1.0, 400.0).unwrap_err();
+        assert!(
+            below.to_string().contains("below the species data range"),
+            "{below}"
+        );
     }
 
     #[test]
