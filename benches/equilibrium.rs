@@ -1,6 +1,8 @@
 //! Benchmarks of the equilibrium stage on typical gases: an isothermal reforming + shift stage
-//! (reformer outlet, 865 degC, 28 bar, S/C 3) and an adiabatic shift stage (HTS from 350 degC),
-//! each solved cold and warm-started from a neighbouring answer as a sweep would.
+//! (reformer outlet, 865 degC, 28 bar, S/C 3) cold and warm-started from a neighbouring answer as
+//! a sweep would, an adiabatic shift stage (HTS from 350 degC), and an adiabatic reforming +
+//! shift stage whose hot steam-rich feed cools by about 300 K (a temperature search that needs
+//! its bisection safeguard).
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use syntrain::equilibrium::*;
@@ -100,6 +102,29 @@ fn benches(c: &mut Criterion) {
         b.iter(|| {
             shift
                 .solve(&db, black_box(hts), EnergyMode::Adiabatic, None)
+                .unwrap()
+        })
+    });
+
+    let hot = flows(
+        &db,
+        &[
+            ("CH4", 1.0),
+            ("H2O", 4.993625800230868),
+            ("CO2", 0.018121932251066505),
+            ("H2", 0.047275141812904015),
+            ("N2", 0.003677059969671648),
+        ],
+    );
+    let hot_inlet = StageInlet {
+        flows: &hot,
+        temperature_k: 1058.680744646038,
+        pressure_pa: 175627.38526608754,
+    };
+    c.bench_function("reformer adiabatic, hot steam-rich feed", |b| {
+        b.iter(|| {
+            reformer
+                .solve(&db, black_box(hot_inlet), EnergyMode::Adiabatic, None)
                 .unwrap()
         })
     });

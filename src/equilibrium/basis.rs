@@ -10,6 +10,8 @@
 //! so that the Hessian A^T A - c c^T is never formed (Golub & Van Loan, Matrix Computations, 4th
 //! ed., 5.2 and 2.1.4).
 
+use std::borrow::Cow;
+
 use super::linalg;
 
 /// Fraction of the distance to the boundary (an amount reaching zero) a step may take.
@@ -20,24 +22,40 @@ pub const MAX_SPECIES: usize = 32;
 const SCARCE_FRACTION: f64 = 1e-8;
 
 /// Working reactions: `m` rows over `ns` species, each a combination of the active reactions.
-pub struct Basis {
+/// The rows are borrowed from the extent system while they are its own reactions (no copy in
+/// the common case) and copied when a subset is active or the basis is rebuilt.
+pub struct Basis<'a> {
     pub ns: usize,
     pub m: usize,
     /// Row-major coefficients, `nu[k * ns + i]`.
-    pub nu: Vec<f64>,
+    pub nu: Cow<'a, [f64]>,
     /// Gas mole change of each working reaction.
-    pub dnu: Vec<f64>,
+    pub dnu: Cow<'a, [f64]>,
     /// ln K of each working reaction.
-    pub ln_k: Vec<f64>,
+    pub ln_k: Cow<'a, [f64]>,
     /// Working row k = sum_j combination[k * m + j] * (active reaction j).
     pub combination: Vec<f64>,
     /// Rows already used as a pivot when rebuilding.
     pivot: Vec<bool>,
 }
 
-impl Basis {
+impl<'a> Basis<'a> {
+    /// The basis of all reactions of a system, borrowed: `nu` row-major (`dnu.len()` rows of
+    /// `ns`), `dnu` and `ln_k` one per reaction.
+    pub fn borrowed(nu: &'a [f64], dnu: &'a [f64], ln_k: &'a [f64], ns: usize) -> Basis<'a> {
+        Basis {
+            ns,
+            m: dnu.len(),
+            nu: Cow::Borrowed(nu),
+            dnu: Cow::Borrowed(dnu),
+            ln_k: Cow::Borrowed(ln_k),
+            combination: Vec::new(),
+            pivot: Vec::new(),
+        }
+    }
+
     /// The basis of the given reactions themselves: (coefficient row, gas mole change, ln K).
-    pub fn new<'a>(rows: impl Iterator<Item = (&'a [f64], f64, f64)>, ns: usize) -> Basis {
+    pub fn new<'r>(rows: impl Iterator<Item = (&'r [f64], f64, f64)>, ns: usize) -> Basis<'a> {
         let mut nu = Vec::with_capacity(ns * 4);
         let mut dnu = Vec::with_capacity(4);
         let mut ln_k = Vec::with_capacity(4);
@@ -50,9 +68,9 @@ impl Basis {
         Basis {
             ns,
             m,
-            nu,
-            dnu,
-            ln_k,
+            nu: Cow::Owned(nu),
+            dnu: Cow::Owned(dnu),
+            ln_k: Cow::Owned(ln_k),
             combination: Vec::new(),
             pivot: Vec::new(),
         }
@@ -260,15 +278,19 @@ impl Basis {
                 continue;
             };
             self.pivot[p] = true;
+            let ns = self.ns;
+            let nu = self.nu.to_mut();
+            let dnu = self.dnu.to_mut();
+            let ln_k = self.ln_k.to_mut();
             for &q in rows_with.iter().filter(|&&q| q != p) {
-                let f = self.nu[q * self.ns + i] / self.nu[p * self.ns + i];
-                for c in 0..self.ns {
-                    let v = self.nu[p * self.ns + c];
-                    self.nu[q * self.ns + c] -= f * v;
+                let f = nu[q * ns + i] / nu[p * ns + i];
+                for c in 0..ns {
+                    let v = nu[p * ns + c];
+                    nu[q * ns + c] -= f * v;
                 }
-                self.nu[q * self.ns + i] = 0.0;
-                self.dnu[q] -= f * self.dnu[p];
-                self.ln_k[q] -= f * self.ln_k[p];
+                nu[q * ns + i] = 0.0;
+                dnu[q] -= f * dnu[p];
+                ln_k[q] -= f * ln_k[p];
                 for c in 0..self.m {
                     let v = self.combination[p * self.m + c];
                     self.combination[q * self.m + c] -= f * v;

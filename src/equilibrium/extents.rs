@@ -128,16 +128,6 @@ impl ExtentSystem {
         })
     }
 
-    /// Number of species.
-    pub fn n_species(&self) -> usize {
-        self.n_species
-    }
-
-    /// Number of reactions.
-    pub fn n_reactions(&self) -> usize {
-        self.n_reactions
-    }
-
     /// Coefficient of species `i` in reaction `j`.
     #[inline]
     pub fn nu(&self, j: usize, i: usize) -> f64 {
@@ -327,7 +317,10 @@ impl ExtentSystem {
     }
 
     /// The working basis of the given active reactions with their ln K.
-    fn basis(&self, active: &[usize], ln_k: &[f64]) -> Basis {
+    fn basis<'a>(&'a self, active: &[usize], ln_k: &'a [f64]) -> Basis<'a> {
+        if active.len() == self.n_reactions {
+            return Basis::borrowed(&self.nu, &self.dnu, ln_k, self.n_species);
+        }
         Basis::new(
             active.iter().map(|&j| (self.row(j), self.dnu[j], ln_k[j])),
             self.n_species,
@@ -340,24 +333,64 @@ impl ExtentSystem {
     }
 
     /// Sensitivity of the equilibrium extents to the ln K values: solves H x = rhs at the given
-    /// equilibrium amounts (dxi/dT = H^-1 d lnK/dT). Frozen reactions get zero.
-    pub fn sensitivity(&self, solution: &ExtentSolution, inert: f64, rhs: &[f64]) -> Vec<f64> {
-        let active: Vec<usize> = (0..self.n_reactions)
-            .filter(|&j| !solution.frozen[j])
-            .collect();
-        let basis = Basis::new(
-            active.iter().map(|&j| (self.row(j), self.dnu[j], 0.0)),
-            self.n_species,
-        );
-        let mut scratch = vec![0.0; active.len() * active.len()];
-        let mut x: Vec<f64> = active.iter().map(|&j| rhs[j]).collect();
-        let mut out = vec![0.0; self.n_reactions];
-        if basis.newton_solve(&solution.amounts, inert, &mut x, &mut scratch) {
-            for (k, &j) in active.iter().enumerate() {
-                out[j] = x[k];
+    /// equilibrium amounts (dxi/dT = H^-1 d lnK/dT) into `out` (frozen reactions get zero).
+    /// Returns false, with `out` zeroed, when the Hessian cannot be factorised (a species so
+    /// scarce that H is numerically singular); the caller must then do without the sensitivity.
+    #[must_use]
+    pub fn sensitivity(
+        &self,
+        solution: &ExtentSolution,
+        inert: f64,
+        rhs: &[f64],
+        out: &mut [f64],
+    ) -> bool {
+        let nr = self.n_reactions;
+        if rhs.len() < nr
+            || out.len() < nr
+            || solution.frozen.len() != nr
+            || solution.amounts.len() != self.n_species
+        {
+            return false;
+        }
+        out[..nr].fill(0.0);
+        let mut active = [0usize; linalg::MAX_DIM];
+        let mut na = 0;
+        for j in 0..nr {
+            if !solution.frozen[j] {
+                active[na] = j;
+                na += 1;
             }
         }
-        out
+        let active = &active[..na];
+        if na == 0 {
+            return true;
+        }
+        const NO_LN_K: [f64; linalg::MAX_DIM] = [0.0; linalg::MAX_DIM];
+        let basis = if na == nr {
+            Basis::borrowed(&self.nu, &self.dnu, &NO_LN_K[..nr], self.n_species)
+        } else {
+            Basis::new(
+                active.iter().map(|&j| (self.row(j), self.dnu[j], 0.0)),
+                self.n_species,
+            )
+        };
+        let mut scratch = [0.0f64; linalg::MAX_DIM * linalg::MAX_DIM];
+        let mut x = [0.0f64; linalg::MAX_DIM];
+        for (k, &j) in active.iter().enumerate() {
+            x[k] = rhs[j];
+        }
+        if !basis.newton_solve(
+            &solution.amounts,
+            inert,
+            &mut x[..na],
+            &mut scratch[..na * na],
+        ) {
+            return false;
+        }
+        for (k, &j) in active.iter().enumerate() {
+            out[j] = x[k];
+        }
+        true
     }
 
     /// Move from the inlet to a point where every species of every reaction that can proceed is

@@ -2,12 +2,16 @@
 //! the energy balance closed at a fixed outlet temperature, adiabatically, or at a fixed duty.
 //!
 //! [`extents`] is the numerical core (convex extent formulation, Newton with a positivity-keeping
-//! line search); [`stage`] adds the species data, approach temperatures and energy modes.
+//! line search); [`stage`] adds the species data, approach temperatures and energy modes;
+//! [`root`] is the safeguarded Newton search on one unknown that every temperature search uses
+//! (the stage's, and the energy balances of the units on a fixed composition).
 
 mod basis;
 pub mod extents;
 mod linalg;
+pub mod root;
 pub mod stage;
 
 pub use extents::{ExtentSolution, ExtentSystem};
+pub use root::{Root, RootOptions, Termination};
 pub use stage::{Direction, EnergyMode, EquilibriumStage, StageInlet, StageReaction, StageResult};

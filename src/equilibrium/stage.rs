@@ -4,12 +4,16 @@
 //! Approach convention: reaction j takes its equilibrium constant at T_eq,j = T - s_j dT_j with
 //! s_j = +1 when it runs in its endothermic direction in the stage and -1 when it runs in its
 //! exothermic direction, so a positive approach always leaves the outlet short of equilibrium.
-//! Adiabatic and fixed-duty stages wrap the extent solve in Newton's method on temperature with
-//! the exact derivative dH/dT = sum n_i Cp_i + sum_i H_i sum_j nu_ji dxi_j/dT, where
-//! dxi/dT = H^-1 d lnK/dT and d lnK/dT = dH_r / (R T_eq^2) (van 't Hoff), kept inside a bracket
-//! that bisection narrows when a Newton step would leave it.
+//! Adiabatic and fixed-duty stages wrap the extent solve in a search on temperature for
+//! H_out(T) = H_in + duty: Newton's method with the exact derivative
+//! dH/dT = sum n_i Cp_i + sum_i H_i sum_j nu_ji dxi_j/dT, where dxi/dT = H^-1 d lnK/dT and
+//! d lnK/dT = dH_r / (R T_eq^2) (van 't Hoff), safeguarded by bisection ([`super::root`]). The
+//! energy residual is normalised by n_in R T_in, in the search and in the reported residual
+//! alike, so that a stream whose total enthalpy is near zero is judged like any other.
 
 use super::extents::{ExtentSolution, ExtentSystem};
+use super::linalg::MAX_DIM;
+use super::root::{self, Evaluation, Root, RootOptions, Termination};
 use crate::error::{Error, Result};
 use crate::quantity::{R_GAS, STANDARD_PRESSURE_PA};
 use crate::reaction::Reaction;
@@ -18,7 +22,9 @@ use crate::thermo::{Nasa7, Phase, SpeciesDb};
 /// Which way a reaction is taken to run when its approach temperature is applied.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Direction {
-    /// Decided from a solve at zero approach: the sign of the extent there.
+    /// Decided from a solve at zero approach: the sign of the extent there. An extent within
+    /// [`EXTENT_SIGN_TOLERANCE`] of the largest flow of the reaction's species is taken as zero
+    /// (the reaction is at equilibrium at the inlet) and the reaction as running as written.
     Auto,
     /// Runs as written (reforming: toward CO and H2).
     Forward,
@@ -84,13 +90,18 @@ pub struct StageResult {
     pub frozen: Vec<bool>,
     /// Equilibrium residual of each reaction, sum nu ln(y P/P0) - ln K(T_eq).
     pub residuals: Vec<f64>,
-    /// Energy balance residual |H_out - H_in - duty| relative to max(|H_in|, |H_out|).
+    /// Energy balance residual |H_out - H_in - duty| / (n_in R T_in), with n_in the total inlet
+    /// flow and T_in the inlet temperature (the normalisation of the temperature search).
     pub energy_residual: f64,
     /// Newton iterations of the extent solves, summed.
     pub iterations: usize,
     /// Temperature iterations (zero for a fixed outlet temperature).
     pub temperature_iterations: usize,
-    /// True when every residual is within tolerance.
+    /// How the temperature search ended (`None` for a fixed outlet temperature): termination
+    /// reason, Newton and bisection steps, and evaluations whose slope dH/dT was unavailable.
+    pub temperature_search: Option<Root>,
+    /// True when every residual is within tolerance: the extent solve's, and the energy
+    /// residual within [`ENERGY_TOLERANCE`] (adiabatic and fixed duty).
     pub converged: bool,
 }
 
@@ -113,11 +124,20 @@ pub struct EquilibriumStage {
     member: Vec<bool>,
 }
 
-const TEMPERATURE_TOLERANCE_K: f64 = 1e-9;
-const ENERGY_TOLERANCE: f64 = 1e-12;
+/// Largest energy residual |H_out - H_in - duty| / (n_in R T_in) of a converged adiabatic or
+/// fixed-duty stage; the temperature search stops there too (about 1e-8 K of outlet temperature).
+pub const ENERGY_TOLERANCE: f64 = 1e-10;
+/// Bracket length at which the temperature search stops, K (the round-off floor of the energy
+/// residual; the energy tolerance still decides convergence).
+const TEMPERATURE_STEP_TOLERANCE_K: f64 = 1e-9;
+/// Equilibrium evaluations the temperature search may take.
 const MAX_TEMPERATURE_ITERATIONS: usize = 100;
-/// Most species the reactions of one stage may involve.
-pub const MAX_STAGE_SPECIES: usize = 32;
+/// An extent at zero approach below this fraction of the largest flow (inlet or outlet) of the
+/// reaction's species is taken as zero when [`Direction::Auto`] is decided; the same bound on
+/// |ln K - ln Q| decides a lone reaction at its inlet. Both are scale-free.
+pub const EXTENT_SIGN_TOLERANCE: f64 = 1e-9;
+/// Most species the reactions of one stage may involve (the extent solver's limit).
+pub const MAX_STAGE_SPECIES: usize = super::extents::MAX_SPECIES;
 
 impl EquilibriumStage {
     /// Prepare a stage. Only gas-phase reactions are allowed (carbon formation is judged by
@@ -218,11 +238,12 @@ impl EquilibriumStage {
             self.reactions
                 .iter()
                 .zip(&zero.extents)
-                .map(|(r, x)| match r.direction {
+                .enumerate()
+                .map(|(j, (r, x))| match r.direction {
                     Direction::Forward => 1.0,
                     Direction::Backward => -1.0,
                     Direction::Auto => {
-                        if *x < 0.0 {
+                        if *x < -EXTENT_SIGN_TOLERANCE * self.largest_flow(j, inlet.flows, &zero) {
                             -1.0
                         } else {
                             1.0
@@ -243,6 +264,18 @@ impl EquilibriumStage {
                 .collect()
         };
         self.solve_with(db, inlet, mode, guess, &directions, false)
+    }
+
+    /// Largest flow, inlet or outlet of `zero`, of the species of reaction `j` (mol/s).
+    fn largest_flow(&self, j: usize, inlet: &[f64], zero: &StageResult) -> f64 {
+        let mut largest = 0.0f64;
+        for (k, &i) in self.species.iter().enumerate() {
+            if self.system.nu(j, k) != 0.0 {
+                let out = zero.outlet_flows.get(i).copied().unwrap_or(0.0);
+                largest = largest.max(inlet[i]).max(out);
+            }
+        }
+        largest
     }
 
     /// The direction of a lone reaction without solving: the sign of its extent is that of
@@ -281,7 +314,7 @@ impl EquilibriumStage {
         Some(match (reactant_absent, product_absent) {
             (_, true) => 1.0,
             (true, false) => -1.0,
-            (false, false) if ln_k >= ln_q => 1.0,
+            (false, false) if ln_k - ln_q >= -EXTENT_SIGN_TOLERANCE => 1.0,
             _ => -1.0,
         })
     }
@@ -296,26 +329,32 @@ impl EquilibriumStage {
         zero_approach: bool,
     ) -> Result<StageResult> {
         let ctx = Context::new(self, db, inlet)?;
+        let nr = self.reactions.len();
         let mut state = StageState {
-            guess: guess.map(|g| g.to_vec()),
+            guess: guess.filter(|g| g.len() == nr).map(|g| g.to_vec()),
+            tangent: None,
             iterations: 0,
-            equilibrium_temperatures_k: vec![0.0; self.reactions.len()],
-            approach_signs: vec![0.0; self.reactions.len()],
+            equilibrium_temperatures_k: vec![0.0; nr],
+            approach_signs: vec![0.0; nr],
         };
-        let (temperature_k, solution, t_iter) = match mode {
+        let (temperature_k, solution, search) = match mode {
             EnergyMode::FixedTemperature { temperature_k } => {
                 ctx.check_temperature(temperature_k)?;
+                let mut dlnk_dt = [0.0; MAX_DIM];
                 let sol = self.equilibrium_at(
                     &ctx,
                     temperature_k,
                     directions,
                     zero_approach,
                     &mut state,
+                    &mut dlnk_dt,
                 )?;
-                (temperature_k, sol.0, 0)
+                (temperature_k, sol, None)
             }
             EnergyMode::Adiabatic => {
-                self.temperature_search(&ctx, 0.0, directions, zero_approach, &mut state)?
+                let (t, sol, root) =
+                    self.temperature_search(&ctx, 0.0, directions, zero_approach, &mut state)?;
+                (t, sol, Some(root))
             }
             EnergyMode::FixedDuty { duty_w } => {
                 if !duty_w.is_finite() {
@@ -325,7 +364,9 @@ impl EquilibriumStage {
                         reason: "must be finite".into(),
                     });
                 }
-                self.temperature_search(&ctx, duty_w, directions, zero_approach, &mut state)?
+                let (t, sol, root) =
+                    self.temperature_search(&ctx, duty_w, directions, zero_approach, &mut state)?;
+                (t, sol, Some(root))
             }
         };
         let mut outlet = inlet.flows.to_vec();
@@ -339,10 +380,10 @@ impl EquilibriumStage {
             EnergyMode::Adiabatic => 0.0,
             EnergyMode::FixedDuty { duty_w } => duty_w,
         };
-        let energy_residual =
-            (h_out - h_in - duty_w).abs() / h_in.abs().max(h_out.abs()).max(1e-300);
+        let energy_residual = (h_out - h_in - duty_w).abs() / ctx.enthalpy_scale;
         let converged = solution.converged
-            && (matches!(mode, EnergyMode::FixedTemperature { .. }) || energy_residual <= 1e-9);
+            && (matches!(mode, EnergyMode::FixedTemperature { .. })
+                || energy_residual <= ENERGY_TOLERANCE);
         Ok(StageResult {
             outlet_flows: outlet,
             outlet_temperature_k: temperature_k,
@@ -354,7 +395,8 @@ impl EquilibriumStage {
             residuals: solution.residuals,
             energy_residual,
             iterations: state.iterations,
-            temperature_iterations: t_iter,
+            temperature_iterations: search.map_or(0, |r| r.iterations),
+            temperature_search: search,
             converged,
         })
     }
@@ -371,7 +413,9 @@ impl EquilibriumStage {
         rt * (local + inert)
     }
 
-    /// Equilibrium at stream temperature `t`; also returns d lnK/dT of each reaction.
+    /// Equilibrium at stream temperature `t`; `dlnk_dt` receives d lnK/dT of each reaction.
+    /// The extent solve starts from the tangent prediction of the last evaluation when there is
+    /// one and it keeps every flow positive, else from the last extents or the caller's guess.
     fn equilibrium_at(
         &self,
         ctx: &Context<'_>,
@@ -379,11 +423,11 @@ impl EquilibriumStage {
         directions: &[f64],
         zero_approach: bool,
         state: &mut StageState,
-    ) -> Result<(ExtentSolution, Vec<f64>)> {
+        dlnk_dt: &mut [f64; MAX_DIM],
+    ) -> Result<ExtentSolution> {
         let nr = self.reactions.len();
         let ns = self.species.len();
-        let mut ln_k = vec![0.0; nr];
-        let mut dlnk_dt = vec![0.0; nr];
+        let mut ln_k = [0.0f64; MAX_DIM];
         // Species values at the stream temperature, shared by reactions without an approach.
         let mut h_rt = [0.0f64; MAX_STAGE_SPECIES];
         let mut g_rt = [0.0f64; MAX_STAGE_SPECIES];
@@ -408,12 +452,15 @@ impl EquilibriumStage {
                 continue;
             }
             let t_eq = t - s * approach;
-            if !(t_eq > 0.0) || !self.nasa.iter().all(|n| n.in_range(t_eq)) {
+            if !(t_eq >= ctx.t_min && t_eq <= ctx.t_max) {
                 return Err(Error::InvalidValue {
                     field: format!("approach of {}", r.reaction.name),
                     value: format!("{approach} K"),
                     reason: format!(
-                        "gives an equilibrium temperature of {t_eq:.2} K, outside the species data"
+                        "gives an equilibrium temperature of {t_eq:.2} K at a stream \
+                         temperature of {t:.2} K, outside the species data range \
+                         {:.2}-{:.2} K; give a smaller approach",
+                        ctx.t_min, ctx.t_max
                     ),
                 });
             }
@@ -429,10 +476,22 @@ impl EquilibriumStage {
             ln_k[j] = -g;
             dlnk_dt[j] = h / t_eq;
         }
-        let local = &ctx.local_inlet;
-        let sol = self
-            .system
-            .solve(local, ctx.inert, &ln_k, ctx.ln_p, state.guess.as_deref())?;
+        if let Some(tangent) = &state.tangent {
+            let guess = state.guess.get_or_insert_with(|| vec![0.0; nr]);
+            for j in 0..nr {
+                guess[j] = tangent.extents[j] + tangent.slope[j] * (t - tangent.temperature_k);
+            }
+            if !self.guess_feasible(ctx, guess) {
+                guess.copy_from_slice(&tangent.extents);
+            }
+        }
+        let sol = self.system.solve(
+            &ctx.local_inlet,
+            ctx.inert,
+            &ln_k[..nr],
+            ctx.ln_p,
+            state.guess.as_deref(),
+        )?;
         state.iterations += sol.iterations;
         if !sol.converged {
             return Err(Error::NotConverged {
@@ -442,10 +501,12 @@ impl EquilibriumStage {
                 hint: "; check the inlet composition and approach temperatures".into(),
             });
         }
-        Ok((sol, dlnk_dt))
+        Ok(sol)
     }
 
-    /// Newton on temperature for H_out(T) = H_in + duty, inside a shrinking bracket.
+    /// The temperature at which H_out(T) = H_in + duty, by the safeguarded Newton search of
+    /// [`root::solve_increasing`] on the residual (H_out - H_in - duty) / (n_in R T_in), inside
+    /// the species data range narrowed by the largest approach.
     fn temperature_search(
         &self,
         ctx: &Context<'_>,
@@ -453,71 +514,164 @@ impl EquilibriumStage {
         directions: &[f64],
         zero_approach: bool,
         state: &mut StageState,
-    ) -> Result<(f64, ExtentSolution, usize)> {
+    ) -> Result<(f64, ExtentSolution, Root)> {
         let target = ctx.inlet_enthalpy + duty_w;
-        let (t_min, t_max) = ctx.valid_range();
-        let margin = self.approach_margin(zero_approach);
-        let (mut lo, mut hi) = (t_min + margin, t_max - margin);
-        let mut t = ctx.inlet.temperature_k.clamp(lo, hi);
-        let scale = target.abs().max(ctx.enthalpy_scale);
-        let mut last_residual = f64::INFINITY;
-        for iteration in 1..=MAX_TEMPERATURE_ITERATIONS {
-            let (sol, dlnk_dt) = self.equilibrium_at(ctx, t, directions, zero_approach, state)?;
-            let (h, dh_dt, dxi) = self.outlet_enthalpy(ctx, &sol, t, &dlnk_dt);
-            let f = h - target;
-            last_residual = f.abs() / scale;
-            if f.abs() <= ENERGY_TOLERANCE * scale {
-                return Ok((t, sol, iteration));
+        let range = self.search_range(ctx, directions, zero_approach)?;
+        let (lo, hi) = (range.lo, range.hi);
+        let scale = ctx.enthalpy_scale;
+        let options = RootOptions {
+            residual_tolerance: ENERGY_TOLERANCE,
+            step_tolerance: TEMPERATURE_STEP_TOLERANCE_K,
+            max_iterations: MAX_TEMPERATURE_ITERATIONS,
+        };
+        let mut last: Option<(f64, ExtentSolution)> = None;
+        let root = root::solve_increasing(lo, hi, ctx.inlet.temperature_k, options, |t| {
+            let mut dlnk_dt = [0.0; MAX_DIM];
+            let sol =
+                self.equilibrium_at(ctx, t, directions, zero_approach, state, &mut dlnk_dt)?;
+            let tangent = state.tangent.get_or_insert_with(|| Tangent {
+                temperature_k: t,
+                extents: vec![0.0; sol.extents.len()],
+                slope: vec![0.0; sol.extents.len()],
+            });
+            let (h, dh_dt) = self.outlet_enthalpy(ctx, &sol, t, &dlnk_dt, &mut tangent.slope);
+            tangent.temperature_k = t;
+            tangent.extents.copy_from_slice(&sol.extents);
+            if dh_dt.is_none() {
+                // No sensitivity: the next solve starts from these extents, not a prediction.
+                tangent.slope.fill(0.0);
             }
-            if f > 0.0 {
-                hi = t;
-            } else {
-                lo = t;
-            }
-            let mut t_new = t - f / dh_dt;
-            let newton_ok = dh_dt.is_finite() && dh_dt > 0.0 && t_new > lo && t_new < hi;
-            if !newton_ok {
-                t_new = 0.5 * (lo + hi);
-            }
-            if (t_new - t).abs() <= TEMPERATURE_TOLERANCE_K * t.max(1.0) * 1e-3 || hi - lo < 1e-12 {
-                let (sol, _) = self.equilibrium_at(ctx, t_new, directions, zero_approach, state)?;
-                return Ok((t_new, sol, iteration + 1));
-            }
-            // Predict the extents at the new temperature from the sensitivity.
-            let predicted: Vec<f64> = sol
-                .extents
-                .iter()
-                .zip(&dxi)
-                .map(|(x, d)| x + d * (t_new - t))
-                .collect();
-            state.guess = Some(predicted);
-            if !self.guess_feasible(ctx, state.guess.as_deref()) {
-                state.guess = Some(sol.extents.clone());
-            }
-            t = t_new;
-        }
-        Err(Error::NotConverged {
+            last = Some((t, sol));
+            Ok::<_, Error>(Evaluation {
+                value: (h - target) / scale,
+                slope: dh_dt.map(|d| d / scale),
+            })
+        })?;
+        let stop = |hint: String| Error::NotConverged {
             what: "stage temperature (energy balance)".into(),
-            iterations: MAX_TEMPERATURE_ITERATIONS,
-            residual: last_residual,
-            hint: "; the energy balance has no solution inside the species data range".into(),
-        })
+            iterations: root.iterations,
+            residual: root.residual,
+            hint,
+        };
+        match root.termination {
+            Termination::Converged | Termination::BracketNarrowed => {}
+            Termination::RootAboveBracket => {
+                return Err(stop(format!(
+                    "; the outlet would lie above {hi:.2} K, {}; check the duty, the feed and \
+                     the approaches",
+                    self.range_end(ctx, range.hi_set_by)
+                )))
+            }
+            Termination::RootBelowBracket => {
+                return Err(stop(format!(
+                    "; the outlet would lie below {lo:.2} K, {}; check the duty, the feed and \
+                     the approaches",
+                    self.range_end(ctx, range.lo_set_by)
+                )))
+            }
+            Termination::IterationLimit => {
+                return Err(stop(format!(
+                    "; the temperature search reached its limit of {MAX_TEMPERATURE_ITERATIONS} \
+                     equilibrium evaluations"
+                )))
+            }
+            Termination::NotFinite => {
+                return Err(stop(
+                    "; the energy balance gave a value that is not finite".into(),
+                ))
+            }
+            Termination::InvalidBracket => {
+                return Err(stop(format!(
+                    "; no usable temperature range ({lo:.2}-{hi:.2} K)"
+                )))
+            }
+        }
+        // The best point is usually the last one evaluated; otherwise solve there again.
+        let sol = match last {
+            Some((t, sol)) if t == root.x => sol,
+            _ => {
+                state.tangent = None;
+                let mut dlnk_dt = [0.0; MAX_DIM];
+                self.equilibrium_at(ctx, root.x, directions, zero_approach, state, &mut dlnk_dt)?
+            }
+        };
+        Ok((root.x, sol, root))
     }
 
-    fn approach_margin(&self, zero_approach: bool) -> f64 {
+    /// Stream temperatures at which every reaction's equilibrium temperature T - s_j dT_j lies
+    /// inside the species data range, with s_j taken at the inlet temperature: the range and,
+    /// for each end, the reaction whose approach set it (if any). An error names the approach
+    /// and the data range when nothing is left.
+    fn search_range(
+        &self,
+        ctx: &Context<'_>,
+        directions: &[f64],
+        zero_approach: bool,
+    ) -> Result<SearchRange> {
+        let (t_min, t_max) = (ctx.t_min, ctx.t_max);
+        let mut range = SearchRange {
+            lo: t_min,
+            hi: t_max,
+            lo_set_by: None,
+            hi_set_by: None,
+        };
         if zero_approach {
-            0.0
-        } else {
-            self.reactions
-                .iter()
-                .fold(0.0f64, |m, r| m.max(r.approach_k.abs()))
+            return Ok(range);
+        }
+        let t_ref = ctx.inlet.temperature_k.max(t_min).min(t_max);
+        for (j, r) in self.reactions.iter().enumerate() {
+            if r.approach_k == 0.0 {
+                continue;
+            }
+            let dh_rt: f64 = (0..self.species.len())
+                .map(|k| self.system.nu(j, k) * self.nasa[k].h_rt(t_ref))
+                .sum();
+            let s = if dh_rt * directions[j] >= 0.0 {
+                1.0
+            } else {
+                -1.0
+            };
+            let shift = s * r.approach_k;
+            if t_min + shift > range.lo {
+                range.lo = t_min + shift;
+                range.lo_set_by = Some(j);
+            }
+            if t_max + shift < range.hi {
+                range.hi = t_max + shift;
+                range.hi_set_by = Some(j);
+            }
+            if !(range.lo < range.hi) {
+                return Err(Error::InvalidValue {
+                    field: format!("approach of {}", r.reaction.name),
+                    value: format!("{} K", r.approach_k),
+                    reason: format!(
+                        "leaves no outlet temperature whose equilibrium temperatures lie inside \
+                         the species data range {t_min:.2}-{t_max:.2} K; give a smaller approach"
+                    ),
+                });
+            }
+        }
+        Ok(range)
+    }
+
+    /// Why the search range ends where it does, for messages.
+    fn range_end(&self, ctx: &Context<'_>, set_by: Option<usize>) -> String {
+        match set_by {
+            Some(j) => format!(
+                "where the equilibrium temperature of {} (approach {} K) leaves the species \
+                 data range {:.2}-{:.2} K",
+                self.reactions[j].reaction.name, self.reactions[j].approach_k, ctx.t_min, ctx.t_max
+            ),
+            None => format!(
+                "the end of the species data range {:.2}-{:.2} K",
+                ctx.t_min, ctx.t_max
+            ),
         }
     }
 
-    fn guess_feasible(&self, ctx: &Context<'_>, guess: Option<&[f64]>) -> bool {
-        let Some(g) = guess else { return false };
+    fn guess_feasible(&self, ctx: &Context<'_>, g: &[f64]) -> bool {
         (0..self.species.len()).all(|k| {
-            let n0 = ctx.inlet.flows[self.species[k]];
+            let n0 = ctx.local_inlet[k];
             let n = n0
                 + (0..self.reactions.len())
                     .map(|j| self.system.nu(j, k) * g[j])
@@ -526,19 +680,21 @@ impl EquilibriumStage {
         })
     }
 
-    /// Outlet enthalpy (W) at `t`, its total derivative along the equilibrium (W/K), and the
-    /// sensitivity of the extents to temperature (mol/s per K).
+    /// Outlet enthalpy (W) at `t` and its total derivative along the equilibrium (W/K); `dxi`
+    /// receives the sensitivity of the extents to temperature (mol/s per K). The derivative is
+    /// `None` when the sensitivity could not be solved (the search then bisects).
     fn outlet_enthalpy(
         &self,
         ctx: &Context<'_>,
         sol: &ExtentSolution,
         t: f64,
-        dlnk_dt: &[f64],
-    ) -> (f64, f64, Vec<f64>) {
+        dlnk_dt: &[f64; MAX_DIM],
+        dxi: &mut [f64],
+    ) -> (f64, Option<f64>) {
         let rt = R_GAS * t;
         let mut h = 0.0;
         let mut cp = 0.0;
-        let mut h_i = vec![0.0; self.species.len()];
+        let mut h_i = [0.0f64; MAX_STAGE_SPECIES];
         for (k, n) in sol.amounts.iter().enumerate() {
             h_i[k] = rt * self.nasa[k].h_rt(t);
             h += n * h_i[k];
@@ -548,26 +704,46 @@ impl EquilibriumStage {
             h += n * rt * nasa.h_rt(t);
             cp += n * R_GAS * nasa.cp_r(t);
         }
-        let dxi = self.system.sensitivity(sol, ctx.inert, dlnk_dt);
+        if !self.system.sensitivity(sol, ctx.inert, dlnk_dt, dxi) {
+            return (h, None);
+        }
         let mut dh = cp;
         for (j, d) in dxi.iter().enumerate() {
             let mut dh_r = 0.0;
-            for (k, hk) in h_i.iter().enumerate() {
+            for (k, hk) in h_i[..self.species.len()].iter().enumerate() {
                 dh_r += self.system.nu(j, k) * hk;
             }
             dh += dh_r * d;
         }
-        (h, dh, dxi)
+        (h, dh.is_finite().then_some(dh))
     }
 }
 
 struct StageState {
+    /// Extents the next extent solve starts from.
     guess: Option<Vec<f64>>,
+    /// The last point of the temperature search, for the next start.
+    tangent: Option<Tangent>,
     iterations: usize,
     /// T_eq,j of the last equilibrium evaluated, K.
     equilibrium_temperatures_k: Vec<f64>,
     /// s_j of the last equilibrium evaluated.
     approach_signs: Vec<f64>,
+}
+
+/// The stream temperatures a search may visit, and the reaction whose approach set each end.
+struct SearchRange {
+    lo: f64,
+    hi: f64,
+    lo_set_by: Option<usize>,
+    hi_set_by: Option<usize>,
+}
+
+/// Extents at a temperature and their derivative there: x(T') ~ x + slope (T' - T).
+struct Tangent {
+    temperature_k: f64,
+    extents: Vec<f64>,
+    slope: Vec<f64>,
 }
 
 /// What a solve needs to know about the inlet, computed once.
@@ -658,10 +834,6 @@ impl<'a> Context<'a> {
             t_min,
             t_max,
         })
-    }
-
-    fn valid_range(&self) -> (f64, f64) {
-        (self.t_min, self.t_max)
     }
 
     fn check_temperature(&self, t: f64) -> Result<()> {

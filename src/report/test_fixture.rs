@@ -33,6 +33,7 @@ fn stage(outlet: &Stream, residuals: Vec<f64>, converged: bool) -> StageResult {
         energy_residual: 1.0e-12,
         iterations: 7,
         temperature_iterations: 0,
+        temperature_search: None,
         residuals,
         converged,
     }

@@ -1,8 +1,10 @@
 //! Helpers shared by the unit operations: inlet and spec checks, energy balances on a fixed
-//! composition (Newton's method on temperature with the exact derivative dH/dT = sum n_i Cp_i),
-//! the water dew point (IAPWS-IF97 saturation line), approach lists, and figure building.
+//! composition (safeguarded Newton's method on temperature with the exact derivative
+//! dH/dT = sum n_i Cp_i), the water dew point (IAPWS-IF97 saturation line), approach lists, and
+//! figure building.
 
 use super::{Figure, FigureKind, Stream, StreamPhase, Warning};
+use crate::equilibrium::root::{self, Evaluation, RootOptions, Termination};
 use crate::equilibrium::{Direction, EquilibriumStage, StageReaction, StageResult};
 use crate::error::{Error, Result, ResultExt};
 use crate::quantity::{kelvin_to_degc, R_GAS};
@@ -285,8 +287,13 @@ fn enthalpy_and_cp(db: &SpeciesDb, flows: &[f64], t: f64) -> (f64, f64) {
     (h * R_GAS * t, cp * R_GAS)
 }
 
-/// Temperature (K) at which a fixed vapour composition has enthalpy `target_w`: Newton's method
-/// with dH/dT = sum n_i Cp_i inside the data-range bracket, bisection when a step leaves it.
+/// Largest energy residual |H(T) - target| / (n R T_start) of a fixed-composition energy
+/// balance (about 2e-11 K of temperature; the enthalpy itself is exact to round-off).
+const FIXED_COMPOSITION_ENERGY_TOLERANCE: f64 = 1e-13;
+
+/// Temperature (K) at which a fixed vapour composition has enthalpy `target_w`, by the
+/// safeguarded Newton search of [`root::solve_increasing`] with dH/dT = sum n_i Cp_i inside the
+/// data range, on the residual (H(T) - target) / (n R T_start).
 pub(crate) fn temperature_at_enthalpy(
     db: &SpeciesDb,
     unit: &str,
@@ -294,51 +301,50 @@ pub(crate) fn temperature_at_enthalpy(
     target_w: f64,
     start_k: f64,
 ) -> Result<f64> {
-    let (mut lo, mut hi) = data_range(db, flows);
+    let (lo, hi) = data_range(db, flows);
     let total: f64 = flows.iter().sum();
     if total <= 0.0 {
         return Ok(start_k);
     }
-    let (h_lo, _) = enthalpy_and_cp(db, flows, lo);
-    let (h_hi, _) = enthalpy_and_cp(db, flows, hi);
-    if !(target_w >= h_lo && target_w <= h_hi) {
-        return Err(spec_error(
+    let reference_k = if start_k.is_finite() && start_k > 0.0 {
+        start_k
+    } else {
+        hi
+    };
+    let scale = total * R_GAS * reference_k;
+    let options = RootOptions {
+        residual_tolerance: FIXED_COMPOSITION_ENERGY_TOLERANCE,
+        step_tolerance: 1e-11,
+        max_iterations: 100,
+    };
+    let root = root::solve_increasing(lo, hi, reference_k, options, |t| {
+        let (h, cp) = enthalpy_and_cp(db, flows, t);
+        Ok::<_, Error>(Evaluation {
+            value: (h - target_w) / scale,
+            slope: Some(cp / scale),
+        })
+    })?;
+    let outside = |side: &str| {
+        spec_error(
             unit,
             "energy balance",
             format!(
-                "the outlet temperature would lie outside the species data range \
+                "the outlet temperature would lie {side} the species data range \
                  {lo:.2}-{hi:.2} K (no extrapolation is done); check the duty"
             ),
-        ));
+        )
+    };
+    match root.termination {
+        Termination::RootAboveBracket => Err(outside("above")),
+        Termination::RootBelowBracket => Err(outside("below")),
+        _ if root.within(FIXED_COMPOSITION_ENERGY_TOLERANCE) => Ok(root.x),
+        termination => Err(Error::NotConverged {
+            what: format!("energy balance of unit '{unit}'"),
+            iterations: root.iterations,
+            residual: root.residual,
+            hint: format!("; the temperature search stopped: {termination}"),
+        }),
     }
-    let scale = target_w.abs().max(total * R_GAS * start_k);
-    let mut t = start_k.clamp(lo, hi);
-    for _ in 0..100 {
-        let (h, cp) = enthalpy_and_cp(db, flows, t);
-        let f = h - target_w;
-        if f.abs() <= 1e-14 * scale {
-            return Ok(t);
-        }
-        if f > 0.0 {
-            hi = t;
-        } else {
-            lo = t;
-        }
-        let mut next = t - f / cp;
-        if !(next > lo && next < hi) {
-            next = 0.5 * (lo + hi);
-        }
-        if (next - t).abs() <= 1e-12 * t {
-            return Ok(next);
-        }
-        t = next;
-    }
-    Err(Error::NotConverged {
-        what: format!("energy balance of unit '{unit}'"),
-        iterations: 100,
-        residual: f64::NAN,
-        hint: String::new(),
-    })
 }
 
 /// Enthalpy of a set of streams, W.
@@ -519,8 +525,25 @@ mod tests {
         let h = crate::thermo::mixture::enthalpy(&db, &n, 812.34).unwrap();
         let t = temperature_at_enthalpy(&db, "u", &n, h, 400.0).unwrap();
         assert!((t - 812.34).abs() < 1e-9);
-        // Outside the data range (200-3000 K here) is an error, not an extrapolation.
-        assert!(temperature_at_enthalpy(&db, "u", &n, h * 10.0, 400.0).is_err());
+        // From a start far on the other side, and from a start outside the data range.
+        for start in [2900.0, 250.0, 1e5, f64::NAN] {
+            let t = temperature_at_enthalpy(&db, "u", &n, h, start).unwrap();
+            assert!((t - 812.34).abs() < 1e-9, "from {start}: {t}");
+        }
+        // Outside the data range (200-3000 K here, data/species.yaml) is an error naming the
+        // side, not an extrapolation.
+        let h_top = crate::thermo::mixture::enthalpy(&db, &n, 3000.0).unwrap();
+        let h_bottom = crate::thermo::mixture::enthalpy(&db, &n, 200.0).unwrap();
+        let above = temperature_at_enthalpy(&db, "u", &n, h_top + 1.0, 400.0).unwrap_err();
+        assert!(
+            above.to_string().contains("above the species data range"),
+            "{above}"
+        );
+        let below = temperature_at_enthalpy(&db, "u", &n, h_bottom - 1.0, 400.0).unwrap_err();
+        assert!(
+            below.to_string().contains("below the species data range"),
+            "{below}"
+        );
     }
 
     #[test]
