@@ -135,13 +135,27 @@ pub enum Error {
     },
 
     /// A YAML file could not be read into the model.
-    #[error("{path}{location}: {message}")]
+    #[error("{path}{}: {message}", Position::suffix(position))]
     Yaml {
         /// File path (or `<embedded data/species.yaml>`).
         path: String,
-        /// ":line:column" where known, else empty.
-        location: String,
+        /// Line and column where known.
+        position: Option<Position>,
         /// The parser's message.
+        message: String,
+    },
+
+    /// A value of an input file that cannot be used, found after the file was read: with the
+    /// file, the position of the value and its input path (`units.hts.approach.shift`).
+    #[error("{file}{}: {input}: {message}", Position::suffix(position))]
+    Input {
+        /// The file (or the origin given for a text).
+        file: String,
+        /// Line and column where known.
+        position: Option<Position>,
+        /// The input path of the value (or of the entry it belongs to).
+        input: String,
+        /// What is wrong and how to fix it.
         message: String,
     },
 
@@ -168,6 +182,24 @@ pub enum Error {
     },
 }
 
+/// A line and column in an input file (1-based, as editors count).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Position {
+    /// Line, from 1.
+    pub line: usize,
+    /// Column, from 1.
+    pub column: usize,
+}
+
+impl Position {
+    /// ":line:column", or empty without a position.
+    pub fn suffix(position: &Option<Position>) -> String {
+        position
+            .map(|p| format!(":{}:{}", p.line, p.column))
+            .unwrap_or_default()
+    }
+}
+
 impl Error {
     /// Wrap this error with a line of context ("solving unit 'reformer'").
     pub fn context(self, context: impl Into<String>) -> Error {
@@ -179,13 +211,12 @@ impl Error {
 
     /// Build a YAML error from a serde_norway error, with file, line and column.
     pub fn yaml(path: impl Into<String>, err: &serde_norway::Error) -> Error {
-        let location = err
-            .location()
-            .map(|l| format!(":{}:{}", l.line(), l.column()))
-            .unwrap_or_default();
         Error::Yaml {
             path: path.into(),
-            location,
+            position: err.location().map(|l| Position {
+                line: l.line(),
+                column: l.column(),
+            }),
             message: err.to_string(),
         }
     }

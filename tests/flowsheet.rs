@@ -4,6 +4,7 @@
 
 use std::path::{Path, PathBuf};
 
+use syntrain::error::Position;
 use syntrain::flowsheet::{
     Flowsheet, FlowsheetResult, StreamSource, ELEMENT_BALANCE_TOLERANCE, ENERGY_BALANCE_TOLERANCE,
 };
@@ -73,18 +74,28 @@ fn error(text: &str) -> String {
     }
 }
 
-/// The location and message of a YAML error.
+/// The position (":line:column") and message of an error in the file, found while parsing (a
+/// YAML error) or after (an input error, with its input path in front of the message).
 fn yaml_error(text: &str) -> (String, String) {
     match read(text) {
         Err(Error::Yaml {
             path,
-            location,
+            position,
             message,
         }) => {
             assert_eq!(path, "test.yaml");
-            (location, message)
+            (Position::suffix(&position), message)
         }
-        Err(other) => panic!("expected a YAML error, got: {other}"),
+        Err(Error::Input {
+            file,
+            position,
+            input,
+            message,
+        }) => {
+            assert_eq!(file, "test.yaml");
+            (Position::suffix(&position), format!("{input}: {message}"))
+        }
+        Err(other) => panic!("expected an error with a position, got: {other}"),
         Ok(_) => panic!("expected an error for:\n{text}"),
     }
 }
@@ -235,7 +246,7 @@ fn normal_cubic_metres_convert_at_the_din_1343_molar_volume() {
         "total: 22414 Nm3/h\n    mole-fractions: {H2: 0.5, CO: 0.1, H2O: 0.4}",
     );
     let fs = read(&text).unwrap();
-    let kmol_h = fs.feeds[0].stream.total() * 3.6;
+    let kmol_h = fs.feeds()[0].stream.total() * 3.6;
     assert!((kmol_h - 1000.0).abs() <= 1000.0 * 1e-4, "{kmol_h} kmol/h");
 }
 
@@ -247,7 +258,7 @@ fn mass_flows_convert_with_the_molar_mass() {
     let h2o = db.index_of("H2O").unwrap();
     let text = replaced("H2O: 340 kmol/h", "H2O: 18015 kg/h");
     let fs = read(&text).unwrap();
-    assert!((fs.feeds[0].stream.flows[h2o] * 3.6 - 1000.0).abs() < 0.01);
+    assert!((fs.feeds()[0].stream.flows[h2o] * 3.6 - 1000.0).abs() < 0.01);
     let text = replaced(
         "flows: {H2: 480 kmol/h, CO: 90 kmol/h, CO2: 56 kmol/h, CH4: 34 kmol/h, H2O: 340 kmol/h}",
         "total: 18.015 t/h\n    mole-fractions: {H2O: 0.5, CO: 0.5}",
@@ -255,7 +266,7 @@ fn mass_flows_convert_with_the_molar_mass() {
     // M(CO) = 12.011 + 15.999 = 28.010 g/mol; mean (18.015 + 28.010) / 2 = 23.0125 g/mol.
     let fs = read(&text).unwrap();
     let expected = 18_015.0 / 23.0125;
-    assert!((fs.feeds[0].stream.total() * 3.6 - expected).abs() < 0.01);
+    assert!((fs.feeds()[0].stream.total() * 3.6 - expected).abs() < 0.01);
 }
 
 #[test]
@@ -321,8 +332,8 @@ fn shift_only_demo_shifts_to_low_co() {
 fn from_and_to_take_one_name_or_a_list() {
     let text = replaced("from: gas", "from: [gas]").replacen("to: cooled", "to: [cooled]", 1);
     let fs = read(&text).unwrap();
-    assert_eq!(fs.units[0].inlets, vec!["gas"]);
-    assert_eq!(fs.units[1].outlets, vec!["cooled"]);
+    assert_eq!(fs.units()[0].inlets, vec!["gas"]);
+    assert_eq!(fs.units()[1].outlets, vec!["cooled"]);
 }
 
 #[test]
@@ -443,8 +454,8 @@ fn misspelt_unit_key_is_an_error_at_its_line() {
     assert_has(
         &msg,
         &[
-            "units.cooler",
-            "unknown field `outlet-temprature`",
+            "units.cooler.outlet-temprature",
+            "unknown key for a cooler",
             "outlet-temperature",
         ],
     );
@@ -456,19 +467,26 @@ fn key_of_another_unit_type_is_an_error_at_its_line() {
     let text = format!("{BASE}    hydrogen-recovery: 0.9\n");
     let (loc, msg) = yaml_error(&text);
     assert_eq!(loc, ":18:5");
-    assert_has(&msg, &["units.cooler", "unknown field `hydrogen-recovery`"]);
+    assert_has(
+        &msg,
+        &[
+            "units.cooler.hydrogen-recovery",
+            "unknown key for a cooler",
+            "outlet-temperature, duty",
+        ],
+    );
 }
 
 #[test]
 fn unknown_reaction_in_approach_is_an_error() {
     let (loc, msg) = yaml_error(&replaced("{shift: 8 K}", "{reforming: 8 K}"));
-    assert_eq!(loc, ":12:16");
+    assert_eq!(loc, ":12:27");
     assert_has(
         &msg,
         &[
-            "units.hts.approach",
-            "unknown field `reforming`",
-            "expected `shift`",
+            "units.hts.approach.reforming",
+            "not part of this unit",
+            "its reactions are: shift",
         ],
     );
 }
@@ -479,7 +497,12 @@ fn unknown_unit_type_is_an_error_at_its_line() {
     assert_eq!(loc, ":9:11");
     assert_has(
         &msg,
-        &["units.hts.type", "unknown variant `shfit`", "shift"],
+        &[
+            "units.hts.type",
+            "unknown unit type 'shfit'",
+            "shift",
+            "unit-types",
+        ],
     );
 }
 
@@ -527,7 +550,7 @@ fn unknown_species_in_flows_is_an_error() {
         &[
             "unknown species 'CH5'",
             "feeds.gas.flows",
-            "at test.yaml:6:65",
+            "test.yaml:6:65: feeds.gas:",
             "known species",
         ],
     );
@@ -544,7 +567,7 @@ fn unknown_species_in_mole_fractions_is_an_error() {
         &[
             "unknown species 'Steam'",
             "feeds.gas.mole-fractions",
-            "at test.yaml:7:38",
+            "test.yaml:7:38: feeds.gas:",
         ],
     );
 }
@@ -559,7 +582,7 @@ fn unknown_species_in_impurity_split_is_an_error() {
     let e = error(&text);
     assert_has(
         &e,
-        &["unknown species 'Nitrogen'", "psa", "at test.yaml:23:32"],
+        &["unknown species 'Nitrogen'", "test.yaml:23:32: units.psa:"],
     );
 }
 
@@ -714,7 +737,7 @@ fn wrong_number_of_inlets_is_an_error() {
     assert_eq!(loc, ":13:5");
     assert_has(
         &msg,
-        &["units.cooler", "exactly 1 inlet in `from`; 2 given"],
+        &["units.cooler", "exactly 1 inlet(s) in `from`", "; 2 given"],
     );
 }
 
@@ -722,13 +745,16 @@ fn wrong_number_of_inlets_is_an_error() {
 fn wrong_number_of_outlets_is_an_error() {
     let (loc, msg) = yaml_error(&replaced("to: hts-exit", "to: [hts-exit, spare]"));
     assert_eq!(loc, ":8:5");
-    assert_has(&msg, &["units.hts", "1 outlet in `to`; 2 given"]);
+    assert_has(
+        &msg,
+        &["units.hts", "exactly 1 outlet(s) in `to`", "; 2 given"],
+    );
     let text = format!(
         "{BASE}  - {{name: ko, type: knockout, from: cooled, to: dry-gas, temperature: 40 degC}}\n"
     );
     let (loc, msg) = yaml_error(&text);
     assert_eq!(loc, ":18:5");
-    assert_has(&msg, &["units.ko", "[gas, condensate]; 1 given"]);
+    assert_has(&msg, &["units.ko", "(gas, condensate); 1 given"]);
 }
 
 // Error paths: unit specifications.
@@ -739,7 +765,8 @@ fn heater_needs_exactly_one_of_outlet_temperature_and_duty() {
         "outlet-temperature: 200 degC",
         "outlet-temperature: 200 degC\n    duty: -1 MW",
     ));
-    assert_eq!(loc, ":13:5");
+    // At the first of the two keys.
+    assert_eq!(loc, ":17:25");
     assert_has(
         &msg,
         &["units.cooler", "`outlet-temperature` or `duty`, not both"],
@@ -769,14 +796,22 @@ fn purifier_needs_exactly_one_of_purity_and_impurity_split() {
     let (loc, msg) = yaml_error(&format!(
         "{base}    purity: 0.999\n    impurity-split: 0.001\n"
     ));
-    assert_eq!(loc, ":18:5");
+    // At the first of the two keys.
+    assert_eq!(loc, ":24:13");
     assert_has(
         &msg,
-        &["units.psa", "`purity` or `impurity-split`, not both"],
+        &["units.psa", "`purity` or the `impurity-split`, not both"],
     );
     let (loc, msg) = yaml_error(&base);
     assert_eq!(loc, ":18:5");
-    assert_has(&msg, &["units.psa", "needs `purity` or `impurity-split`"]);
+    assert_has(
+        &msg,
+        &[
+            "units.psa",
+            "needs the product `purity`",
+            "`impurity-split`",
+        ],
+    );
 }
 
 #[test]
@@ -785,8 +820,9 @@ fn splitter_entries_must_name_its_outlets() {
         "{BASE}  - {{name: split, type: splitter, from: cooled, to: [a, b], fractions: {{a: 0.5, c: 0.5}}}}\n"
     );
     let (loc, msg) = yaml_error(&text);
-    assert_eq!(loc, ":18:5");
-    assert_has(&msg, &["units.split", "'c' is not an outlet"]);
+    // At the outlet name's value.
+    assert_eq!(loc, ":18:84");
+    assert_has(&msg, &["units.split.fractions.c", "'c' is not an outlet"]);
 }
 
 #[test]
@@ -799,11 +835,7 @@ fn unit_layer_spec_error_names_the_unit_and_points_at_the_key() {
     let e = error(&text);
     assert_has(
         &e,
-        &[
-            "unit 'psa'",
-            "hydrogen-recovery (at test.yaml:22:24)",
-            "above 0",
-        ],
+        &["test.yaml:22:24: units.psa.hydrogen-recovery:", "above 0"],
     );
 }
 

@@ -19,6 +19,7 @@ use crate::error::{Error, Result};
 use crate::quantity::{kelvin_to_degc, Flow};
 use crate::thermo::{water, Phase, SpeciesDb};
 use crate::units::stream::water_phase;
+use crate::units::unit::{Param, ParamTable};
 use crate::units::{FigureKind, Stream, Warning};
 
 /// Tolerance on the sum of mole fractions.
@@ -60,6 +61,109 @@ pub fn convert(db: &SpeciesDb, name: &str, model: &FeedModel) -> Result<Feed> {
         name: name.to_string(),
         stream: with_phase(db, &field, stream)?,
     })
+}
+
+/// The input slots of a feed: `feeds.NAME.temperature`, `.pressure`, `.total` and
+/// `.flows.SPECIES` for each species the file gives it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FeedInputs {
+    /// Temperature, K.
+    pub temperature: Param,
+    /// Pressure, Pa.
+    pub pressure: Param,
+    /// Total molar flow, mol/s.
+    pub total: Param,
+    /// Molar flow of each species, mol/s: (database index, slot).
+    pub flows: Vec<(usize, Param)>,
+}
+
+impl Feed {
+    /// Register the feed's inputs.
+    pub fn register(&self, db: &SpeciesDb, params: &mut ParamTable) -> FeedInputs {
+        let n = &self.name;
+        let s = &self.stream;
+        FeedInputs {
+            temperature: params.add(
+                format!("feeds.{n}.temperature"),
+                s.temperature_k,
+                FigureKind::Temperature,
+            ),
+            pressure: params.add(
+                format!("feeds.{n}.pressure"),
+                s.pressure_pa,
+                FigureKind::Pressure,
+            ),
+            total: params.add(format!("feeds.{n}.total"), s.total(), FigureKind::MolarFlow),
+            flows: s
+                .flows
+                .iter()
+                .enumerate()
+                .filter(|(_, f)| **f > 0.0)
+                .map(|(i, f)| {
+                    let path = format!("feeds.{n}.flows.{}", db.by_index(i).name);
+                    (i, params.add(path, *f, FigureKind::MolarFlow))
+                })
+                .collect(),
+        }
+    }
+
+    /// The feed's stream for a parameter vector. The flows are those of `flows.SPECIES`; when
+    /// `total` differs from the file's, they are scaled to it (so a total and a composition may
+    /// be set together). The phase follows as for the file's feed.
+    pub fn stream_with(
+        &self,
+        db: &SpeciesDb,
+        inputs: &FeedInputs,
+        params: &[f64],
+        defaults: &[f64],
+    ) -> Result<Stream> {
+        let same = |p: Param| params[p.0].to_bits() == defaults[p.0].to_bits();
+        let unchanged = same(inputs.temperature)
+            && same(inputs.pressure)
+            && same(inputs.total)
+            && inputs.flows.iter().all(|(_, p)| same(*p));
+        if unchanged {
+            return Ok(self.stream.clone());
+        }
+        let field = format!("feeds.{}", self.name);
+        let value = |p: Param, key: &str, positive: bool| -> Result<f64> {
+            let v = params[p.0];
+            if v.is_finite() && (v > 0.0 || (!positive && v >= 0.0)) {
+                Ok(v)
+            } else {
+                invalid(
+                    &format!("{field}.{key}"),
+                    &v.to_string(),
+                    if positive {
+                        "must be a positive, finite number (SI)"
+                    } else {
+                        "must be finite and not negative (SI)"
+                    },
+                )
+            }
+        };
+        let t = value(inputs.temperature, "temperature", true)?;
+        let p = value(inputs.pressure, "pressure", true)?;
+        let mut flows = vec![0.0; db.len()];
+        for (i, slot) in &inputs.flows {
+            flows[*i] = value(*slot, &format!("flows.{}", db.by_index(*i).name), false)?;
+        }
+        let sum: f64 = flows.iter().sum();
+        if !same(inputs.total) {
+            let total = value(inputs.total, "total", true)?;
+            if sum <= 0.0 {
+                return invalid(
+                    &field,
+                    "zero flow",
+                    "the feed has no flow to scale to `total`",
+                );
+            }
+            flows.iter_mut().for_each(|f| *f *= total / sum);
+        } else if sum <= 0.0 {
+            return invalid(&field, "zero flow", "the feed has no flow at all");
+        }
+        with_phase(db, &field, Stream::vapour(flows, t, p))
+    }
 }
 
 /// How close below its saturation temperature a pure-water feed is taken as liquid with a

@@ -61,15 +61,15 @@ pub struct At {
 /// A graph error and, where there is one, the place in the file it points to.
 #[derive(Debug)]
 pub struct GraphError {
-    /// The error (an [`Error::Flowsheet`]).
-    pub error: Error,
+    /// The error (an [`Error::Flowsheet`]), boxed to keep results small.
+    pub error: Box<Error>,
     /// Where it points.
     pub at: Option<At>,
 }
 
 impl From<GraphError> for Error {
     fn from(e: GraphError) -> Error {
-        e.error
+        *e.error
     }
 }
 
@@ -233,7 +233,7 @@ fn solve_order(
     }
     if order.len() < units.len() {
         return Err(GraphError {
-            error: cycle_error(graph),
+            error: Box::new(cycle_error(graph)),
             at: None,
         });
     }
@@ -272,7 +272,7 @@ fn flowsheet_error(reason: String) -> Error {
 
 fn graph_error(reason: String, at: Option<At>) -> GraphError {
     GraphError {
-        error: flowsheet_error(reason),
+        error: Box::new(flowsheet_error(reason)),
         at,
     }
 }

@@ -11,7 +11,7 @@ use std::fmt;
 use serde::de::{self, DeserializeSeed, Deserializer, IgnoredAny, MapAccess, SeqAccess, Visitor};
 use serde_norway::Value;
 
-use crate::error::Error;
+use crate::error::{Error, Position};
 
 /// One step of a path into the YAML document.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -24,46 +24,36 @@ pub enum Step<'a> {
 
 const MARKER: &str = "syntrain: located";
 
-/// Add the file position to an error found after parsing, keeping its variant: into the field
-/// of a unit-spec error, the context of an unknown-species error, the reason of a flowsheet
-/// error; any other error is wrapped with the position as context.
-pub fn annotate(err: Error, origin: &str, location: Option<String>, path_text: &str) -> Error {
-    let Some(location) = location else {
-        return err;
-    };
-    let at = format!("{origin}{location}");
-    match err {
+/// An error found after parsing as an [`Error::Input`]: the file, the position of the value
+/// (where found) and the input path as fields, the message from the error.
+pub fn annotate(err: Error, origin: &str, position: Option<Position>, path_text: &str) -> Error {
+    let (input, message) = match err {
         Error::UnitSpec {
             unit,
             field,
             reason,
-        } => Error::UnitSpec {
-            unit,
-            field: format!("{field} (at {at})"),
-            reason,
-        },
-        Error::UnknownSpecies {
-            name,
-            context,
-            known,
-        } => Error::UnknownSpecies {
-            name,
-            context: format!("{context} (at {at})"),
-            known,
-        },
+        } => {
+            if field.contains(", ") || field.contains(' ') {
+                (format!("units.{unit}"), format!("{field}: {reason}"))
+            } else {
+                (format!("units.{unit}.{field}"), reason)
+            }
+        }
         Error::InvalidValue {
             field,
             value,
             reason,
-        } => Error::InvalidValue {
-            field: format!("{field} (at {at})"),
-            value,
-            reason,
-        },
-        Error::Flowsheet { reason } => Error::Flowsheet {
-            reason: format!("{at}: {path_text}: {reason}"),
-        },
-        other => other.context(format!("{at}: {path_text}")),
+        } if field.starts_with("feeds.") || field.starts_with("units.") => {
+            (field, format!("value {value} is not allowed: {reason}"))
+        }
+        Error::Flowsheet { reason } => (path_text.to_string(), reason),
+        other => (path_text.to_string(), other.to_string()),
+    };
+    Error::Input {
+        file: origin.to_string(),
+        position,
+        input,
+        message,
     }
 }
 
@@ -72,15 +62,48 @@ pub fn field_path(field: &str) -> Vec<Step<'_>> {
     field.split('.').map(Step::Key).collect()
 }
 
-/// ":line:column" of the value at `path` in `text`, or `None` when it is not there.
-pub fn locate(text: &str, path: &[Step<'_>]) -> Option<String> {
+/// Line and column of the value at `path` in `text`, or `None` when it is not there.
+pub fn locate(text: &str, path: &[Step<'_>]) -> Option<Position> {
     let deserializer = serde_norway::Deserializer::from_str(text);
     match (Walk { path }).deserialize(deserializer) {
-        Err(e) if e.to_string().contains(MARKER) => e
-            .location()
-            .map(|l| format!(":{}:{}", l.line(), l.column())),
+        Err(e) if e.to_string().contains(MARKER) => e.location().map(|l| Position {
+            line: l.line(),
+            column: l.column(),
+        }),
         _ => None,
     }
+}
+
+/// Where a key of the mapping at `entry` (a path to a mapping) is written: the first line at or
+/// after the mapping's own position that starts with `key:` (block style) or holds `key:` after
+/// `{` or `, ` (flow style), with its column; `None` when it is not found.
+pub fn locate_key(text: &str, entry: &[Step], key: &str) -> Option<Position> {
+    let line = locate(text, entry)?.line;
+    let block = format!("{key}:");
+    let flow = [
+        format!("{{{key}:"),
+        format!(", {key}:"),
+        format!("{{ {key}:"),
+    ];
+    for (i, l) in text.lines().enumerate().skip(line.saturating_sub(1)) {
+        let trimmed = l.trim_start().trim_start_matches("- ");
+        if trimmed.starts_with(&block) {
+            return Some(Position {
+                line: i + 1,
+                column: l.len() - trimmed.len() + 1,
+            });
+        }
+        let flow_at = flow
+            .iter()
+            .find_map(|f| l.find(f.as_str()).map(|c| c + f.len() - block.len()));
+        if let Some(c) = flow_at {
+            return Some(Position {
+                line: i + 1,
+                column: c + 1,
+            });
+        }
+    }
+    None
 }
 
 /// Walk down `path`; fail at its end.
@@ -181,15 +204,12 @@ units:
 
     #[test]
     fn finds_keys_and_elements() {
-        let at = |path: &[Step]| locate(TEXT, path);
-        assert_eq!(
-            at(&[Step::Key("feeds"), Step::Key("gas")]).as_deref(),
-            Some(":2:8")
-        );
+        let at = |path: &[Step]| locate(TEXT, path).map(|p| (p.line, p.column));
+        assert_eq!(at(&[Step::Key("feeds"), Step::Key("gas")]), Some((2, 8)));
         let from = [Step::Key("units"), Step::Index(0), Step::Key("from")];
         assert_eq!(
-            at(&[from[0], from[1], from[2], Step::Index(1)]).as_deref(),
-            Some(":5:15")
+            at(&[from[0], from[1], from[2], Step::Index(1)]),
+            Some((5, 15))
         );
         let to = [
             Step::Key("units"),
@@ -197,7 +217,10 @@ units:
             Step::Key("to"),
             Step::Index(0),
         ];
-        assert_eq!(at(&to).as_deref(), Some(":6:9"));
+        assert_eq!(at(&to), Some((6, 9)));
+        let entry = [Step::Key("units"), Step::Index(0)];
+        let key = locate_key(TEXT, &entry, "to").map(|p| (p.line, p.column));
+        assert_eq!(key, Some((6, 5)));
         assert_eq!(at(&[Step::Key("units"), Step::Index(3)]), None);
         assert_eq!(at(&[Step::Key("nothing")]), None);
     }

@@ -15,6 +15,7 @@ mod checks;
 pub mod feeds;
 pub mod graph;
 mod locate;
+pub mod paths;
 pub mod result;
 mod solve;
 pub mod spec;
@@ -24,29 +25,30 @@ pub mod yaml;
 use std::path::Path;
 
 pub use feeds::Feed;
+pub use feeds::FeedInputs;
 pub use graph::FlowGraph;
 pub use result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Summary};
 pub use solve::{ELEMENT_BALANCE_TOLERANCE, ENERGY_BALANCE_TOLERANCE};
 pub use spec::FlowsheetUnit;
-pub use yaml::UnitType;
 
 use crate::error::{Error, Result};
 use crate::thermo::SpeciesDb;
+use crate::units::unit::{Param, ParamInfo, ParamTable};
 use locate::Step::{Index, Key};
 
-/// A checked flowsheet: feeds and unit specifications in SI, the graph and the solve order.
+/// A compiled flowsheet: read and checked once, its units built (equilibrium stages prepared),
+/// every numeric input given a slot in a parameter vector under its input path. Immutable and
+/// `Send + Sync`: solve it as often as needed, from many threads, with the parameter vector of
+/// the file ([`Flowsheet::solve`]) or one a study changed ([`Flowsheet::solve_with`]).
 #[derive(Debug, Clone)]
 pub struct Flowsheet {
-    /// Title (the file's `title`, else its name).
-    pub title: String,
-    /// Where the flowsheet was read from (file path or the origin given).
-    pub origin: String,
-    /// Feeds, in file order.
-    pub feeds: Vec<Feed>,
-    /// Units, in file order.
-    pub units: Vec<FlowsheetUnit>,
-    /// Graph of feeds, units and streams, with the solve order.
-    pub graph: FlowGraph,
+    title: String,
+    origin: String,
+    feeds: Vec<Feed>,
+    feed_inputs: Vec<FeedInputs>,
+    units: Vec<FlowsheetUnit>,
+    graph: FlowGraph,
+    params: ParamTable,
 }
 
 impl Flowsheet {
@@ -87,17 +89,27 @@ impl Flowsheet {
                 })
             })
             .collect::<Result<Vec<Feed>>>()?;
+        let mut params = ParamTable::default();
+        let feed_inputs = feeds.iter().map(|f| f.register(db, &mut params)).collect();
         let units = model
             .units
             .iter()
             .enumerate()
             .map(|(i, unit)| {
-                spec::convert(db, unit).map_err(|e| {
+                spec::build(db, unit, &mut params).map_err(|e| {
                     let entry = [Key("units"), Index(i)];
                     let location = match &e {
-                        Error::UnitSpec { field, .. } => {
+                        Error::UnitSpec { field, reason, .. } => {
                             let key = field.split(", ").next().unwrap_or_default();
-                            locate::locate(text, &[entry[0], entry[1], Key(key)])
+                            let mut path = entry.to_vec();
+                            path.extend(key.split('.').map(Key));
+                            if reason.starts_with("unknown key") {
+                                // The key itself, not its value.
+                                locate::locate_key(text, &entry, key)
+                            } else {
+                                locate::locate(text, &path)
+                                    .or_else(|| locate::locate(text, &path[..3.min(path.len())]))
+                            }
                         }
                         Error::UnknownSpecies { name, .. } => locate::locate(
                             text,
@@ -112,7 +124,7 @@ impl Flowsheet {
                         _ => None,
                     }
                     .or_else(|| locate::locate(text, &entry));
-                    let path = format!("units.{}", unit.common().name);
+                    let path = format!("units.{}", unit.name);
                     locate::annotate(e, origin, location, &path)
                 })
             })
@@ -132,27 +144,93 @@ impl Flowsheet {
                 let location = locate::locate(text, &path);
                 let name = &units[at.unit].name;
                 locate::annotate(
-                    e.error,
+                    *e.error,
                     origin,
                     location,
                     &format!("units.{name}.{}", at.key),
                 )
             }
-            None => e.error,
+            None => *e.error,
         })?;
         let title = model.title.unwrap_or_else(|| origin.to_string());
         Ok(Flowsheet {
             title,
             origin: origin.to_string(),
             feeds,
+            feed_inputs,
             units,
             graph,
+            params,
         })
     }
 
-    /// Solve every unit in order, check the balances and collect the result.
+    /// Solve every unit in order with the values of the file, check the balances and collect
+    /// the result.
     pub fn solve(&self, db: &SpeciesDb) -> Result<FlowsheetResult> {
-        solve::solve(self, db)
+        solve::solve(self, db, &self.params.defaults(), None)
+    }
+
+    /// Solve with the parameter vector `params` (one value per input, by slot: start from
+    /// [`Flowsheet::parameters`] and set the slots [`Flowsheet::input`] gives). `previous`: a
+    /// result of this flowsheet to warm-start the equilibrium stages from (a neighbouring case).
+    pub fn solve_with(
+        &self,
+        db: &SpeciesDb,
+        params: &[f64],
+        previous: Option<&FlowsheetResult>,
+    ) -> Result<FlowsheetResult> {
+        solve::solve(self, db, params, previous)
+    }
+
+    /// The parameter vector of the file: every numeric input by slot, SI.
+    pub fn parameters(&self) -> Vec<f64> {
+        self.params.defaults()
+    }
+
+    /// Every numeric input: its path, its value in the file and how it reads, by slot.
+    pub fn inputs(&self) -> &[ParamInfo] {
+        self.params.all()
+    }
+
+    /// The slot of an input path (`units.hts.approach.shift`, `feeds.natural-gas.flows.CH4`);
+    /// an unknown path is an error listing the nearest valid ones.
+    pub fn input(&self, path: &str) -> Result<Param> {
+        self.params.find(path).ok_or_else(|| {
+            let known: Vec<&str> = self.params.all().iter().map(|p| p.path.as_str()).collect();
+            Error::InvalidValue {
+                field: "input path".into(),
+                value: path.to_string(),
+                reason: format!(
+                    "no such input; the nearest are: {}",
+                    paths::nearest(path, &known, 5).join(", ")
+                ),
+            }
+        })
+    }
+
+    /// The title (the file's `title`, else its name).
+    pub fn title(&self) -> &str {
+        &self.title
+    }
+
+    /// Where the flowsheet was read from.
+    pub fn origin(&self) -> &str {
+        &self.origin
+    }
+
+    /// The feeds as written, in file order.
+    pub fn feeds(&self) -> &[Feed] {
+        &self.feeds
+    }
+
+    /// The units, in file order.
+    pub fn units(&self) -> &[FlowsheetUnit] {
+        &self.units
+    }
+
+    /// The graph of feeds, units and streams, with the solve order.
+    pub fn graph(&self) -> &FlowGraph {
+        &self.graph
     }
 
     /// The units in solve order.

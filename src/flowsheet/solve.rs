@@ -7,16 +7,16 @@
 //! - energy: |H_products - H_feeds - sum of duties| <= 1e-6 of the larger of the feed enthalpy
 //!   magnitude (sum over feeds of |H|, formation enthalpies included) and the sum of |duty|.
 //!
-//! A flowsheet that fails either check is an error, never a result. The steam-to-carbon ratio
-//! is H2O over organic carbon (carbon in every gas species but CO and CO2), common practice.
+//! A flowsheet that fails either check is an error, never a result. The plant summary reads the
+//! figures the units publish.
 
 use std::collections::HashMap;
 
 use super::result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Summary};
-use super::yaml::UnitType;
 use super::Flowsheet;
 use crate::error::{Error, Result};
 use crate::thermo::{mixture, water, SpeciesDb};
+use crate::units::unit::UnitContext;
 use crate::units::{Stream, StreamPhase, Warning};
 
 /// Largest relative element-balance error a solved flowsheet may have.
@@ -24,8 +24,26 @@ pub const ELEMENT_BALANCE_TOLERANCE: f64 = 1e-9;
 /// Largest relative energy-balance error a solved flowsheet may have.
 pub const ENERGY_BALANCE_TOLERANCE: f64 = 1e-6;
 
-/// Solve every unit in order and collect the result.
-pub fn solve(fs: &Flowsheet, db: &SpeciesDb) -> Result<FlowsheetResult> {
+/// Solve every unit in order with the parameter vector `params` (by slot) and collect the
+/// result; `previous`: a result of the same flowsheet whose equilibrium extents start each
+/// stage (a warm start).
+pub fn solve(
+    fs: &Flowsheet,
+    db: &SpeciesDb,
+    params: &[f64],
+    previous: Option<&FlowsheetResult>,
+) -> Result<FlowsheetResult> {
+    let defaults = fs.params.defaults();
+    if params.len() != defaults.len() {
+        return Err(Error::InvalidValue {
+            field: "parameter vector".into(),
+            value: format!("{} values", params.len()),
+            reason: format!(
+                "the flowsheet has {} inputs; start from Flowsheet::parameters()",
+                defaults.len()
+            ),
+        });
+    }
     let n_streams = fs.feeds.len() + fs.units.iter().map(|u| u.outlets.len()).sum::<usize>();
     let mut streams: Vec<SolvedStream> = Vec::with_capacity(n_streams);
     let mut slot: HashMap<&str, usize> = HashMap::with_capacity(n_streams);
@@ -36,11 +54,12 @@ pub fn solve(fs: &Flowsheet, db: &SpeciesDb) -> Result<FlowsheetResult> {
         }
     }
     let dest = |name: &str| destination.get(name).map(|d| d.to_string());
-    for feed in &fs.feeds {
+    for (feed, inputs) in fs.feeds.iter().zip(&fs.feed_inputs) {
+        let stream = feed.stream_with(db, inputs, params, &defaults)?;
         slot.insert(&feed.name, streams.len());
         streams.push(SolvedStream {
             name: feed.name.clone(),
-            stream: feed.stream.clone(),
+            stream,
             source: StreamSource::Feed,
             destination: dest(&feed.name),
         });
@@ -76,8 +95,21 @@ pub fn solve(fs: &Flowsheet, db: &SpeciesDb) -> Result<FlowsheetResult> {
                 })?;
                 inlets.push(&streams[i].stream);
             }
-            unit.prepared.solve(db, &inlets, None).map_err(|e| {
-                e.context(format!("solving unit '{}' ({})", unit.name, unit.unit_type))
+            let guess = previous
+                .and_then(|p| p.units.iter().find(|u| u.name == unit.name))
+                .and_then(|u| u.result.equilibrium.as_ref())
+                .map(|e| e.extents.as_slice());
+            let cx = UnitContext {
+                db,
+                name: &unit.name,
+                params,
+                defaults: &defaults,
+            };
+            unit.unit.solve(&cx, &inlets, guess).map_err(|e| {
+                e.context(format!(
+                    "solving unit '{}' ({})",
+                    unit.name, unit.unit_type.name
+                ))
             })?
         };
         if result.outlets.len() != unit.outlets.len() {
@@ -104,7 +136,7 @@ pub fn solve(fs: &Flowsheet, db: &SpeciesDb) -> Result<FlowsheetResult> {
         warnings.extend(result.warnings.iter().cloned());
         units.push(SolvedUnit {
             name: unit.name.clone(),
-            type_name: unit.unit_type.name().to_string(),
+            type_name: unit.unit_type.name.to_string(),
             inlets: unit.inlets.clone(),
             outlets: unit.outlets.clone(),
             result,
@@ -114,7 +146,7 @@ pub fn solve(fs: &Flowsheet, db: &SpeciesDb) -> Result<FlowsheetResult> {
     let converged = units
         .iter()
         .all(|u| u.result.equilibrium.as_ref().is_none_or(|e| e.converged));
-    let summary = summary(db, fs, &streams, &slot, &units);
+    let summary = summary(&units);
     let element_balance_residual = element_balance(db, &streams)?;
     let energy_balance_residual = energy_balance(db, &streams, &units)?;
     Ok(FlowsheetResult {
@@ -172,60 +204,21 @@ fn check_phase(db: &SpeciesDb, unit: &str, name: &str, s: &Stream) -> Result<()>
     })
 }
 
-/// Organic carbon (carbon in every gas species but CO and CO2), mol/s.
-fn organic_carbon(db: &SpeciesDb, flows: &[f64]) -> f64 {
-    flows
-        .iter()
-        .enumerate()
-        .filter(|(_, n)| **n != 0.0)
-        .map(|(i, n)| n * crate::reaction::organic_carbon_atoms(db.by_index(i)))
-        .sum()
-}
-
-fn dry_fraction(db: &SpeciesDb, stream: &Stream, species: &str) -> Option<f64> {
-    db.index_of(species)
-        .map(|i| stream.dry_mole_fraction(db, i))
-}
-
-fn summary(
-    db: &SpeciesDb,
-    fs: &Flowsheet,
-    streams: &[SolvedStream],
-    slot: &HashMap<&str, usize>,
-    units: &[SolvedUnit],
-) -> Summary {
-    let stream = |name: &str| slot.get(name).map(|&i| &streams[i].stream);
-    let h2 = db.index_of("H2");
-    let h2o = db.index_of("H2O");
+/// The plant summary, read from the figures the units publish: hydrogen in each purifier
+/// product (`hydrogen-product`), methane slip at each reformer outlet (`methane-slip-dry`), CO
+/// slip at each shift outlet (`co-slip-dry`), the steam-to-carbon ratio at each reformer and
+/// pre-reformer inlet (`steam-to-carbon`), and the sums of the duties.
+fn summary(units: &[SolvedUnit]) -> Summary {
     let mut s = Summary::default();
-    for (unit, solved) in fs.units_in_order().zip(units) {
-        let outlet = solved.result.outlets.first();
-        match unit.unit_type {
-            UnitType::Purifier => {
-                if let (Some(product), Some(h2)) = (outlet, h2) {
-                    *s.hydrogen_product_mol_s.get_or_insert(0.0) += product.flows[h2];
-                }
-            }
-            UnitType::Reformer => {
-                if let Some(x) = outlet.and_then(|o| dry_fraction(db, o, "CH4")) {
-                    s.methane_slip_dry.push((unit.name.clone(), x));
-                }
-            }
-            UnitType::Shift => {
-                if let Some(x) = outlet.and_then(|o| dry_fraction(db, o, "CO")) {
-                    s.co_slip_dry.push((unit.name.clone(), x));
-                }
-            }
-            _ => {}
-        }
-        if matches!(unit.unit_type, UnitType::Reformer | UnitType::Prereformer) {
-            let inlet = unit.inlets.first().and_then(|n| stream(n));
-            if let (Some(inlet), Some(h2o)) = (inlet, h2o) {
-                let carbon = organic_carbon(db, &inlet.flows);
-                if carbon > 0.0 {
-                    s.steam_to_carbon
-                        .push((unit.name.clone(), inlet.flows[h2o] / carbon));
-                }
+    for solved in units {
+        for f in &solved.result.figures {
+            let entry = (solved.name.clone(), f.value);
+            match f.key {
+                "hydrogen-product" => *s.hydrogen_product_mol_s.get_or_insert(0.0) += f.value,
+                "methane-slip-dry" => s.methane_slip_dry.push(entry),
+                "co-slip-dry" => s.co_slip_dry.push(entry),
+                "steam-to-carbon" => s.steam_to_carbon.push(entry),
+                _ => {}
             }
         }
         let q = solved.result.duty_w;

@@ -13,6 +13,7 @@ use super::common::{
     check_inlets, check_pressure_drop, check_temperature, degc, dew_point_k, figure,
     outlet_pressure, require_vapour, spec_error, Key,
 };
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
 use super::{FigureKind, Stream, StreamPhase, UnitResult, Warning};
 use crate::error::{Result, ResultExt};
 use crate::thermo::{water, SpeciesDb};
@@ -162,6 +163,57 @@ impl Knockout {
             equilibrium: None,
             warnings,
         })
+    }
+}
+
+/// The `knockout` unit type.
+pub static TYPE: UnitType = UnitType {
+    name: "knockout",
+    summary: "Knockout drum: the gas cooled to the drum temperature and the water that condenses \
+              there separated (Raoult's law on the IAPWS-IF97 saturation line).",
+    inlets: Ports::exactly(1, "wet gas"),
+    outlets: Ports::exactly(2, "gas, condensate"),
+    keys: &[
+        KeyDoc {
+            key: "temperature",
+            value: ValueKind::Temperature,
+            default: Some("the inlet temperature"),
+            meaning: "drum temperature",
+        },
+        KeyDoc {
+            key: "pressure-drop",
+            value: ValueKind::PressureDifference,
+            default: Some("0 bar"),
+            meaning: "pressure lost across the unit",
+        },
+    ],
+    example: "- name: knockout\n  type: knockout\n  from: cooled-gas\n  to: [raw-hydrogen, \
+              process-condensate]\n  temperature: 40 degC",
+    build: build::<Knockout>,
+};
+
+impl UnitKind for Knockout {
+    type Spec = KnockoutSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, KnockoutSpec>) -> Result<KnockoutSpec> {
+        Ok(KnockoutSpec {
+            temperature_k: b.number("temperature", ValueKind::Temperature, None, |s, v| {
+                s.temperature_k = Some(v)
+            })?,
+            pressure_drop_pa: b.pressure_drop(|s, v| s.pressure_drop_pa = v)?,
+        })
+    }
+
+    fn new(db: &SpeciesDb, name: &str, spec: &KnockoutSpec) -> Result<Knockout> {
+        Knockout::new(db, name, spec)
+    }
+
+    fn spec(&self) -> &KnockoutSpec {
+        &self.spec
+    }
+
+    fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
+        Knockout::solve(self, db, inlets)
     }
 }
 

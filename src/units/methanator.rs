@@ -10,10 +10,12 @@
 //! temperatures to represent a bed short of equilibrium.
 
 use super::chemistry::unconverted_carbon_warnings;
+use super::common::named;
 use super::common::{
     build_stage, check_pressure_drop, dry_fraction, figure, frozen_warnings, reactor_inlet,
     resolve_approaches, run_stage, stage_approaches, Key,
 };
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
 use super::{FigureKind, Stream, UnitResult, Warning};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::Result;
@@ -166,6 +168,63 @@ impl Methanator {
             equilibrium: Some(stage),
             warnings,
         })
+    }
+}
+
+/// The `methanator` unit type.
+pub static TYPE: UnitType = UnitType {
+    name: "methanator",
+    summary: "Adiabatic methanator: the last CO and CO2 turned back to methane (reforming \
+              backward, shift either way) at equilibrium with their approach temperatures; the \
+              temperature rise is set beside the rule of thumb.",
+    inlets: Ports::exactly(1, "purified gas"),
+    outlets: Ports::exactly(1, "methanated gas"),
+    keys: &[
+    KeyDoc {
+        key: "pressure-drop",
+        value: ValueKind::PressureDifference,
+        default: Some("0 bar"),
+        meaning: "pressure lost across the unit",
+    },
+        KeyDoc {
+            key: "approach",
+            value: ValueKind::PerReaction(&METHANATOR_REACTIONS),
+            default: Some("0 K for each reaction"),
+            meaning: "approach temperature per reaction; a positive one leaves the outlet short of equilibrium (more CO and CO2)",
+        },
+    ],
+    example: "- name: methanator\n  type: methanator\n  from: methanator-feed\n  to: \
+              methanated-gas\n  approach: {reforming: 20 K}",
+    build: build::<Methanator>,
+};
+
+impl UnitKind for Methanator {
+    type Spec = MethanatorSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, MethanatorSpec>) -> Result<MethanatorSpec> {
+        let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
+        let approaches = b.approaches(&METHANATOR_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
+        Ok(MethanatorSpec {
+            pressure_drop_pa: drop,
+            approaches: named(&METHANATOR_REACTIONS, approaches),
+        })
+    }
+
+    fn new(db: &SpeciesDb, name: &str, spec: &MethanatorSpec) -> Result<Methanator> {
+        Methanator::new(db, name, spec)
+    }
+
+    fn spec(&self) -> &MethanatorSpec {
+        &self.spec
+    }
+
+    fn solve(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+    ) -> Result<UnitResult> {
+        Methanator::solve(self, db, inlets, guess)
     }
 }
 

@@ -19,6 +19,7 @@ use super::common::{
     spec_error, temperature_at_enthalpy, Key,
 };
 use super::stream::{check_phases, water_at_enthalpy, WaterState};
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
 use super::{FigureKind, Stream, StreamPhase, UnitResult};
 use crate::error::{Result, ResultExt};
 use crate::thermo::{mixture, SpeciesDb};
@@ -142,7 +143,7 @@ impl Mixer {
         if let Some(sc) = self.key.steam_to_carbon(&outlet.flows) {
             if outlet.flows[self.key.h2o] > 0.0 {
                 figures.push(figure(
-                    "steam-to-carbon",
+                    "outlet-steam-to-carbon",
                     "steam-to-carbon ratio",
                     sc,
                     FigureKind::Number,
@@ -176,6 +177,47 @@ impl Mixer {
     }
 }
 
+/// The `mixer` unit type.
+pub static TYPE: UnitType = UnitType {
+    name: "mixer",
+    summary: "Adiabatic mixing of one or more streams (liquid water included); the outlet leaves \
+              at the lowest inlet pressure less the pressure drop, its temperature from the \
+              energy balance.",
+    inlets: Ports::at_least(1, "streams to mix"),
+    outlets: Ports::exactly(1, "mixed stream"),
+    keys: &[KeyDoc {
+        key: "pressure-drop",
+        value: ValueKind::PressureDifference,
+        default: Some("0 bar"),
+        meaning: "pressure lost across the unit",
+    }],
+    example: "- name: feed-mixer\n  type: mixer\n  from: [natural-gas, process-steam]\n  to: \
+              mixed-feed",
+    build: build::<Mixer>,
+};
+
+impl UnitKind for Mixer {
+    type Spec = MixerSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, MixerSpec>) -> Result<MixerSpec> {
+        Ok(MixerSpec {
+            pressure_drop_pa: b.pressure_drop(|s, v| s.pressure_drop_pa = v)?,
+        })
+    }
+
+    fn new(db: &SpeciesDb, name: &str, spec: &MixerSpec) -> Result<Mixer> {
+        Mixer::new(db, name, spec)
+    }
+
+    fn spec(&self) -> &MixerSpec {
+        &self.spec
+    }
+
+    fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
+        Mixer::solve(self, db, inlets)
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -193,7 +235,7 @@ mod tests {
         let out = &r.outlets[0];
         assert!(out.temperature_k > 650.0 && out.temperature_k < 660.0);
         assert_eq!(out.pressure_pa, 30e5);
-        assert!((fig(&r, "steam-to-carbon") - 3.0).abs() < 1e-12);
+        assert!((fig(&r, "outlet-steam-to-carbon") - 3.0).abs() < 1e-12);
         // Equal temperatures mix to that temperature exactly (ideal gas: no heat of mixing).
         let a = gas(&db, &[("H2", 1.0)], 500.0, 2e5);
         let b = gas(&db, &[("N2", 2.0)], 500.0, 3e5);

@@ -9,10 +9,12 @@
 //! ([`UnitResult::equilibrium`]) therefore shows that internal duty, on the converted basis.
 
 use super::chemistry::{unconverted_carbon_warnings, CarbonCheck, HigherHydrocarbons};
+use super::common::named;
 use super::common::{
     build_stage, check_pressure_drop, dry_fraction, figure, frozen_warnings, reactor_inlet,
     resolve_approaches, run_stage, stage_approaches, Key,
 };
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
 use super::{FigureKind, Stream, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::{Result, ResultExt};
@@ -152,6 +154,63 @@ impl Prereformer {
             equilibrium: Some(stage),
             warnings,
         })
+    }
+}
+
+/// The `prereformer` unit type.
+pub static TYPE: UnitType = UnitType {
+    name: "prereformer",
+    summary: "Adiabatic pre-reformer: the higher hydrocarbons and oxygenates reformed \
+              completely, then reforming (either way) and shift at equilibrium with their \
+              approach temperatures; the outlet temperature follows from the energy balance.",
+    inlets: Ports::exactly(1, "process gas with steam"),
+    outlets: Ports::exactly(1, "pre-reformed gas"),
+    keys: &[
+    KeyDoc {
+        key: "pressure-drop",
+        value: ValueKind::PressureDifference,
+        default: Some("0 bar"),
+        meaning: "pressure lost across the unit",
+    },
+        KeyDoc {
+            key: "approach",
+            value: ValueKind::PerReaction(&PREREFORMER_REACTIONS),
+            default: Some("0 K for each reaction"),
+            meaning: "approach temperature per reaction; a positive one leaves the outlet short of equilibrium",
+        },
+    ],
+    example: "- name: prereformer\n  type: prereformer\n  from: prereformer-feed\n  to: \
+              prereformed-gas\n  approach: {reforming: 0 K, shift: 0 K}",
+    build: build::<Prereformer>,
+};
+
+impl UnitKind for Prereformer {
+    type Spec = PrereformerSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, PrereformerSpec>) -> Result<PrereformerSpec> {
+        let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
+        let approaches = b.approaches(&PREREFORMER_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
+        Ok(PrereformerSpec {
+            pressure_drop_pa: drop,
+            approaches: named(&PREREFORMER_REACTIONS, approaches),
+        })
+    }
+
+    fn new(db: &SpeciesDb, name: &str, spec: &PrereformerSpec) -> Result<Prereformer> {
+        Prereformer::new(db, name, spec)
+    }
+
+    fn spec(&self) -> &PrereformerSpec {
+        &self.spec
+    }
+
+    fn solve(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+    ) -> Result<UnitResult> {
+        Prereformer::solve(self, db, inlets, guess)
     }
 }
 

@@ -21,6 +21,8 @@ use super::{FigureKind, Stream, UnitResult};
 use crate::error::Result;
 use crate::thermo::SpeciesDb;
 
+use super::unit::{build, EntryValue, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
+
 /// Default weights (0..1) of how readily each impurity reaches the product when a purity is
 /// given (common practice: the order of adsorption strength He < Ar ~ N2 < CO < CH4 < CO2 <
 /// H2O; the values are screening figures, override them with plant data).
@@ -262,6 +264,12 @@ impl Purifier {
                 FigureKind::MolarFlow,
             ),
             figure(
+                "hydrogen-product",
+                "hydrogen in the product",
+                product.flows[h2],
+                FigureKind::MolarFlow,
+            ),
+            figure(
                 "tail-gas-flow",
                 "tail gas",
                 tail.total(),
@@ -371,6 +379,162 @@ fn weighted_shares(flows: &[f64], weights: &[f64], wanted: f64) -> Option<Vec<f6
                 .collect();
             return Some(shares);
         }
+    }
+}
+
+/// The `purifier` unit type.
+pub static TYPE: UnitType = UnitType {
+    name: "purifier",
+    summary: "Hydrogen purifier (pressure-swing adsorption) as a split: a hydrogen recovery to \
+              the product and a product purity (impurities shared by how weakly they adsorb) or \
+              a split per impurity; isothermal, the tail gas at its own pressure.",
+    inlets: Ports::exactly(1, "dry raw hydrogen"),
+    outlets: Ports::exactly(2, "product, tail gas"),
+    keys: &[
+        KeyDoc {
+            key: "hydrogen-recovery",
+            value: ValueKind::Fraction,
+            default: None,
+            meaning: "fraction of the inlet hydrogen recovered in the product",
+        },
+        KeyDoc {
+            key: "purity",
+            value: ValueKind::Fraction,
+            default: None,
+            meaning: "hydrogen mole fraction of the product; or `impurity-split`",
+        },
+        KeyDoc {
+            key: "impurity-split",
+            value: ValueKind::PerSpecies,
+            default: None,
+            meaning: "fraction of each impurity (or one fraction for all) reaching the \
+                      product; or `purity`",
+        },
+        KeyDoc {
+            key: "impurity-weights",
+            value: ValueKind::PerSpecies,
+            default: Some("He, Ar, N2, O2 1; CO 0.1; CH4 0.02; others 0"),
+            meaning: "with `purity`: how readily each impurity reaches the product, 0..1 \
+                      (common practice)",
+        },
+        KeyDoc {
+            key: "tail-gas-pressure",
+            value: ValueKind::Pressure,
+            default: None,
+            meaning: "tail-gas pressure",
+        },
+        KeyDoc {
+            key: "pressure-drop",
+            value: ValueKind::PressureDifference,
+            default: Some("0 bar"),
+            meaning: "pressure lost from the inlet to the product",
+        },
+    ],
+    example: "- name: psa\n  type: purifier\n  from: raw-hydrogen\n  to: [hydrogen-product, \
+              psa-tail-gas]\n  hydrogen-recovery: 0.88\n  purity: 0.999\n  \
+              tail-gas-pressure: 1.3 bar",
+    build: build::<Purifier>,
+};
+
+impl UnitKind for Purifier {
+    type Spec = PurifierSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, PurifierSpec>) -> Result<PurifierSpec> {
+        let recovery = b.required("hydrogen-recovery", ValueKind::Fraction, "0.88", |s, v| {
+            s.hydrogen_recovery = v
+        })?;
+        let purity = b.number("purity", ValueKind::Fraction, None, |s, v| {
+            s.product = PurifierProduct::Purity(v)
+        })?;
+        let split = match b.value("impurity-split") {
+            None => None,
+            Some(EntryValue::Scalar(_)) => {
+                let all = b
+                    .number("impurity-split", ValueKind::Fraction, None, |s, v| {
+                        if let PurifierProduct::ImpuritySplit(pairs) = &mut s.product {
+                            pairs.iter_mut().for_each(|p| p.1 = v);
+                        }
+                    })?
+                    .unwrap_or(0.0);
+                let db = b.db();
+                Some(
+                    db.names()
+                        .into_iter()
+                        .filter(|n| *n != "H2")
+                        .map(|n| (n.to_string(), all))
+                        .collect::<Vec<_>>(),
+                )
+            }
+            Some(_) => {
+                let pairs = b
+                    .map("impurity-split", ValueKind::Fraction)?
+                    .unwrap_or_default();
+                for (k, (species, v)) in pairs.iter().enumerate() {
+                    b.register(
+                        &format!("impurity-split.{species}"),
+                        *v,
+                        ValueKind::Fraction,
+                        move |s: &mut PurifierSpec, v| {
+                            if let PurifierProduct::ImpuritySplit(pairs) = &mut s.product {
+                                pairs[k].1 = v;
+                            }
+                        },
+                    );
+                }
+                Some(pairs)
+            }
+        };
+        let product =
+            match (purity, split) {
+                (Some(x), None) => PurifierProduct::Purity(x),
+                (None, Some(pairs)) => PurifierProduct::ImpuritySplit(pairs),
+                (Some(_), Some(_)) => {
+                    return Err(b.error(
+                        "purity, impurity-split",
+                        "give either the product `purity` or the `impurity-split`, not both",
+                    ))
+                }
+                (None, None) => return Err(b.error(
+                    "purity",
+                    "a purifier needs the product `purity` (e.g. 0.999) or the `impurity-split`",
+                )),
+            };
+        let weights = b
+            .map("impurity-weights", ValueKind::Fraction)?
+            .unwrap_or_default();
+        for (k, (species, v)) in weights.iter().enumerate() {
+            b.register(
+                &format!("impurity-weights.{species}"),
+                *v,
+                ValueKind::Fraction,
+                move |s: &mut PurifierSpec, v| s.impurity_weights[k].1 = v,
+            );
+        }
+        let tail = b.required(
+            "tail-gas-pressure",
+            ValueKind::Pressure,
+            "1.3 bar",
+            |s, v| s.tail_gas_pressure_pa = v,
+        )?;
+        Ok(PurifierSpec {
+            hydrogen_recovery: recovery,
+            product,
+            pressure_drop_pa: b.pressure_drop(|s, v| s.pressure_drop_pa = v)?,
+            tail_gas_pressure_pa: tail,
+            impurity_weights: weights,
+        })
+    }
+
+    fn new(db: &SpeciesDb, name: &str, spec: &PurifierSpec) -> Result<Purifier> {
+        Purifier::new(db, name, spec)
+    }
+
+    fn spec(&self) -> &PurifierSpec {
+        &self.spec
+    }
+
+    fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
+        Purifier::solve(self, db, inlets)
     }
 }
 

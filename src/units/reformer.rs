@@ -12,10 +12,12 @@
 //! part-way down the tubes, which an outlet check does not see).
 
 use super::chemistry::{unconverted_carbon_warnings, CarbonCheck, HigherHydrocarbons};
+use super::common::named;
 use super::common::{
     build_stage, check_pressure_drop, check_temperature, dry_fraction, figure, frozen_warnings,
     reactor_inlet, resolve_approaches, run_stage, spec_error, stage_approaches, Key,
 };
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
 use super::{FigureKind, Stream, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::{Result, ResultExt};
@@ -165,6 +167,77 @@ impl Reformer {
             equilibrium: Some(stage),
             warnings,
         })
+    }
+}
+
+/// The `reformer` unit type.
+pub static TYPE: UnitType = UnitType {
+    name: "reformer",
+    summary: "Steam reformer at a given outlet temperature: the higher hydrocarbons and \
+              oxygenates reformed completely, then reforming and shift at equilibrium with their \
+              approach temperatures; the duty follows.",
+    inlets: Ports::exactly(1, "process gas with steam"),
+    outlets: Ports::exactly(1, "reformed gas"),
+    keys: &[
+        KeyDoc {
+            key: "outlet-temperature",
+            value: ValueKind::Temperature,
+            default: None,
+            meaning: "outlet (catalyst exit) temperature",
+        },
+    KeyDoc {
+        key: "pressure-drop",
+        value: ValueKind::PressureDifference,
+        default: Some("0 bar"),
+        meaning: "pressure lost across the unit",
+    },
+        KeyDoc {
+            key: "approach",
+            value: ValueKind::PerReaction(&REFORMER_REACTIONS),
+            default: Some("0 K for each reaction"),
+            meaning: "approach temperature per reaction; a positive one leaves the outlet short of equilibrium",
+        },
+    ],
+    example: "- name: reformer\n  type: reformer\n  from: reformer-feed\n  to: reformed-gas\n  \
+              outlet-temperature: 865 degC\n  pressure-drop: 3 bar\n  approach: {reforming: \
+              10 K, shift: 0 K}",
+    build: build::<Reformer>,
+};
+
+impl UnitKind for Reformer {
+    type Spec = ReformerSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, ReformerSpec>) -> Result<ReformerSpec> {
+        let t = b.required(
+            "outlet-temperature",
+            ValueKind::Temperature,
+            "865 degC",
+            |s, v| s.outlet_temperature_k = v,
+        )?;
+        let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
+        let approaches = b.approaches(&REFORMER_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
+        Ok(ReformerSpec {
+            outlet_temperature_k: t,
+            pressure_drop_pa: drop,
+            approaches: named(&REFORMER_REACTIONS, approaches),
+        })
+    }
+
+    fn new(db: &SpeciesDb, name: &str, spec: &ReformerSpec) -> Result<Reformer> {
+        Reformer::new(db, name, spec)
+    }
+
+    fn spec(&self) -> &ReformerSpec {
+        &self.spec
+    }
+
+    fn solve(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+    ) -> Result<UnitResult> {
+        Reformer::solve(self, db, inlets, guess)
     }
 }
 

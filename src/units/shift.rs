@@ -8,11 +8,13 @@
 //! least about 15-20 K above the water dew point so that no water condenses on it.
 
 use super::chemistry::unconverted_carbon_warnings;
+use super::common::named;
 use super::common::{
     build_stage, check_pressure_drop, check_temperature, dew_point_k, dry_fraction, figure,
     frozen_warnings, reactor_inlet, resolve_approaches, run_stage, spec_error, stage_approaches,
     Key,
 };
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
 use super::{FigureKind, Stream, UnitResult, Warning};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::{Result, ResultExt};
@@ -277,6 +279,98 @@ fn infer_catalyst(t_in: f64, t_out: f64) -> ShiftCatalyst {
         ShiftCatalyst::MediumTemperatureCopper
     } else {
         ShiftCatalyst::LowTemperatureCopper
+    }
+}
+
+/// The catalysts as written, in the order of [`ShiftCatalyst`]; `copper` is read as
+/// low-temperature copper.
+const CATALYSTS: [&str; 4] = [
+    "iron-chromium",
+    "medium-temperature-copper",
+    "low-temperature-copper",
+    "copper",
+];
+
+/// The `shift` unit type.
+pub static TYPE: UnitType = UnitType {
+    name: "shift",
+    summary: "Shift converter (high-, medium- or low-temperature): shift at equilibrium with its \
+              approach temperature, adiabatic unless an outlet temperature is given; catalyst \
+              temperature and dew-point cautions.",
+    inlets: Ports::exactly(1, "process gas"),
+    outlets: Ports::exactly(1, "shifted gas"),
+    keys: &[
+        KeyDoc {
+            key: "outlet-temperature",
+            value: ValueKind::Temperature,
+            default: Some("adiabatic"),
+            meaning: "outlet temperature of a cooled (isothermal) converter",
+        },
+        KeyDoc {
+            key: "catalyst",
+            value: ValueKind::Choice(&CATALYSTS),
+            default: Some("from the inlet temperature, said in a warning"),
+            meaning: "catalyst, for the temperature cautions (common practice limits)",
+        },
+        KeyDoc {
+            key: "pressure-drop",
+            value: ValueKind::PressureDifference,
+            default: Some("0 bar"),
+            meaning: "pressure lost across the unit",
+        },
+        KeyDoc {
+            key: "approach",
+            value: ValueKind::PerReaction(&SHIFT_REACTIONS),
+            default: Some("0 K for each reaction"),
+            meaning:
+                "approach temperature of the shift; a positive one leaves more CO than equilibrium",
+        },
+    ],
+    example: "- name: hts\n  type: shift\n  from: hts-feed\n  to: hts-exit\n  catalyst: \
+              iron-chromium\n  approach: {shift: 8 K}",
+    build: build::<Shift>,
+};
+
+impl UnitKind for Shift {
+    type Spec = ShiftSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, ShiftSpec>) -> Result<ShiftSpec> {
+        let t = b.number(
+            "outlet-temperature",
+            ValueKind::Temperature,
+            None,
+            |s, v| s.outlet_temperature_k = Some(v),
+        )?;
+        let catalyst = b.choice("catalyst", &CATALYSTS)?.map(|i| match i {
+            0 => ShiftCatalyst::IronChromium,
+            1 => ShiftCatalyst::MediumTemperatureCopper,
+            _ => ShiftCatalyst::LowTemperatureCopper,
+        });
+        let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
+        let approaches = b.approaches(&SHIFT_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
+        Ok(ShiftSpec {
+            outlet_temperature_k: t,
+            pressure_drop_pa: drop,
+            approaches: named(&SHIFT_REACTIONS, approaches),
+            catalyst,
+        })
+    }
+
+    fn new(db: &SpeciesDb, name: &str, spec: &ShiftSpec) -> Result<Shift> {
+        Shift::new(db, name, spec)
+    }
+
+    fn spec(&self) -> &ShiftSpec {
+        &self.spec
+    }
+
+    fn solve(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+    ) -> Result<UnitResult> {
+        Shift::solve(self, db, inlets, guess)
     }
 }
 

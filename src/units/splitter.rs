@@ -2,6 +2,7 @@
 //! pressure drop), phase and composition, by fraction or by total molar flow per outlet.
 
 use super::common::{check_inlets, check_pressure_drop, outlet_pressure, spec_error};
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
 use super::{Stream, UnitResult};
 use crate::error::Result;
 use crate::thermo::SpeciesDb;
@@ -193,6 +194,103 @@ impl Splitter {
             equilibrium: None,
             warnings: Vec::new(),
         })
+    }
+}
+
+/// The `splitter` unit type.
+pub static TYPE: UnitType = UnitType {
+    name: "splitter",
+    summary: "One stream divided into two or more of the same composition, temperature and \
+              phase, by fraction or by molar flow per outlet; one outlet may be left out and \
+              takes the rest.",
+    inlets: Ports::exactly(1, "stream to divide"),
+    outlets: Ports::at_least(2, "the parts, named in `fractions` or `flows`"),
+    keys: &[
+        KeyDoc {
+            key: "fractions",
+            value: ValueKind::PerOutlet,
+            default: None,
+            meaning: "fraction (0..1) of the inlet to each outlet, by outlet name; or `flows`",
+        },
+        KeyDoc {
+            key: "flows",
+            value: ValueKind::PerOutlet,
+            default: None,
+            meaning: "molar flow to each outlet, by outlet name; or `fractions`",
+        },
+        KeyDoc {
+            key: "pressure-drop",
+            value: ValueKind::PressureDifference,
+            default: Some("0 bar"),
+            meaning: "pressure lost across the unit",
+        },
+    ],
+    example: "- name: tee\n  type: splitter\n  from: raw-gas\n  to: [to-fuel, to-psa]\n  \
+              fractions: {to-fuel: 0.1}",
+    build: build::<Splitter>,
+};
+
+impl UnitKind for Splitter {
+    type Spec = SplitterSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, SplitterSpec>) -> Result<SplitterSpec> {
+        let (key, kind) = match (b.has("fractions"), b.has("flows")) {
+            (true, false) => ("fractions", ValueKind::Fraction),
+            (false, true) => ("flows", ValueKind::MolarFlow),
+            _ => {
+                return Err(b.error(
+                    "fractions, flows",
+                    "give either `fractions` or `flows` per outlet",
+                ))
+            }
+        };
+        let given = b.map(key, kind)?.unwrap_or_default();
+        let outlets = b.outlets();
+        if let Some((name, _)) = given.iter().find(|(n, _)| !outlets.contains(n)) {
+            return Err(b.error(
+                &format!("{key}.{name}"),
+                format!(
+                    "'{name}' is not an outlet of this splitter (its `to`: {})",
+                    outlets.join(", ")
+                ),
+            ));
+        }
+        let mut values = Vec::with_capacity(outlets.len());
+        for (k, outlet) in outlets.iter().enumerate() {
+            let v = given.iter().find(|(n, _)| n == outlet).map(|(_, v)| *v);
+            if let Some(x) = v {
+                b.register(
+                    &format!("{key}.{outlet}"),
+                    x,
+                    kind,
+                    move |s: &mut SplitterSpec, v| match &mut s.split {
+                        Split::Fractions(f) | Split::Flows(f) => f[k] = Some(v),
+                    },
+                );
+            }
+            values.push(v);
+        }
+        let split = if key == "fractions" {
+            Split::Fractions(values)
+        } else {
+            Split::Flows(values)
+        };
+        Ok(SplitterSpec {
+            split,
+            pressure_drop_pa: b.pressure_drop(|s, v| s.pressure_drop_pa = v)?,
+        })
+    }
+
+    fn new(_: &SpeciesDb, name: &str, spec: &SplitterSpec) -> Result<Splitter> {
+        Splitter::new(name, spec)
+    }
+
+    fn spec(&self) -> &SplitterSpec {
+        &self.spec
+    }
+
+    fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
+        Splitter::solve(self, db, inlets)
     }
 }
 

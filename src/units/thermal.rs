@@ -19,6 +19,7 @@ use super::common::{
     outlet_pressure, spec_error, temperature_at_enthalpy, Key,
 };
 use super::stream::{check_phases, water_at_enthalpy, water_phase, WaterState};
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
 use super::{FigureKind, Stream, StreamPhase, UnitResult};
 use crate::error::{Error, Result, ResultExt};
 use crate::thermo::{mixture, water, SpeciesDb};
@@ -321,6 +322,139 @@ impl Thermal {
             equilibrium: None,
             warnings,
         })
+    }
+}
+
+/// The `heater` unit type.
+pub static HEATER: UnitType = UnitType {
+    name: "heater",
+    summary: "Heat added to one stream up to an outlet temperature, or a given duty (the outlet \
+              temperature then follows); pure water is taken from liquid to steam with its heat \
+              of vaporisation.",
+    inlets: Ports::exactly(1, "stream to heat"),
+    outlets: Ports::exactly(1, "heated stream"),
+    keys: &THERMAL_KEYS,
+    example: "- name: preheater\n  type: heater\n  from: mixed-feed\n  to: hot-feed\n  \
+              outlet-temperature: 490 degC\n  pressure-drop: 0.3 bar",
+    build: build::<Heater>,
+};
+
+/// The `cooler` unit type.
+pub static COOLER: UnitType = UnitType {
+    name: "cooler",
+    summary: "Heat removed from one stream down to an outlet temperature, or a given (negative) \
+              duty; a gas is kept above its water dew point (condense in a knockout), pure steam \
+              may condense to water.",
+    inlets: Ports::exactly(1, "stream to cool"),
+    outlets: Ports::exactly(1, "cooled stream"),
+    keys: &THERMAL_KEYS,
+    example: "- name: process-gas-cooler\n  type: cooler\n  from: reformed-gas\n  to: hts-feed\n  \
+              outlet-temperature: 350 degC",
+    build: build::<Cooler>,
+};
+
+const THERMAL_KEYS: [KeyDoc; 3] = [
+    KeyDoc {
+        key: "outlet-temperature",
+        value: ValueKind::Temperature,
+        default: None,
+        meaning: "outlet temperature; or `duty`",
+    },
+    KeyDoc {
+        key: "duty",
+        value: ValueKind::Duty,
+        default: None,
+        meaning: "heat added to the stream (negative for a cooler); or `outlet-temperature`",
+    },
+    KeyDoc {
+        key: "pressure-drop",
+        value: ValueKind::PressureDifference,
+        default: Some("0 bar"),
+        meaning: "pressure lost across the unit",
+    },
+];
+
+/// Read a heater's or cooler's keys.
+fn read_thermal(
+    b: &mut UnitBuilder<'_, '_, ThermalSpec>,
+    kind: ThermalKind,
+) -> Result<ThermalSpec> {
+    let t = b.number(
+        "outlet-temperature",
+        ValueKind::Temperature,
+        None,
+        |s, v| s.target = ThermalTarget::OutletTemperature(v),
+    )?;
+    let q = b.number("duty", ValueKind::Duty, None, |s, v| {
+        s.target = ThermalTarget::Duty(v)
+    })?;
+    let target = match (t, q) {
+        (Some(t), None) => ThermalTarget::OutletTemperature(t),
+        (None, Some(q)) => ThermalTarget::Duty(q),
+        (Some(_), Some(_)) => {
+            return Err(b.error(
+                "outlet-temperature, duty",
+                "give either `outlet-temperature` or `duty`, not both",
+            ))
+        }
+        (None, None) => {
+            return Err(b.error(
+                "outlet-temperature",
+                format!("a {} needs `outlet-temperature` or `duty`", kind.name()),
+            ))
+        }
+    };
+    Ok(ThermalSpec {
+        target,
+        pressure_drop_pa: b.pressure_drop(|s, v| s.pressure_drop_pa = v)?,
+    })
+}
+
+/// A heater: a [`Thermal`] that adds heat.
+#[derive(Debug, Clone)]
+pub struct Heater(pub Thermal);
+
+/// A cooler: a [`Thermal`] that removes heat.
+#[derive(Debug, Clone)]
+pub struct Cooler(pub Thermal);
+
+impl UnitKind for Heater {
+    type Spec = ThermalSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, ThermalSpec>) -> Result<ThermalSpec> {
+        read_thermal(b, ThermalKind::Heater)
+    }
+
+    fn new(db: &SpeciesDb, name: &str, spec: &ThermalSpec) -> Result<Heater> {
+        Thermal::new(db, name, ThermalKind::Heater, spec).map(Heater)
+    }
+
+    fn spec(&self) -> &ThermalSpec {
+        self.0.spec()
+    }
+
+    fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
+        self.0.solve(db, inlets)
+    }
+}
+
+impl UnitKind for Cooler {
+    type Spec = ThermalSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, ThermalSpec>) -> Result<ThermalSpec> {
+        read_thermal(b, ThermalKind::Cooler)
+    }
+
+    fn new(db: &SpeciesDb, name: &str, spec: &ThermalSpec) -> Result<Cooler> {
+        Thermal::new(db, name, ThermalKind::Cooler, spec).map(Cooler)
+    }
+
+    fn spec(&self) -> &ThermalSpec {
+        self.0.spec()
+    }
+
+    fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
+        self.0.solve(db, inlets)
     }
 }
 

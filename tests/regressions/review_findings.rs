@@ -1,7 +1,7 @@
 //! Findings of a code review, each with a test that fails without its fix.
 
 use syntrain::thermo::SpeciesDb;
-use syntrain::units::{solve_unit, Split, SplitterSpec, Stream, UnitSpec};
+use syntrain::units::{Split, Splitter, SplitterSpec, Stream};
 
 /// The splitter marked the outlet that takes the rest with NaN inside its fractions, a marker
 /// that a NaN from a caller could be mistaken for; it now keeps `None` for that outlet
@@ -13,26 +13,19 @@ fn splitter_rest_outlet_takes_what_is_left_and_nan_is_refused() {
     let mut flows = vec![0.0; db.len()];
     flows[db.index_of("H2").unwrap()] = 3.0;
     let inlet = Stream::vapour(flows, 600.0, 20e5);
-    let spec = |split| {
-        UnitSpec::Splitter(SplitterSpec {
-            split,
-            pressure_drop_pa: 0.0,
-        })
+    let spec = |split| SplitterSpec {
+        split,
+        pressure_drop_pa: 0.0,
     };
-    let r = solve_unit(
-        &db,
-        "tee",
-        &spec(Split::Fractions(vec![Some(0.25), None, Some(0.5)])),
-        &[&inlet],
-    )
-    .unwrap();
+    let solve = |spec: SplitterSpec| Splitter::new("tee", &spec)?.solve(&db, &[&inlet]);
+    let r = solve(spec(Split::Fractions(vec![Some(0.25), None, Some(0.5)]))).unwrap();
     let totals: Vec<f64> = r.outlets.iter().map(|s| s.total()).collect();
     assert_eq!(totals, vec![0.75, 0.75, 1.5]);
     for bad in [
         Split::Fractions(vec![Some(f64::NAN), None]),
         Split::Flows(vec![Some(f64::NAN), None]),
     ] {
-        let e = solve_unit(&db, "tee", &spec(bad), &[&inlet]).unwrap_err();
+        let e = solve(spec(bad)).unwrap_err();
         assert!(e.to_string().contains("unit 'tee'"), "{e}");
     }
 }

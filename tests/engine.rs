@@ -1,0 +1,347 @@
+//! The compiled flowsheet: the shipped flowsheets give the streams and duties saved before the
+//! engine was reshaped (tests/data/reference_outputs/, written by the previous release's
+//! `solve --format json`), a changed input through its path equals a file edited by hand to the
+//! same value (several paths, each unit type), unknown paths name the nearest ones, and the
+//! compiled flowsheet can be shared between threads.
+
+use std::path::PathBuf;
+
+use serde_json::Value;
+use syntrain::flowsheet::Flowsheet;
+use syntrain::thermo::SpeciesDb;
+use syntrain::units::registry::UNIT_TYPES;
+
+fn db() -> SpeciesDb {
+    SpeciesDb::embedded().unwrap()
+}
+
+fn root() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+fn shipped() -> Vec<PathBuf> {
+    let mut files: Vec<PathBuf> = std::fs::read_dir(root().join("flowsheets"))
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .filter(|p| p.extension().is_some_and(|x| x == "yaml"))
+        .collect();
+    files.sort();
+    files
+}
+
+fn close(got: f64, want: f64, rel: f64) -> bool {
+    (got - want).abs() <= rel * want.abs().max(1e-300) || (got == 0.0 && want == 0.0)
+}
+
+#[test]
+fn shipped_flowsheets_give_the_saved_streams_and_duties() {
+    let db = db();
+    for file in shipped() {
+        let name = file.file_stem().unwrap().to_string_lossy().to_string();
+        let saved = root()
+            .join("tests/data/reference_outputs")
+            .join(format!("{name}.json"));
+        let saved: Value = serde_json::from_str(
+            &std::fs::read_to_string(&saved)
+                .unwrap_or_else(|e| panic!("{name}: no saved reference {}: {e}", saved.display())),
+        )
+        .unwrap();
+        let fs = Flowsheet::from_file(&file, &db).unwrap();
+        let r = fs.solve(&db).unwrap();
+        let streams = saved["streams"].as_object().unwrap();
+        assert_eq!(streams.len(), r.streams.len(), "{name}: stream count");
+        for s in &r.streams {
+            let want = &streams[&s.name];
+            let st = &s.stream;
+            // 1e-12 relative: the same numbers, up to the last bits of a reordered sum.
+            assert!(close(
+                st.temperature_k,
+                want["temperature_K"].as_f64().unwrap(),
+                1e-12
+            ));
+            assert!(close(
+                st.pressure_pa / 1e5,
+                want["pressure_bar"].as_f64().unwrap(),
+                1e-12
+            ));
+            let h_kw = st.enthalpy_w(&db).unwrap() / 1e3;
+            assert!(
+                close(h_kw, want["enthalpy_kW"].as_f64().unwrap(), 1e-12),
+                "{name} {}: enthalpy {h_kw}",
+                s.name
+            );
+            for (species, v) in want["flow_kmol_h"].as_object().unwrap() {
+                let i = db.index_of(species).unwrap();
+                let got = st.flows[i] * 3.6;
+                assert!(
+                    close(got, v.as_f64().unwrap(), 1e-12),
+                    "{name} {} {species}: {got} vs {v}",
+                    s.name
+                );
+            }
+        }
+        for u in &r.units {
+            let want = saved["units"][&u.name]["duty_kW"].as_f64().unwrap();
+            assert!(
+                close(u.result.duty_w / 1e3, want, 1e-12),
+                "{name} {}: duty",
+                u.name
+            );
+        }
+    }
+}
+
+/// Solve the demo train with one input changed through its path, and the demo file edited by
+/// hand to the same value: the same streams and duties (to 1e-12 relative).
+fn same_as_edited(path: &str, value_si: f64, from: &str, to: &str) {
+    let db = db();
+    let text = std::fs::read_to_string(root().join("flowsheets/demo-train.yaml")).unwrap();
+    assert!(text.contains(from), "the demo lacks {from:?}");
+    let fs = Flowsheet::from_yaml_str("demo", &text, &db).unwrap();
+    let mut p = fs.parameters();
+    let slot = fs.input(path).unwrap();
+    p[slot.0] = value_si;
+    let a = fs.solve_with(&db, &p, None).unwrap();
+    let edited = Flowsheet::from_yaml_str("edited", &text.replacen(from, to, 1), &db).unwrap();
+    let b = edited.solve(&db).unwrap();
+    for (x, y) in a.streams.iter().zip(&b.streams) {
+        assert!(
+            close(x.stream.temperature_k, y.stream.temperature_k, 1e-12),
+            "{path}: {} T {} vs {}",
+            x.name,
+            x.stream.temperature_k,
+            y.stream.temperature_k
+        );
+        for (f, g) in x.stream.flows.iter().zip(&y.stream.flows) {
+            assert!(close(*f, *g, 1e-12), "{path}: {} flows", x.name);
+        }
+    }
+    for (x, y) in a.units.iter().zip(&b.units) {
+        assert!(
+            close(x.result.duty_w, y.result.duty_w, 1e-12),
+            "{path}: {}",
+            x.name
+        );
+    }
+    // And the change did something.
+    let base = fs.solve(&db).unwrap();
+    let moved = a.streams.iter().zip(&base.streams).any(|(x, y)| {
+        x.stream.flows != y.stream.flows || x.stream.temperature_k != y.stream.temperature_k
+    });
+    assert!(moved, "{path}: changing it changed nothing");
+}
+
+#[test]
+fn a_changed_input_equals_a_file_edited_by_hand() {
+    // Feeds: temperature, total (scaled composition) and one species flow.
+    same_as_edited(
+        "feeds.natural-gas.temperature",
+        370.0 + 273.15,
+        "temperature: 380 degC",
+        "temperature: 370 degC",
+    );
+    same_as_edited(
+        "feeds.process-steam.total",
+        3300.0 / 3.6,
+        "total: 3105 kmol/h",
+        "total: 3300 kmol/h",
+    );
+    same_as_edited(
+        "feeds.natural-gas.flows.C2H6",
+        40.0 / 3.6,
+        "C2H6: 35 kmol/h",
+        "C2H6: 40 kmol/h",
+    );
+    // Units: heater outlet, pre-reformer approach, reformer outlet and approach, cooler outlet,
+    // shift approach, knockout temperature, purifier recovery and purity, pressure drops.
+    same_as_edited(
+        "units.prereformer-preheater.outlet-temperature",
+        480.0 + 273.15,
+        "outlet-temperature: 490 degC",
+        "outlet-temperature: 480 degC",
+    );
+    same_as_edited(
+        "units.prereformer.approach.reforming",
+        5.0,
+        "approach: {reforming: 0 K, shift: 0 K}",
+        "approach: {reforming: 5 K, shift: 0 K}",
+    );
+    same_as_edited(
+        "units.reformer.outlet-temperature",
+        880.0 + 273.15,
+        "outlet-temperature: 865 degC",
+        "outlet-temperature: 880 degC",
+    );
+    same_as_edited(
+        "units.reformer.approach.reforming",
+        15.0,
+        "approach: {reforming: 10 K, shift: 0 K}",
+        "approach: {reforming: 15 K, shift: 0 K}",
+    );
+    same_as_edited(
+        "units.process-gas-cooler.outlet-temperature",
+        340.0 + 273.15,
+        "outlet-temperature: 350 degC",
+        "outlet-temperature: 340 degC",
+    );
+    same_as_edited(
+        "units.hts.approach.shift",
+        20.0,
+        "approach: {shift: 8 K}",
+        "approach: {shift: 20 K}",
+    );
+    same_as_edited(
+        "units.lts.pressure-drop",
+        0.5e5,
+        "    catalyst: low-temperature-copper\n    pressure-drop: 0.3 bar",
+        "    catalyst: low-temperature-copper\n    pressure-drop: 0.5 bar",
+    );
+    same_as_edited(
+        "units.knockout.temperature",
+        35.0 + 273.15,
+        "temperature: 40 degC",
+        "temperature: 35 degC",
+    );
+    same_as_edited(
+        "units.psa.hydrogen-recovery",
+        0.9,
+        "hydrogen-recovery: 0.88",
+        "hydrogen-recovery: 0.9",
+    );
+    same_as_edited(
+        "units.psa.purity",
+        0.9995,
+        "purity: 0.999",
+        "purity: 0.9995",
+    );
+}
+
+#[test]
+fn a_changed_splitter_and_mixer_input_equals_an_edited_file() {
+    // The splitter and mixer are not in the demo: a small file of our own.
+    let db = db();
+    let text = "title: split and mix (invented)
+feeds:
+  a: {temperature: 300 degC, pressure: 20 bar, flows: {H2: 100 kmol/h, N2: 10 kmol/h}}
+  b: {temperature: 200 degC, pressure: 21 bar, flows: {CH4: 50 kmol/h}}
+units:
+  - {name: tee, type: splitter, from: a, to: [one, two], fractions: {one: 0.3}}
+  - {name: mix, type: mixer, from: [one, b], to: mixed, pressure-drop: 0.1 bar}
+";
+    let fs = Flowsheet::from_yaml_str("t", text, &db).unwrap();
+    for (path, value, from, to) in [
+        ("units.tee.fractions.one", 0.45, "{one: 0.3}", "{one: 0.45}"),
+        (
+            "units.mix.pressure-drop",
+            0.3e5,
+            "pressure-drop: 0.1 bar",
+            "pressure-drop: 0.3 bar",
+        ),
+    ] {
+        let mut p = fs.parameters();
+        p[fs.input(path).unwrap().0] = value;
+        let a = fs.solve_with(&db, &p, None).unwrap();
+        let b = Flowsheet::from_yaml_str("e", &text.replace(from, to), &db)
+            .unwrap()
+            .solve(&db)
+            .unwrap();
+        for (x, y) in a.streams.iter().zip(&b.streams) {
+            assert!(
+                close(x.stream.temperature_k, y.stream.temperature_k, 1e-12),
+                "{path}"
+            );
+            assert!(
+                close(x.stream.pressure_pa, y.stream.pressure_pa, 1e-12),
+                "{path}"
+            );
+            for (f, g) in x.stream.flows.iter().zip(&y.stream.flows) {
+                assert!(close(*f, *g, 1e-12), "{path}");
+            }
+        }
+    }
+}
+
+#[test]
+fn every_numeric_input_has_a_path_and_unknown_paths_name_the_nearest() {
+    let db = db();
+    let fs = Flowsheet::from_file(&root().join("flowsheets/demo-train.yaml"), &db).unwrap();
+    let paths: Vec<&str> = fs.inputs().iter().map(|p| p.path.as_str()).collect();
+    for expected in [
+        "feeds.natural-gas.temperature",
+        "feeds.natural-gas.pressure",
+        "feeds.natural-gas.total",
+        "feeds.natural-gas.flows.CH4",
+        "feeds.process-steam.flows.H2O",
+        "units.reformer.outlet-temperature",
+        "units.reformer.approach.shift",
+        "units.hts.approach.shift",
+        "units.lts.pressure-drop",
+        // Left out of the file, still an input (its default).
+        "units.feed-mixer.pressure-drop",
+        "units.psa.tail-gas-pressure",
+    ] {
+        assert!(
+            paths.contains(&expected),
+            "{expected} missing from {paths:?}"
+        );
+    }
+    assert_eq!(fs.parameters().len(), paths.len());
+    let e = fs.input("units.hts.aproach.shift").unwrap_err().to_string();
+    assert!(e.contains("units.hts.approach.shift"), "{e}");
+}
+
+#[test]
+fn a_wrong_parameter_value_is_an_error_of_that_case() {
+    let db = db();
+    let fs = Flowsheet::from_file(&root().join("flowsheets/demo-train.yaml"), &db).unwrap();
+    let mut p = fs.parameters();
+    p[fs.input("units.psa.hydrogen-recovery").unwrap().0] = 1.5;
+    let e = fs.solve_with(&db, &p, None).unwrap_err();
+    assert!(format!("{e:?}").contains("hydrogen-recovery"), "{e}");
+    assert!(fs.solve_with(&db, &p[1..], None).is_err());
+}
+
+#[test]
+fn a_compiled_flowsheet_is_send_and_sync_and_solves_on_threads() {
+    fn shared<T: Send + Sync>(_: &T) {}
+    let db = db();
+    let fs = Flowsheet::from_file(&root().join("flowsheets/demo-train.yaml"), &db).unwrap();
+    shared(&fs);
+    let base = fs.solve(&db).unwrap();
+    std::thread::scope(|s| {
+        for k in 0..2 {
+            let (fs, db, base) = (&fs, &db, &base);
+            s.spawn(move || {
+                let mut p = fs.parameters();
+                let slot = fs.input("units.hts.approach.shift").unwrap();
+                p[slot.0] = 8.0 + k as f64;
+                let r = fs.solve_with(db, &p, Some(base)).unwrap();
+                assert_eq!(r.units.len(), base.units.len());
+            });
+        }
+    });
+}
+
+#[test]
+fn the_registry_knows_every_type_and_key_the_shipped_flowsheets_use() {
+    for file in shipped() {
+        let text = std::fs::read_to_string(&file).unwrap();
+        let doc: serde_json::Value =
+            serde_json::to_value(serde_norway::from_str::<serde_norway::Value>(&text).unwrap())
+                .unwrap();
+        for unit in doc["units"].as_array().unwrap() {
+            let t = unit["type"].as_str().unwrap();
+            let ty = UNIT_TYPES
+                .iter()
+                .find(|u| u.name == t)
+                .unwrap_or_else(|| panic!("{t} is not in the registry"));
+            for key in unit.as_object().unwrap().keys() {
+                let common = ["name", "type", "from", "to"].contains(&key.as_str());
+                assert!(
+                    common || ty.keys.iter().any(|k| k.key == key),
+                    "{t}: key {key} undocumented"
+                );
+            }
+        }
+    }
+}
