@@ -83,6 +83,15 @@ enum Command {
         #[arg(long, short = 'o', value_name = "PATH")]
         output: Option<PathBuf>,
     },
+    /// List the unit types a flowsheet can use, with their inlets, outlets and keys, or show one.
+    #[command(name = "unit-types", after_help = CAUTION, after_long_help = CAUTION)]
+    UnitTypes {
+        /// A unit type (e.g. shift); omit to list all.
+        name: Option<String>,
+        /// Output format.
+        #[arg(long, value_enum, default_value = "table")]
+        format: SpeciesFormat,
+    },
     /// List the species database, or show one record with its properties.
     #[command(after_help = CAUTION, after_long_help = CAUTION)]
     Species {
@@ -161,6 +170,10 @@ fn run(cli: Cli) -> syntrain::Result<String> {
                 None => Ok(text),
             }
         }
+        Command::UnitTypes { name, format } => match format {
+            SpeciesFormat::Table => syntrain::report::unit_types::table(name.as_deref()),
+            SpeciesFormat::Json => syntrain::report::unit_types::json(name.as_deref()),
+        },
         Command::Species {
             name,
             temperatures,

@@ -345,3 +345,48 @@ fn the_registry_knows_every_type_and_key_the_shipped_flowsheets_use() {
         }
     }
 }
+
+#[test]
+fn result_paths_read_the_solution_in_the_units_their_names_say() {
+    let db = db();
+    let fs = Flowsheet::from_file(&root().join("flowsheets/demo-train.yaml"), &db).unwrap();
+    let r = fs.solve(&db).unwrap();
+    let v = |p: &str| r.value(&db, p).unwrap();
+    let reformed = &r
+        .streams
+        .iter()
+        .find(|s| s.name == "reformed-gas")
+        .unwrap()
+        .stream;
+    assert_eq!(
+        v("streams.reformed-gas.temperature_K"),
+        reformed.temperature_k
+    );
+    assert_eq!(
+        v("streams.reformed-gas.pressure_bar"),
+        reformed.pressure_pa / 1e5
+    );
+    let ch4 = db.index_of("CH4").unwrap();
+    assert!((v("streams.reformed-gas.flow_kmol_h.CH4") - reformed.flows[ch4] * 3.6).abs() < 1e-9);
+    // The dry methane of the stream is the reformer's methane-slip figure, in %.
+    let dry = v("streams.reformed-gas.dry_mol_pct.CH4");
+    assert!((dry - v("units.reformer.figures.methane-slip-dry")).abs() < 1e-12);
+    assert!((dry - v("summary.methane_slip_percent_dry.reformer")).abs() < 1e-12);
+    let duty = r
+        .units
+        .iter()
+        .find(|u| u.name == "reformer")
+        .unwrap()
+        .result
+        .duty_w;
+    assert!((v("units.reformer.duty_kW") - duty / 1e3).abs() < 1e-9);
+    assert_eq!(v("units.hts.approach_K.shift"), 8.0);
+    assert!(
+        (v("units.hts.outlet_temperature_K") - v("streams.hts-exit.temperature_K")).abs() == 0.0
+    );
+    // DIN 1343: 22.414 Nm3/kmol.
+    let h2 = v("summary.hydrogen_product_kmol_h");
+    assert!((v("summary.hydrogen_product_Nm3_h") / h2 - 22.414).abs() < 1e-3);
+    let e = r.value(&db, "units.hts.dutty_kW").unwrap_err().to_string();
+    assert!(e.contains("units.hts.duty_kW"), "{e}");
+}

@@ -11,6 +11,7 @@ pub mod species;
 pub mod tables;
 #[cfg(test)]
 mod test_fixture;
+pub mod unit_types;
 
 pub use output::write_output;
 

@@ -168,16 +168,10 @@ pub fn phase_name(phase: StreamPhase) -> &'static str {
 /// Fraction -> %, Ppm -> ppm, Temperature -> degC, TemperatureDifference -> K,
 /// MolarFlow -> kmol/h, Pressure -> bar abs, Number -> no unit.
 pub fn figure_value(figure: &Figure) -> (f64, &'static str) {
-    let v = figure.value;
-    match figure.kind {
-        FigureKind::Fraction => (v * 100.0, "%"),
-        FigureKind::Ppm => (v * 1.0e6, "ppm"),
-        FigureKind::Temperature => (kelvin_to_degc(v), "degC"),
-        FigureKind::TemperatureDifference => (v, "K"),
-        FigureKind::MolarFlow => (mol_s_to_kmol_h(v), "kmol/h"),
-        FigureKind::Pressure => (pa_to_bar(v), "bar abs"),
-        FigureKind::Number => (v, ""),
-    }
+    (
+        figure.kind.to_report(figure.value),
+        figure.kind.report_unit(),
+    )
 }
 
 /// A figure's number in report units, rounded for reading ("3.214", "870.0").
