@@ -202,7 +202,8 @@ fn check_json_report(v: &Value) {
     }
     assert!(f(&v["balances"]["element_residual"]) < 1e-9);
     assert!(f(&v["balances"]["energy_residual"]) < 1e-6);
-    assert_eq!(v["converged"], true);
+    // A result exists only when every unit converged: no top-level flag to check.
+    assert!(v.get("converged").is_none());
 }
 
 #[test]

@@ -70,8 +70,6 @@ pub struct FlowsheetResult {
     pub summary: Summary,
     /// Warnings of all units (each names its unit) and of the flowsheet, as data.
     pub warnings: Vec<crate::diagnostics::Warning>,
-    /// True when every unit converged.
-    pub converged: bool,
     /// Largest relative element-balance error, products vs feeds (per element, relative to
     /// its feed amount).
     pub element_balance_residual: f64,

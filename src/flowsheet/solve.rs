@@ -143,9 +143,6 @@ pub fn solve(
         });
     }
 
-    let converged = units
-        .iter()
-        .all(|u| u.result.equilibrium.as_ref().is_none_or(|e| e.converged));
     let summary = summary(&units);
     let element_balance_residual = element_balance(db, &streams)?;
     let energy_balance_residual = energy_balance(db, &streams, &units)?;
@@ -155,7 +152,6 @@ pub fn solve(
         units,
         summary,
         warnings,
-        converged,
         element_balance_residual,
         energy_balance_residual,
     })

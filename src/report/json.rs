@@ -9,7 +9,8 @@
 //!   `unit` is null for a warning about the flowsheet as a whole
 //!
 //! Beside them:
-//! - top level: `title`, `converged`, `summary`, `balances`, `cautions`
+//! - top level: `title`, `summary`, `balances`, `cautions` (a result exists only when every unit
+//!   converged and the balances closed; anything else is an error)
 //! - `streams.<name>`: `source` ("feed" or the unit name), `destination` (unit name or null for a
 //!   product), `phase` ("vapour" or "liquid"), `temperature_degC`, `total_kmol_h`,
 //!   `total_Nm3_h` (ideal gas at 273.15 K and 101 325 Pa, DIN 1343), `mass_kg_h`, `mole_percent_wet`,
@@ -114,7 +115,6 @@ pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
 
     let mut top = Map::new();
     top.insert("title".into(), json!(result.title));
-    top.insert("converged".into(), json!(result.converged));
     top.insert("streams".into(), Value::Object(streams));
     top.insert("units".into(), Value::Object(units));
     top.insert("summary".into(), summary);

@@ -186,23 +186,6 @@ mod tests {
     }
 
     #[test]
-    fn not_converged_is_loud() {
-        with_db(|db| {
-            let mut result = fixture(db);
-            result.converged = false;
-            if let Some(eq) = result.units[1].result.equilibrium.as_mut() {
-                eq.converged = false;
-            }
-            let text = render(db, &result).unwrap();
-            assert!(
-                text.contains("NOT CONVERGED (not converged: reformer)"),
-                "{text}"
-            );
-            assert!(text.contains("every unit converged"));
-        });
-    }
-
-    #[test]
     fn wraps_words() {
         assert_eq!(wrap("aa bb cc", 2, 7), "  aa bb\n  cc\n");
     }

