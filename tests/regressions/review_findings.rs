@@ -29,3 +29,42 @@ fn splitter_rest_outlet_takes_what_is_left_and_nan_is_refused() {
         assert!(e.to_string().contains("unit 'tee'"), "{e}");
     }
 }
+
+/// Every warning code the source can raise is documented in the README, one line each; a code
+/// added without its line fails here.
+#[test]
+fn every_warning_code_is_listed_in_the_readme() {
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR"));
+    let readme = std::fs::read_to_string(root.join("README.md")).unwrap();
+    let mut codes = Vec::new();
+    let mut stack = vec![root.join("src")];
+    while let Some(dir) = stack.pop() {
+        for entry in std::fs::read_dir(dir).unwrap() {
+            let path = entry.unwrap().path();
+            if path.is_dir() {
+                stack.push(path);
+            } else if path.extension().is_some_and(|e| e == "rs") {
+                let text = std::fs::read_to_string(&path).unwrap();
+                let mut rest = text.as_str();
+                while let Some(i) = rest.find("Warning::new(") {
+                    rest = &rest[i + "Warning::new(".len()..];
+                    let code = rest.trim_start().trim_start_matches('"');
+                    let code: String = code
+                        .chars()
+                        .take_while(|c| c.is_ascii_lowercase() || *c == '-')
+                        .collect();
+                    if code.len() > 1 {
+                        codes.push(code);
+                    }
+                }
+            }
+        }
+    }
+    assert!(codes.len() >= 10, "{codes:?}");
+    for code in codes {
+        assert!(
+            readme.contains(&format!("- `{code}`: ")),
+            "warning code {code} is not listed in the README"
+        );
+    }
+}
