@@ -107,23 +107,30 @@ impl Feed {
         }
     }
 
-    /// The feed's stream for a parameter vector. The flows are those of `flows.SPECIES`; when
-    /// `total` differs from the file's, they are scaled to it (so a total and a composition may
-    /// be set together). The phase follows as for the file's feed.
-    pub fn stream_with(
+    /// Write the feed's stream for a parameter vector into `out` (its flow vector reused). The
+    /// flows are those of `flows.SPECIES`; when `total` differs from the file's, they are scaled
+    /// to it (so a total and a composition may be set together). The phase follows as for the
+    /// file's feed.
+    pub fn stream_into(
         &self,
         db: &SpeciesDb,
         inputs: &FeedInputs,
         params: &[f64],
         defaults: &[f64],
-    ) -> Result<Stream> {
+        out: &mut Stream,
+    ) -> Result<()> {
         let same = |p: Param| params[p.0].to_bits() == defaults[p.0].to_bits();
         let unchanged = same(inputs.temperature)
             && same(inputs.pressure)
             && same(inputs.total)
             && inputs.flows.iter().all(|(_, p)| same(*p));
         if unchanged {
-            return Ok(self.stream.clone());
+            out.flows.clear();
+            out.flows.extend_from_slice(&self.stream.flows);
+            out.temperature_k = self.stream.temperature_k;
+            out.pressure_pa = self.stream.pressure_pa;
+            out.phase = self.stream.phase;
+            return Ok(());
         }
         let field = format!("feeds.{}", self.name);
         let value = |p: Param, key: &str, positive: bool| -> Result<f64> {
@@ -162,7 +169,8 @@ impl Feed {
         } else if sum <= 0.0 {
             return invalid(&field, "zero flow", "the feed has no flow at all");
         }
-        with_phase(db, &field, Stream::vapour(flows, t, p))
+        *out = with_phase(db, &field, Stream::vapour(flows, t, p))?;
+        Ok(())
     }
 }
 
@@ -173,8 +181,7 @@ pub const NEAR_SATURATION_K: f64 = 1.0;
 
 /// A warning for a liquid-water feed within [`NEAR_SATURATION_K`] below its saturation
 /// temperature (taken as liquid; saturated steam needs T >= T_s(P)).
-pub fn near_saturation_warning(db: &SpeciesDb, feed: &Feed) -> Option<Warning> {
-    let s = &feed.stream;
+pub fn near_saturation_warning(db: &SpeciesDb, feed: &str, s: &Stream) -> Option<Warning> {
     let w = db.index_of("H2O")?;
     if s.phase != crate::units::StreamPhase::Liquid || !s.is_pure_water(w) {
         return None;
@@ -189,7 +196,7 @@ pub fn near_saturation_warning(db: &SpeciesDb, feed: &Feed) -> Option<Warning> {
         )
         .value(s.temperature_k, FigureKind::Temperature)
         .limit(t_s)
-        .subject(feed.name.as_str())
+        .subject(feed)
     })
 }
 
@@ -391,7 +398,7 @@ mod tests {
         let bfw = water_feed(423.15, 3.0e6, vec![("H2O", Flow::Molar(1.0))]);
         let feed = convert(&db, "bfw", &bfw).unwrap();
         assert_eq!(feed.stream.phase, StreamPhase::Liquid);
-        assert!(near_saturation_warning(&db, &feed).is_none());
+        assert!(near_saturation_warning(&db, &feed.name, &feed.stream).is_none());
         let steam = water_feed(507.01, 3.0e6, vec![("H2O", Flow::Molar(1.0))]);
         assert_eq!(
             convert(&db, "s", &steam).unwrap().stream.phase,
@@ -400,7 +407,7 @@ mod tests {
         let near = water_feed(506.5, 3.0e6, vec![("H2O", Flow::Molar(1.0))]);
         let feed = convert(&db, "near", &near).unwrap();
         assert_eq!(feed.stream.phase, StreamPhase::Liquid);
-        let w = near_saturation_warning(&db, &feed).unwrap();
+        let w = near_saturation_warning(&db, &feed.name, &feed.stream).unwrap();
         assert_eq!(w.code, "feed-near-saturation");
         assert!((w.limit.unwrap() - 507.008).abs() < 1e-3, "{w:?}");
         let text = w.to_string();

@@ -28,7 +28,7 @@ pub use feeds::Feed;
 pub use feeds::FeedInputs;
 pub use graph::FlowGraph;
 pub use result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Summary};
-pub use solve::{ELEMENT_BALANCE_TOLERANCE, ENERGY_BALANCE_TOLERANCE};
+pub use solve::{Workspace, ELEMENT_BALANCE_TOLERANCE, ENERGY_BALANCE_TOLERANCE};
 pub use spec::FlowsheetUnit;
 
 use crate::error::{Error, Result};
@@ -49,6 +49,19 @@ pub struct Flowsheet {
     units: Vec<FlowsheetUnit>,
     graph: FlowGraph,
     params: ParamTable,
+    /// The parameter vector of the file.
+    defaults: Vec<f64>,
+    /// For each unit in solve order: its inlet streams and first outlet, as indices into the
+    /// streams of a result (feeds first, then unit outlets in solve order).
+    layout: Vec<UnitIo>,
+    elements: solve::ElementTable,
+}
+
+/// Where a unit's inlets and outlets sit among the streams of a result.
+#[derive(Debug, Clone)]
+struct UnitIo {
+    inlets: Vec<usize>,
+    first_outlet: usize,
 }
 
 impl Flowsheet {
@@ -153,6 +166,8 @@ impl Flowsheet {
             None => *e.error,
         })?;
         let title = model.title.unwrap_or_else(|| origin.to_string());
+        let defaults = params.defaults();
+        let layout = layout(&feeds, &units, &graph);
         Ok(Flowsheet {
             title,
             origin: origin.to_string(),
@@ -161,13 +176,33 @@ impl Flowsheet {
             units,
             graph,
             params,
+            defaults,
+            layout,
+            elements: solve::ElementTable::new(db),
         })
     }
 
     /// Solve every unit in order with the values of the file, check the balances and collect
     /// the result.
     pub fn solve(&self, db: &SpeciesDb) -> Result<FlowsheetResult> {
-        solve::solve(self, db, &self.params.defaults(), None)
+        solve::solve(self, db, &self.defaults, None)
+    }
+
+    /// Per-thread work memory for [`Flowsheet::solve_in`].
+    pub fn workspace(&self, db: &SpeciesDb) -> Workspace {
+        solve::workspace(self, db)
+    }
+
+    /// Solve with the parameter vector `params` into a workspace of this flowsheet, warm-started
+    /// from that workspace's previous solution; the result lives in the workspace. The path for
+    /// many cases: once warm, it makes no heap allocation on its own.
+    pub fn solve_in<'w>(
+        &self,
+        db: &SpeciesDb,
+        params: &[f64],
+        ws: &'w mut Workspace,
+    ) -> Result<&'w FlowsheetResult> {
+        solve::solve_in(self, db, params, ws)
     }
 
     /// Solve with the parameter vector `params` (one value per input, by slot: start from
@@ -237,4 +272,25 @@ impl Flowsheet {
     pub fn units_in_order(&self) -> impl Iterator<Item = &FlowsheetUnit> {
         self.graph.order.iter().map(|&i| &self.units[i])
     }
+}
+
+/// Stream indices of each unit's inlets and first outlet, in solve order (the streams of a
+/// result are the feeds in file order, then each unit's outlets in solve order).
+fn layout(feeds: &[Feed], units: &[FlowsheetUnit], graph: &FlowGraph) -> Vec<UnitIo> {
+    let mut names: Vec<&str> = feeds.iter().map(|f| f.name.as_str()).collect();
+    let mut out = Vec::with_capacity(units.len());
+    for &u in &graph.order {
+        let unit = &units[u];
+        let inlets = unit
+            .inlets
+            .iter()
+            .map(|i| names.iter().position(|n| n == i).unwrap_or(usize::MAX))
+            .collect();
+        out.push(UnitIo {
+            inlets,
+            first_outlet: names.len(),
+        });
+        names.extend(unit.outlets.iter().map(String::as_str));
+    }
+    out
 }

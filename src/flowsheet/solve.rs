@@ -10,30 +10,129 @@
 //! A flowsheet that fails either check is an error, never a result. The plant summary reads the
 //! figures the units publish.
 
-use std::collections::HashMap;
-
 use super::result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Summary};
 use super::Flowsheet;
 use crate::error::{Error, Result};
 use crate::thermo::{mixture, water, SpeciesDb};
-use crate::units::unit::UnitContext;
-use crate::units::{Stream, StreamPhase, Warning};
+use crate::units::unit::{UnitContext, UnitScratch};
+use crate::units::{Stream, StreamPhase, UnitResult, Warning};
 
 /// Largest relative element-balance error a solved flowsheet may have.
 pub const ELEMENT_BALANCE_TOLERANCE: f64 = 1e-9;
 /// Largest relative energy-balance error a solved flowsheet may have.
 pub const ENERGY_BALANCE_TOLERANCE: f64 = 1e-6;
 
-/// Solve every unit in order with the parameter vector `params` (by slot) and collect the
-/// result; `previous`: a result of the same flowsheet whose equilibrium extents start each
-/// stage (a warm start).
-pub fn solve(
+/// The atoms of each element in each database species, built once per flowsheet so that the
+/// element balance of a solve reads numbers by index.
+#[derive(Debug, Clone)]
+pub(crate) struct ElementTable {
+    /// Element symbols, sorted.
+    names: Vec<String>,
+    /// For each element: atoms per molecule of each database species.
+    atoms: Vec<Vec<f64>>,
+}
+
+impl ElementTable {
+    pub(crate) fn new(db: &SpeciesDb) -> ElementTable {
+        let names = mixture::elements(db);
+        let atoms = names
+            .iter()
+            .map(|e| db.all().iter().map(|s| s.atoms(e)).collect())
+            .collect();
+        ElementTable { names, atoms }
+    }
+}
+
+/// Per-thread work memory of a flowsheet solve: the result it writes into (stream and unit names
+/// laid out once), each unit's scratch, and the warm-start extents. Make one per thread with
+/// [`Flowsheet::workspace`] and reuse it: a solve then starts every equilibrium stage from the
+/// previous solution of this workspace.
+#[derive(Debug)]
+pub struct Workspace {
+    result: FlowsheetResult,
+    scratch: Vec<UnitScratch>,
+    guess: Vec<f64>,
+    /// Whether each unit (solve order) holds a converged solution to start from.
+    warm: Vec<bool>,
+}
+
+impl Workspace {
+    /// The last result written (valid after a successful solve).
+    pub fn result(&self) -> &FlowsheetResult {
+        &self.result
+    }
+
+    /// Forget the previous solution (the next solve starts cold).
+    pub fn forget(&mut self) {
+        self.warm.iter_mut().for_each(|w| *w = false);
+    }
+}
+
+/// A workspace laid out for `fs`: one stream per feed and unit outlet (solve order), one unit
+/// entry per unit (solve order), with their names.
+pub(crate) fn workspace(fs: &Flowsheet, db: &SpeciesDb) -> Workspace {
+    let destination = |name: &str| {
+        fs.units
+            .iter()
+            .find(|u| u.inlets.iter().any(|i| i == name))
+            .map(|u| u.name.clone())
+    };
+    let empty = |n: usize| Stream::vapour(vec![0.0; n], 0.0, 0.0);
+    let mut streams = Vec::new();
+    for feed in &fs.feeds {
+        streams.push(SolvedStream {
+            name: feed.name.clone(),
+            stream: feed.stream.clone(),
+            source: StreamSource::Feed,
+            destination: destination(&feed.name),
+        });
+    }
+    let mut units = Vec::with_capacity(fs.units.len());
+    for unit in fs.units_in_order() {
+        for name in &unit.outlets {
+            streams.push(SolvedStream {
+                name: name.clone(),
+                stream: empty(db.len()),
+                source: StreamSource::Unit(unit.name.clone()),
+                destination: destination(name),
+            });
+        }
+        units.push(SolvedUnit {
+            name: unit.name.clone(),
+            type_name: unit.unit_type.name.to_string(),
+            inlets: unit.inlets.clone(),
+            outlets: unit.outlets.clone(),
+            result: UnitResult::default(),
+        });
+    }
+    Workspace {
+        result: FlowsheetResult {
+            title: fs.title.clone(),
+            streams,
+            units,
+            summary: Summary::default(),
+            warnings: Vec::new(),
+            element_balance_residual: 0.0,
+            energy_balance_residual: 0.0,
+        },
+        scratch: (0..fs.units.len())
+            .map(|_| UnitScratch::default())
+            .collect(),
+        guess: Vec::new(),
+        warm: vec![false; fs.units.len()],
+    }
+}
+
+/// Solve every unit in order with the parameter vector `params` (by slot) into the workspace,
+/// check the balances, and return the result it holds. Warm-started from the workspace's
+/// previous solution where it has one.
+pub(crate) fn solve_in<'w>(
     fs: &Flowsheet,
     db: &SpeciesDb,
     params: &[f64],
-    previous: Option<&FlowsheetResult>,
-) -> Result<FlowsheetResult> {
-    let defaults = fs.params.defaults();
+    ws: &'w mut Workspace,
+) -> Result<&'w FlowsheetResult> {
+    let defaults = &fs.defaults;
     if params.len() != defaults.len() {
         return Err(Error::InvalidValue {
             field: "parameter vector".into(),
@@ -44,117 +143,131 @@ pub fn solve(
             ),
         });
     }
-    let n_streams = fs.feeds.len() + fs.units.iter().map(|u| u.outlets.len()).sum::<usize>();
-    let mut streams: Vec<SolvedStream> = Vec::with_capacity(n_streams);
-    let mut slot: HashMap<&str, usize> = HashMap::with_capacity(n_streams);
-    let mut destination: HashMap<&str, &str> = HashMap::with_capacity(n_streams);
-    for unit in &fs.units {
-        for inlet in &unit.inlets {
-            destination.insert(inlet, &unit.name);
+    let Workspace {
+        result,
+        scratch,
+        guess,
+        warm,
+    } = ws;
+    result.warnings.clear();
+    for (k, (feed, inputs)) in fs.feeds.iter().zip(&fs.feed_inputs).enumerate() {
+        feed.stream_into(db, inputs, params, defaults, &mut result.streams[k].stream)?;
+        if result.streams[k].destination.is_none() {
+            result.warnings.push(
+                Warning::new(
+                    "feed-unused",
+                    "feed {subject} goes to no unit; it is listed as a product as it is",
+                )
+                .subject(feed.name.as_str()),
+            );
+        }
+        if let Some(w) =
+            super::feeds::near_saturation_warning(db, &feed.name, &result.streams[k].stream)
+        {
+            result.warnings.push(w);
         }
     }
-    let dest = |name: &str| destination.get(name).map(|d| d.to_string());
-    for (feed, inputs) in fs.feeds.iter().zip(&fs.feed_inputs) {
-        let stream = feed.stream_with(db, inputs, params, &defaults)?;
-        slot.insert(&feed.name, streams.len());
-        streams.push(SolvedStream {
-            name: feed.name.clone(),
-            stream,
-            source: StreamSource::Feed,
-            destination: dest(&feed.name),
-        });
-    }
-
-    let mut units: Vec<SolvedUnit> = Vec::with_capacity(fs.units.len());
-    let mut warnings: Vec<Warning> = streams
-        .iter()
-        .filter(|s| s.destination.is_none())
-        .map(|s| {
-            Warning::new(
-                "feed-unused",
-                "feed {subject} goes to no unit; it is listed as a product as it is",
-            )
-            .subject(s.name.as_str())
-        })
-        .collect();
-    warnings.extend(
-        fs.feeds
-            .iter()
-            .filter_map(|f| super::feeds::near_saturation_warning(db, f)),
-    );
-    for unit in fs.units_in_order() {
-        let result = {
-            let mut inlets: Vec<&Stream> = Vec::with_capacity(unit.inlets.len());
-            for name in &unit.inlets {
-                let i = *slot.get(name.as_str()).ok_or_else(|| Error::Flowsheet {
-                    reason: format!(
-                        "stream '{name}' is needed by unit '{}' before it is made (internal \
-                         error in the solve order)",
-                        unit.name
-                    ),
-                })?;
-                inlets.push(&streams[i].stream);
+    for (k, &u) in fs.graph.order.iter().enumerate() {
+        let unit = &fs.units[u];
+        let io = &fs.layout[k];
+        let solved = &mut result.units[k];
+        // Warm start: the extents of this workspace's previous solution of the unit.
+        guess.clear();
+        if warm[k] {
+            if let Some(e) = &solved.result.equilibrium {
+                guess.extend_from_slice(&e.extents);
             }
-            let guess = previous
-                .and_then(|p| p.units.iter().find(|u| u.name == unit.name))
-                .and_then(|u| u.result.equilibrium.as_ref())
-                .map(|e| e.extents.as_slice());
-            let cx = UnitContext {
-                db,
-                name: &unit.name,
-                params,
-                defaults: &defaults,
-            };
-            unit.unit.solve(&cx, &inlets, guess).map_err(|e| {
-                e.context(format!(
-                    "solving unit '{}' ({})",
-                    unit.name, unit.unit_type.name
-                ))
-            })?
+        }
+        warm[k] = false;
+        let (before, after) = result.streams.split_at_mut(io.first_outlet);
+        let cx = UnitContext {
+            db,
+            name: &unit.name,
+            params,
+            defaults,
         };
-        if result.outlets.len() != unit.outlets.len() {
+        let g = (!guess.is_empty()).then_some(guess.as_slice());
+        let outcome = with_inlets(before, &io.inlets, |inlets| {
+            unit.unit
+                .solve_into(&cx, inlets, g, &mut scratch[k], &mut solved.result)
+        });
+        outcome.map_err(|e| {
+            e.context(format!(
+                "solving unit '{}' ({})",
+                unit.name, unit.unit_type.name
+            ))
+        })?;
+        let r = &solved.result;
+        if r.outlets.len() != unit.outlets.len() {
             return Err(Error::Flowsheet {
                 reason: format!(
                     "unit '{}' made {} outlet streams but lists {} in `to` (internal error)",
                     unit.name,
-                    result.outlets.len(),
+                    r.outlets.len(),
                     unit.outlets.len()
                 ),
             });
         }
-        for (name, stream) in unit.outlets.iter().zip(&result.outlets) {
-            check_phase(db, &unit.name, name, stream)?;
-            slot.insert(name, streams.len());
-            streams.push(SolvedStream {
-                name: name.clone(),
-                stream: stream.clone(),
-                source: StreamSource::Unit(unit.name.clone()),
-                destination: dest(name),
-            });
+        for (j, outlet) in r.outlets.iter().enumerate() {
+            let target = &mut after[j].stream;
+            target.flows.clear();
+            target.flows.extend_from_slice(&outlet.flows);
+            target.temperature_k = outlet.temperature_k;
+            target.pressure_pa = outlet.pressure_pa;
+            target.phase = outlet.phase;
+            check_phase(db, &unit.name, &after[j].name, target)?;
         }
-        // Unit warnings already name their unit.
-        warnings.extend(result.warnings.iter().cloned());
-        units.push(SolvedUnit {
-            name: unit.name.clone(),
-            type_name: unit.unit_type.name.to_string(),
-            inlets: unit.inlets.clone(),
-            outlets: unit.outlets.clone(),
-            result,
-        });
+        result.warnings.extend(r.warnings.iter().cloned());
+        warm[k] = true;
     }
+    summary(&mut result.summary, &result.units);
+    result.element_balance_residual = element_balance(&fs.elements, &result.streams)?;
+    result.energy_balance_residual = energy_balance(db, &result.streams, &result.units)?;
+    Ok(result)
+}
 
-    let summary = summary(&units);
-    let element_balance_residual = element_balance(db, &streams)?;
-    let energy_balance_residual = energy_balance(db, &streams, &units)?;
-    Ok(FlowsheetResult {
-        title: fs.title.clone(),
-        streams,
-        units,
-        summary,
-        warnings,
-        element_balance_residual,
-        energy_balance_residual,
-    })
+/// Call `f` with the inlet streams at `indices` of `streams`, without a heap allocation for up
+/// to eight inlets.
+fn with_inlets<T>(
+    streams: &[SolvedStream],
+    indices: &[usize],
+    f: impl FnOnce(&[&Stream]) -> T,
+) -> T {
+    const STACK: usize = 8;
+    if indices.len() <= STACK {
+        let first = &streams[indices[0]].stream;
+        let mut refs: [&Stream; STACK] = [first; STACK];
+        for (slot, &i) in refs.iter_mut().zip(indices) {
+            *slot = &streams[i].stream;
+        }
+        f(&refs[..indices.len()])
+    } else {
+        let refs: Vec<&Stream> = indices.iter().map(|&i| &streams[i].stream).collect();
+        f(&refs)
+    }
+}
+
+/// Solve into a fresh workspace (warm-started from `previous` where given) and return an owned
+/// result.
+pub(crate) fn solve(
+    fs: &Flowsheet,
+    db: &SpeciesDb,
+    params: &[f64],
+    previous: Option<&FlowsheetResult>,
+) -> Result<FlowsheetResult> {
+    let mut ws = workspace(fs, db);
+    if let Some(p) = previous {
+        for (k, solved) in ws.result.units.iter_mut().enumerate() {
+            if let Some(old) = p.units.iter().find(|u| u.name == solved.name) {
+                if old.result.equilibrium.is_some() {
+                    solved.result.equilibrium = old.result.equilibrium.clone();
+                    ws.warm[k] = true;
+                }
+            }
+        }
+    }
+    solve_in(fs, db, params, &mut ws)?;
+    Ok(ws.result)
 }
 
 /// A unit outlet must be what its phase says: vapour at or above its water dew point, liquid
@@ -203,19 +316,27 @@ fn check_phase(db: &SpeciesDb, unit: &str, name: &str, s: &Stream) -> Result<()>
 /// The plant summary, read from the figures the units publish: hydrogen in each purifier
 /// product (`hydrogen-product`), methane slip at each reformer outlet (`methane-slip-dry`), CO
 /// slip at each shift outlet (`co-slip-dry`), the steam-to-carbon ratio at each reformer and
-/// pre-reformer inlet (`steam-to-carbon`), and the sums of the duties.
-fn summary(units: &[SolvedUnit]) -> Summary {
-    let mut s = Summary::default();
+/// pre-reformer inlet (`steam-to-carbon`), and the sums of the duties. Written in place: a
+/// solve of the same flowsheet finds the same entries and only sets their values.
+fn summary(s: &mut Summary, units: &[SolvedUnit]) {
+    let mut counts = [0usize; 3];
+    s.hydrogen_product_mol_s = None;
+    s.heating_duty_w = 0.0;
+    s.cooling_duty_w = 0.0;
     for solved in units {
         for f in &solved.result.figures {
-            let entry = (solved.name.clone(), f.value);
-            match f.key {
-                "hydrogen-product" => *s.hydrogen_product_mol_s.get_or_insert(0.0) += f.value,
-                "methane-slip-dry" => s.methane_slip_dry.push(entry),
-                "co-slip-dry" => s.co_slip_dry.push(entry),
-                "steam-to-carbon" => s.steam_to_carbon.push(entry),
-                _ => {}
-            }
+            let (list, n) = match f.key {
+                "hydrogen-product" => {
+                    *s.hydrogen_product_mol_s.get_or_insert(0.0) += f.value;
+                    continue;
+                }
+                "methane-slip-dry" => (&mut s.methane_slip_dry, &mut counts[0]),
+                "co-slip-dry" => (&mut s.co_slip_dry, &mut counts[1]),
+                "steam-to-carbon" => (&mut s.steam_to_carbon, &mut counts[2]),
+                _ => continue,
+            };
+            set_entry(list, *n, &solved.name, f.value);
+            *n += 1;
         }
         let q = solved.result.duty_w;
         if q > 0.0 {
@@ -224,42 +345,61 @@ fn summary(units: &[SolvedUnit]) -> Summary {
             s.cooling_duty_w += q;
         }
     }
-    s
+    s.methane_slip_dry.truncate(counts[0]);
+    s.co_slip_dry.truncate(counts[1]);
+    s.steam_to_carbon.truncate(counts[2]);
+}
+
+/// Set entry `i` of a (unit, value) list, reusing it when it names the same unit.
+fn set_entry(list: &mut Vec<(String, f64)>, i: usize, unit: &str, value: f64) {
+    match list.get_mut(i) {
+        Some(entry) if entry.0 == unit => entry.1 = value,
+        _ => {
+            list.truncate(i);
+            list.push((unit.to_string(), value));
+        }
+    }
 }
 
 /// Largest relative element-balance error, products against feeds; an error above tolerance.
-fn element_balance(db: &SpeciesDb, streams: &[SolvedStream]) -> Result<f64> {
-    let elements = mixture::elements(db);
-    // Feeds: streams made by a feed; products: streams no unit uses (a feed may be both).
-    let sum = |feed: bool, element: &str| -> f64 {
+/// Feeds are the streams a feed makes; products those no unit uses (a feed may be both).
+fn element_balance(table: &ElementTable, streams: &[SolvedStream]) -> Result<f64> {
+    let amount = |e: usize, feed: bool| -> f64 {
         streams
             .iter()
             .filter(|s| match feed {
                 true => s.source == StreamSource::Feed,
                 false => s.destination.is_none(),
             })
-            .map(|s| mixture::element_amount(db, &s.stream.flows, element))
+            .map(|s| {
+                s.stream
+                    .flows
+                    .iter()
+                    .zip(&table.atoms[e])
+                    .map(|(n, a)| n * a)
+                    .sum::<f64>()
+            })
             .sum()
     };
-    let fed: Vec<f64> = elements.iter().map(|e| sum(true, e)).collect();
-    let made: Vec<f64> = elements.iter().map(|e| sum(false, e)).collect();
-    let all_atoms: f64 = fed.iter().sum();
+    let all_atoms: f64 = (0..table.names.len()).map(|e| amount(e, true)).sum();
     let mut worst = 0.0f64;
-    let mut worst_element = String::new();
-    for ((e, f), p) in elements.iter().zip(&fed).zip(&made) {
-        let scale = f.max(1e-12 * all_atoms).max(f64::MIN_POSITIVE);
-        let r = (p - f).abs() / scale;
+    let mut worst_element = 0;
+    for e in 0..table.names.len() {
+        let (fed, made) = (amount(e, true), amount(e, false));
+        let scale = fed.max(1e-12 * all_atoms).max(f64::MIN_POSITIVE);
+        let r = (made - fed).abs() / scale;
         if !(r <= worst) {
             worst = r;
-            worst_element = e.clone();
+            worst_element = e;
         }
     }
     if !(worst <= ELEMENT_BALANCE_TOLERANCE) {
         return Err(Error::Flowsheet {
             reason: format!(
-                "element balance does not close: element {worst_element} is off by {worst:.3e} \
-                 (relative, products against feeds; at most {ELEMENT_BALANCE_TOLERANCE:e} is \
-                 allowed); the result is not reported"
+                "element balance does not close: element {} is off by {worst:.3e} (relative, \
+                 products against feeds; at most {ELEMENT_BALANCE_TOLERANCE:e} is allowed); the \
+                 result is not reported",
+                table.names[worst_element]
             ),
         });
     }
@@ -350,7 +490,8 @@ mod tests {
             None,
             &[("CH4", 1.0)],
         );
-        assert!(element_balance(&db, &[feed.clone(), same]).unwrap() == 0.0);
+        let table = ElementTable::new(&db);
+        assert!(element_balance(&table, &[feed.clone(), same]).unwrap() == 0.0);
         // 1e-8 relative too much carbon and hydrogen in the product.
         let more = stream(
             &db,
@@ -359,7 +500,9 @@ mod tests {
             None,
             &[("CH4", 1.0 + 1e-8)],
         );
-        let e = element_balance(&db, &[feed, more]).unwrap_err().to_string();
+        let e = element_balance(&table, &[feed, more])
+            .unwrap_err()
+            .to_string();
         assert!(
             e.contains("element balance does not close") && e.contains("not reported"),
             "{e}"

@@ -55,7 +55,7 @@ pub struct Figure {
 }
 
 /// What a unit produced.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, Default)]
 pub struct UnitResult {
     /// Outlet streams, in the order of the unit's `to` list.
     pub outlets: Vec<Stream>,

@@ -571,18 +571,54 @@ pub trait UnitKind: Send + Sync + fmt::Debug + Sized + 'static {
         inlets: &[&Stream],
         guess: Option<&[f64]>,
     ) -> Result<UnitResult>;
+
+    /// Solve into `out`, reusing its buffers and `scratch` (a unit that does so makes no heap
+    /// allocation once warm); by default a new result is made and moved in.
+    fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        _scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        *out = self.solve(db, inlets, guess)?;
+        Ok(())
+    }
+}
+
+/// Per-thread work memory of one unit, kept in a flowsheet's workspace and reused across solves
+/// so that a unit's temporaries need no heap allocation once they have their size.
+#[derive(Debug, Default)]
+pub struct UnitScratch {
+    /// Flow vectors for a unit's temporaries (one entry per database species once sized).
+    pub flows: [Vec<f64>; 3],
 }
 
 /// What a compiled flowsheet solves: a built unit with its inputs.
 pub trait Unit: Send + Sync + fmt::Debug {
     /// Solve with the parameter vector `params` (by slot; `defaults` are the values the unit was
-    /// built with).
+    /// built with), writing into `out` (its buffers reused).
+    fn solve_into(
+        &self,
+        cx: &UnitContext<'_>,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()>;
+
+    /// Solve into a new result.
     fn solve(
         &self,
         cx: &UnitContext<'_>,
         inlets: &[&Stream],
         guess: Option<&[f64]>,
-    ) -> Result<UnitResult>;
+    ) -> Result<UnitResult> {
+        let mut out = UnitResult::default();
+        self.solve_into(cx, inlets, guess, &mut UnitScratch::default(), &mut out)?;
+        Ok(out)
+    }
 }
 
 /// The shared inputs of a unit solve.
@@ -614,12 +650,14 @@ impl<U: UnitKind> fmt::Debug for Compiled<U> {
 }
 
 impl<U: UnitKind> Unit for Compiled<U> {
-    fn solve(
+    fn solve_into(
         &self,
         cx: &UnitContext<'_>,
         inlets: &[&Stream],
         guess: Option<&[f64]>,
-    ) -> Result<UnitResult> {
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
         // Bit-for-bit the values it was built with: solve it as it is. Otherwise build it again
         // from its specification with the new values, so that every check runs on them.
         let same = self
@@ -627,13 +665,13 @@ impl<U: UnitKind> Unit for Compiled<U> {
             .iter()
             .all(|(p, _)| cx.params[p.0].to_bits() == cx.defaults[p.0].to_bits());
         if same {
-            return self.unit.solve(cx.db, inlets, guess);
+            return self.unit.solve_into(cx.db, inlets, guess, scratch, out);
         }
         let mut spec = self.unit.spec().clone();
         for (p, set) in &self.setters {
             set(&mut spec, cx.params[p.0]);
         }
-        U::new(cx.db, cx.name, &spec)?.solve(cx.db, inlets, guess)
+        U::new(cx.db, cx.name, &spec)?.solve_into(cx.db, inlets, guess, scratch, out)
     }
 }
 
