@@ -65,7 +65,7 @@ pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
         let approaches: Map<String, Value> = r
             .approaches
             .iter()
-            .map(|(reaction, dt)| (reaction.clone(), number(*dt)))
+            .map(|(reaction, dt)| (reaction.to_string(), number(*dt)))
             .collect();
         unit.insert("approach_K".into(), Value::Object(approaches));
         let figures: Map<String, Value> = r

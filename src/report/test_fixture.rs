@@ -169,7 +169,7 @@ pub fn fixture(db: &SpeciesDb) -> FlowsheetResult {
                 outlets: &[&str],
                 ins: &[&Stream],
                 outs: Vec<Stream>,
-                approaches: Vec<(String, f64)>,
+                approaches: Vec<(&'static str, f64)>,
                 figures: Vec<Figure>,
                 equilibrium: Option<StageResult>| {
         let duty_w = outs.iter().map(h).sum::<f64>() - ins.iter().map(|s| h(s)).sum::<f64>();

@@ -485,11 +485,14 @@ pub(crate) fn frozen_warnings(
 }
 
 /// The (reaction name, approach) pairs a stage used.
-pub(crate) fn stage_approaches(stage: &EquilibriumStage) -> Vec<(String, f64)> {
-    stage
-        .reactions()
+pub(crate) fn stage_approaches(
+    reactions: &'static [&'static str],
+    stage: &EquilibriumStage,
+) -> Vec<(&'static str, f64)> {
+    reactions
         .iter()
-        .map(|r| (r.reaction.name.clone(), r.approach_k))
+        .zip(stage.reactions())
+        .map(|(name, r)| (*name, r.approach_k))
         .collect()
 }
 

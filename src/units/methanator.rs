@@ -163,7 +163,7 @@ impl Methanator {
         Ok(UnitResult {
             outlets: vec![Stream::vapour(out, t_out, p)],
             duty_w: 0.0,
-            approaches: stage_approaches(&self.stage),
+            approaches: stage_approaches(&METHANATOR_REACTIONS, &self.stage),
             figures,
             equilibrium: Some(stage),
             warnings,

@@ -62,13 +62,50 @@ pub struct UnitResult {
     /// Heat added to the process streams, W (negative: removed).
     pub duty_w: f64,
     /// Approach temperature used per reaction, K (empty for units without equilibrium).
-    pub approaches: Vec<(String, f64)>,
+    pub approaches: Vec<(&'static str, f64)>,
     /// Key figures for the unit table and summary.
     pub figures: Vec<Figure>,
     /// The equilibrium stage's own result (converged, iterations, residuals), where there is one.
     pub equilibrium: Option<StageResult>,
     /// Cautions from common practice (catalyst temperature limits, dew point, carbon), as data.
     pub warnings: Vec<Warning>,
+}
+
+impl UnitResult {
+    /// Start a new solve in this result: `n` outlets whose flow vectors hold `species` entries,
+    /// every list emptied, buffers kept (no heap allocation once they have their size).
+    pub fn reset(&mut self, n: usize, species: usize) {
+        self.outlets.truncate(n);
+        while self.outlets.len() < n {
+            self.outlets
+                .push(Stream::vapour(vec![0.0; species], 0.0, 0.0));
+        }
+        for s in &mut self.outlets {
+            s.flows.clear();
+            s.flows.resize(species, 0.0);
+        }
+        self.duty_w = 0.0;
+        self.approaches.clear();
+        self.figures.clear();
+        self.warnings.clear();
+    }
+
+    /// Set outlet `k` (its flow vector reused).
+    pub fn set_outlet(
+        &mut self,
+        k: usize,
+        flows: &[f64],
+        temperature_k: f64,
+        pressure_pa: f64,
+        phase: StreamPhase,
+    ) {
+        let s = &mut self.outlets[k];
+        s.flows.clear();
+        s.flows.extend_from_slice(flows);
+        s.temperature_k = temperature_k;
+        s.pressure_pa = pressure_pa;
+        s.phase = phase;
+    }
 }
 
 #[cfg(test)]

@@ -149,7 +149,7 @@ impl Prereformer {
         Ok(UnitResult {
             outlets: vec![outlet],
             duty_w: 0.0,
-            approaches: stage_approaches(&self.stage),
+            approaches: stage_approaches(&PREREFORMER_REACTIONS, &self.stage),
             figures,
             equilibrium: Some(stage),
             warnings,
@@ -266,6 +266,6 @@ mod tests {
         let g = r.equilibrium.as_ref().unwrap().extents.clone();
         let r2 = pr.solve(&db, &[&feed], Some(&g)).unwrap();
         assert!((r2.outlets[0].temperature_k - r.outlets[0].temperature_k).abs() < 1e-8);
-        assert_eq!(r.approaches[0], ("reforming".to_string(), 10.0));
+        assert_eq!(r.approaches[0], ("reforming", 10.0));
     }
 }

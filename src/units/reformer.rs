@@ -162,7 +162,7 @@ impl Reformer {
         Ok(UnitResult {
             outlets: vec![outlet],
             duty_w: h_out - h_in,
-            approaches: stage_approaches(&self.stage),
+            approaches: stage_approaches(&REFORMER_REACTIONS, &self.stage),
             figures,
             equilibrium: Some(stage),
             warnings,

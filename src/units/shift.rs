@@ -260,7 +260,7 @@ impl Shift {
         Ok(UnitResult {
             outlets: vec![Stream::vapour(out, t_out, p)],
             duty_w: duty,
-            approaches: stage_approaches(&self.stage),
+            approaches: stage_approaches(&SHIFT_REACTIONS, &self.stage),
             figures,
             equilibrium: Some(stage),
             warnings,
