@@ -19,7 +19,7 @@ use super::common::{
     spec_error, temperature_at_enthalpy, Key,
 };
 use super::stream::{check_phases, water_at_enthalpy, WaterState};
-use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
 use super::{FigureKind, Stream, StreamPhase, UnitResult};
 use crate::error::{Result, ResultExt};
 use crate::thermo::{mixture, SpeciesDb};
@@ -57,15 +57,27 @@ impl Mixer {
 
     /// Mix the inlets.
     pub fn solve(&self, db: &SpeciesDb, inlets: &[&Stream]) -> Result<UnitResult> {
+        let mut out = UnitResult::default();
+        self.solve_into(db, inlets, &mut out)?;
+        Ok(out)
+    }
+
+    /// Mix the inlets into `out` (its buffers reused).
+    pub fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        out: &mut UnitResult,
+    ) -> Result<()> {
         let name = &self.name;
         check_inlets(db, name, "mixer", inlets, 1, None)?;
         let w = self.key.h2o;
         check_phases(db, name, w, inlets)?;
-        let mut flows = vec![0.0; db.len()];
+        out.reset(1, db.len());
         let mut p_min = f64::INFINITY;
         let (mut nt, mut n_total) = (0.0, 0.0);
         for s in inlets {
-            for (o, n) in flows.iter_mut().zip(&s.flows) {
+            for (o, n) in out.outlets[0].flows.iter_mut().zip(&s.flows) {
                 *o += n;
             }
             p_min = p_min.min(s.pressure_pa);
@@ -85,11 +97,17 @@ impl Mixer {
             .filter(|s| s.phase == StreamPhase::Liquid)
             .map(|s| s.flows[w])
             .sum();
-        let probe = Stream::vapour(flows, start, pressure);
-        let outlet = if probe.is_pure_water(w) {
-            match water_at_enthalpy(db, name, w, &probe.flows, h_in, pressure, start)? {
-                WaterState::Liquid(t) => Stream::liquid(probe.flows, t, pressure),
-                WaterState::Vapour(t) => Stream::vapour(probe.flows, t, pressure),
+        let outlet = &mut out.outlets[0];
+        outlet.pressure_pa = pressure;
+        outlet.temperature_k = start;
+        outlet.phase = StreamPhase::Vapour;
+        if outlet.is_pure_water(w) {
+            match water_at_enthalpy(db, name, w, &outlet.flows, h_in, pressure, start)? {
+                WaterState::Liquid(t) => {
+                    outlet.temperature_k = t;
+                    outlet.phase = StreamPhase::Liquid;
+                }
+                WaterState::Vapour(t) => outlet.temperature_k = t,
                 WaterState::Wet {
                     temperature_k,
                     vapour_fraction,
@@ -112,8 +130,8 @@ impl Mixer {
             }
         } else {
             // Below the dew point the all-vapour enthalpy is above what the inlets bring.
-            if let Some(dew) = dew_point_k(&self.key, &probe.flows, pressure) {
-                let h_dew = mixture::enthalpy(db, &probe.flows, dew)?;
+            if let Some(dew) = dew_point_k(&self.key, &outlet.flows, pressure) {
+                let h_dew = mixture::enthalpy(db, &outlet.flows, dew)?;
                 if h_in < h_dew {
                     let what = if liquid_in > 0.0 {
                         "the gas cannot vaporise all the liquid water fed to it"
@@ -136,13 +154,12 @@ impl Mixer {
                     ));
                 }
             }
-            let t = temperature_at_enthalpy(db, name, &probe.flows, h_in, start)?;
-            Stream::vapour(probe.flows, t, pressure)
-        };
-        let mut figures = Vec::new();
+            outlet.temperature_k = temperature_at_enthalpy(db, name, &outlet.flows, h_in, start)?;
+        }
+        let outlet = &out.outlets[0];
         if let Some(sc) = self.key.steam_to_carbon(&outlet.flows) {
             if outlet.flows[self.key.h2o] > 0.0 {
-                figures.push(figure(
+                out.figures.push(figure(
                     "outlet-steam-to-carbon",
                     "steam-to-carbon ratio",
                     sc,
@@ -151,7 +168,7 @@ impl Mixer {
             }
         }
         if let Some(dew) = dew_point_k(&self.key, &outlet.flows, pressure) {
-            figures.push(figure(
+            out.figures.push(figure(
                 "dew-point",
                 "water dew point of the outlet",
                 dew,
@@ -159,21 +176,14 @@ impl Mixer {
             ));
         }
         if liquid_in > 0.0 && outlet.phase == StreamPhase::Vapour {
-            figures.push(figure(
+            out.figures.push(figure(
                 "vaporised-water",
                 "liquid water vaporised",
                 liquid_in,
                 FigureKind::MolarFlow,
             ));
         }
-        Ok(UnitResult {
-            outlets: vec![outlet],
-            duty_w: 0.0,
-            approaches: Vec::new(),
-            figures,
-            equilibrium: None,
-            warnings: Vec::new(),
-        })
+        Ok(())
     }
 }
 
@@ -215,6 +225,17 @@ impl UnitKind for Mixer {
 
     fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
         Mixer::solve(self, db, inlets)
+    }
+
+    fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        _: Option<&[f64]>,
+        _: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        Mixer::solve_into(self, db, inlets, out)
     }
 }
 
