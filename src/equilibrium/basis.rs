@@ -10,8 +10,6 @@
 //! so that the Hessian A^T A - c c^T is never formed (Golub & Van Loan, Matrix Computations, 4th
 //! ed., 5.2 and 2.1.4).
 
-use std::borrow::Cow;
-
 use super::linalg;
 
 /// Fraction of the distance to the boundary (an amount reaching zero) a step may take.
@@ -22,63 +20,44 @@ pub const MAX_SPECIES: usize = 32;
 const SCARCE_FRACTION: f64 = 1e-8;
 
 /// Working reactions: `m` rows over `ns` species, each a combination of the active reactions.
-/// The rows are borrowed from the extent system while they are its own reactions (no copy in
-/// the common case) and copied when a subset is active or the basis is rebuilt.
-pub struct Basis<'a> {
+/// The buffers are kept between solves (a workspace owns the basis), so loading a basis does not
+/// allocate once they have grown to the system's size.
+#[derive(Debug, Clone, Default)]
+pub struct Basis {
     pub ns: usize,
     pub m: usize,
     /// Row-major coefficients, `nu[k * ns + i]`.
-    pub nu: Cow<'a, [f64]>,
+    nu: Vec<f64>,
     /// Gas mole change of each working reaction.
-    pub dnu: Cow<'a, [f64]>,
+    dnu: Vec<f64>,
     /// ln K of each working reaction.
-    pub ln_k: Cow<'a, [f64]>,
-    /// Working row k = sum_j combination[k * m + j] * (active reaction j).
-    pub combination: Vec<f64>,
+    ln_k: Vec<f64>,
+    /// Working row k = sum_j combination[k * m + j] * (active reaction j); valid once rebased.
+    combination: Vec<f64>,
     /// Rows already used as a pivot when rebuilding.
     pivot: Vec<bool>,
+    rebased: bool,
 }
 
-impl<'a> Basis<'a> {
-    /// The basis of all reactions of a system, borrowed: `nu` row-major (`dnu.len()` rows of
-    /// `ns`), `dnu` and `ln_k` one per reaction.
-    pub fn borrowed(nu: &'a [f64], dnu: &'a [f64], ln_k: &'a [f64], ns: usize) -> Basis<'a> {
-        Basis {
-            ns,
-            m: dnu.len(),
-            nu: Cow::Borrowed(nu),
-            dnu: Cow::Borrowed(dnu),
-            ln_k: Cow::Borrowed(ln_k),
-            combination: Vec::new(),
-            pivot: Vec::new(),
-        }
-    }
-
-    /// The basis of the given reactions themselves: (coefficient row, gas mole change, ln K).
-    pub fn new<'r>(rows: impl Iterator<Item = (&'r [f64], f64, f64)>, ns: usize) -> Basis<'a> {
-        let mut nu = Vec::with_capacity(ns * 4);
-        let mut dnu = Vec::with_capacity(4);
-        let mut ln_k = Vec::with_capacity(4);
+impl Basis {
+    /// Load the given reactions themselves: (coefficient row, gas mole change, ln K).
+    pub fn load<'r>(&mut self, rows: impl Iterator<Item = (&'r [f64], f64, f64)>, ns: usize) {
+        self.nu.clear();
+        self.dnu.clear();
+        self.ln_k.clear();
         for (row, d, k) in rows {
-            nu.extend_from_slice(row);
-            dnu.push(d);
-            ln_k.push(k);
+            self.nu.extend_from_slice(&row[..ns]);
+            self.dnu.push(d);
+            self.ln_k.push(k);
         }
-        let m = dnu.len();
-        Basis {
-            ns,
-            m,
-            nu: Cow::Owned(nu),
-            dnu: Cow::Owned(dnu),
-            ln_k: Cow::Owned(ln_k),
-            combination: Vec::new(),
-            pivot: Vec::new(),
-        }
+        self.ns = ns;
+        self.m = self.dnu.len();
+        self.rebased = false;
     }
 
     /// True once the basis has been rebuilt (its rows are combinations of the originals).
     pub fn rebased(&self) -> bool {
-        !self.combination.is_empty()
+        self.rebased
     }
 
     #[inline]
@@ -247,22 +226,39 @@ impl<'a> Basis<'a> {
     /// sum_k w_k row_k is unchanged. Returns true when anything changed.
     pub fn rebase(&mut self, n: &[f64], inert: f64, w: &mut [f64]) -> bool {
         let total: f64 = n.iter().sum::<f64>() + inert;
-        let mut order: Vec<usize> = (0..self.ns)
-            .filter(|&i| n[i] > 0.0 && n[i] < SCARCE_FRACTION * total)
-            .collect();
-        order.sort_by(|a, b| n[*a].total_cmp(&n[*b]));
-        if self.combination.is_empty() {
-            self.combination = vec![0.0; self.m * self.m];
-            for k in 0..self.m {
-                self.combination[k * self.m + k] = 1.0;
+        let mut order = [0usize; MAX_SPECIES];
+        let mut count = 0;
+        for i in 0..self.ns {
+            if n[i] > 0.0 && n[i] < SCARCE_FRACTION * total {
+                order[count] = i;
+                count += 1;
             }
-            self.pivot = vec![false; self.m];
         }
+        let order = &mut order[..count];
+        order.sort_unstable_by(|a, b| n[*a].total_cmp(&n[*b]).then(a.cmp(b)));
+        let m = self.m;
+        if !self.rebased {
+            self.combination.clear();
+            self.combination.resize(m * m, 0.0);
+            for k in 0..m {
+                self.combination[k * m + k] = 1.0;
+            }
+            self.pivot.clear();
+            self.pivot.resize(m, false);
+            self.rebased = true;
+        }
+        let ns = self.ns;
         let mut changed = false;
-        for i in order {
-            let rows_with: Vec<usize> = (0..self.m)
-                .filter(|&k| self.nu[k * self.ns + i] != 0.0)
-                .collect();
+        for &i in order.iter() {
+            let mut rows_with = [0usize; linalg::MAX_DIM];
+            let mut count = 0;
+            for k in 0..m {
+                if self.nu[k * ns + i] != 0.0 {
+                    rows_with[count] = k;
+                    count += 1;
+                }
+            }
+            let rows_with = &rows_with[..count];
             if rows_with.len() < 2 {
                 continue;
             }
@@ -270,30 +266,26 @@ impl<'a> Basis<'a> {
                 .iter()
                 .filter(|&&k| !self.pivot[k])
                 .max_by(|a, b| {
-                    self.nu[**a * self.ns + i]
+                    self.nu[**a * ns + i]
                         .abs()
-                        .total_cmp(&self.nu[**b * self.ns + i].abs())
+                        .total_cmp(&self.nu[**b * ns + i].abs())
                 })
             else {
                 continue;
             };
             self.pivot[p] = true;
-            let ns = self.ns;
-            let nu = self.nu.to_mut();
-            let dnu = self.dnu.to_mut();
-            let ln_k = self.ln_k.to_mut();
             for &q in rows_with.iter().filter(|&&q| q != p) {
-                let f = nu[q * ns + i] / nu[p * ns + i];
+                let f = self.nu[q * ns + i] / self.nu[p * ns + i];
                 for c in 0..ns {
-                    let v = nu[p * ns + c];
-                    nu[q * ns + c] -= f * v;
+                    let v = self.nu[p * ns + c];
+                    self.nu[q * ns + c] -= f * v;
                 }
-                nu[q * ns + i] = 0.0;
-                dnu[q] -= f * dnu[p];
-                ln_k[q] -= f * ln_k[p];
-                for c in 0..self.m {
-                    let v = self.combination[p * self.m + c];
-                    self.combination[q * self.m + c] -= f * v;
+                self.nu[q * ns + i] = 0.0;
+                self.dnu[q] -= f * self.dnu[p];
+                self.ln_k[q] -= f * self.ln_k[p];
+                for c in 0..m {
+                    let v = self.combination[p * m + c];
+                    self.combination[q * m + c] -= f * v;
                 }
                 // sum w row stays the same: row_q' = row_q - f row_p  =>  w_p' = w_p + f w_q.
                 w[p] += f * w[q];

@@ -113,7 +113,7 @@ pub fn solve(fs: &Flowsheet, db: &SpeciesDb) -> Result<FlowsheetResult> {
 
     let converged = units
         .iter()
-        .all(|u| u.result.equilibrium.as_ref().is_none_or(|e| e.converged));
+        .all(|u| u.result.equilibrium.as_ref().is_none_or(|e| e.converged()));
     let summary = summary(db, fs, &streams, &slot, &units);
     let element_balance_residual = element_balance(db, &streams)?;
     let energy_balance_residual = energy_balance(db, &streams, &units)?;

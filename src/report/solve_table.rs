@@ -191,7 +191,7 @@ mod tests {
             let mut result = fixture(db);
             result.converged = false;
             if let Some(eq) = result.units[1].result.equilibrium.as_mut() {
-                eq.converged = false;
+                eq.termination = crate::equilibrium::StageTermination::ResidualAboveTolerance;
             }
             let text = render(db, &result).unwrap();
             assert!(

@@ -274,7 +274,12 @@ fn status_line(result: &FlowsheetResult) -> String {
         let failed: Vec<&str> = result
             .units
             .iter()
-            .filter(|u| u.result.equilibrium.as_ref().is_some_and(|e| !e.converged))
+            .filter(|u| {
+                u.result
+                    .equilibrium
+                    .as_ref()
+                    .is_some_and(|e| !e.converged())
+            })
             .map(|u| u.name.as_str())
             .collect();
         let which = if failed.is_empty() {
@@ -512,7 +517,7 @@ fn equilibrium_table(result: &FlowsheetResult) -> Option<Table> {
         if let Some(eq) = &unit.result.equilibrium {
             table.push(vec![
                 unit.name.clone(),
-                yes_no(eq.converged),
+                yes_no(eq.converged()),
                 (eq.iterations + eq.temperature_iterations).to_string(),
                 residual(eq.max_residual()),
                 residual(eq.energy_residual),
