@@ -22,7 +22,7 @@ const SCARCE_FRACTION: f64 = 1e-8;
 /// Working reactions: `m` rows over `ns` species, each a combination of the active reactions.
 /// The buffers are kept between solves (a workspace owns the basis), so loading a basis does not
 /// allocate once they have grown to the system's size.
-#[derive(Debug, Clone, Default)]
+#[derive(Debug, Clone)]
 pub struct Basis {
     pub ns: usize,
     pub m: usize,
@@ -37,11 +37,51 @@ pub struct Basis {
     /// Rows already used as a pivot when rebuilding.
     pivot: Vec<bool>,
     rebased: bool,
+    /// For each species: does a working reaction change it?
+    in_rows: [bool; MAX_SPECIES],
+    /// Where the rows came from: (extent system id, bit set of its active reactions).
+    source: Option<(u64, u64)>,
+}
+
+impl Default for Basis {
+    fn default() -> Self {
+        Basis {
+            ns: 0,
+            m: 0,
+            nu: Vec::new(),
+            dnu: Vec::new(),
+            ln_k: Vec::new(),
+            combination: Vec::new(),
+            pivot: Vec::new(),
+            rebased: false,
+            in_rows: [false; MAX_SPECIES],
+            source: None,
+        }
+    }
 }
 
 impl Basis {
-    /// Load the given reactions themselves: (coefficient row, gas mole change, ln K).
-    pub fn load<'r>(&mut self, rows: impl Iterator<Item = (&'r [f64], f64, f64)>, ns: usize) {
+    /// Load only the ln K of the rows already loaded from the same `source` (an extent system
+    /// and its active reactions): true when that was possible (the basis not rebuilt since).
+    pub fn reload_ln_k(&mut self, source: (u64, u64), ln_k: impl Iterator<Item = f64>) -> bool {
+        if self.rebased || self.source != Some(source) {
+            return false;
+        }
+        for (slot, k) in self.ln_k.iter_mut().zip(ln_k) {
+            *slot = k;
+        }
+        true
+    }
+
+    /// Load the given reactions themselves: (coefficient row, gas mole change, ln K), from
+    /// `source` (see [`Basis::reload_ln_k`]).
+    pub fn load<'r>(
+        &mut self,
+        source: (u64, u64),
+        rows: impl Iterator<Item = (&'r [f64], f64, f64)>,
+        ns: usize,
+    ) {
+        self.source = Some(source);
         self.nu.clear();
         self.dnu.clear();
         self.ln_k.clear();
@@ -53,6 +93,14 @@ impl Basis {
         self.ns = ns;
         self.m = self.dnu.len();
         self.rebased = false;
+        self.update_in_rows();
+    }
+
+    fn update_in_rows(&mut self) {
+        let ns = self.ns;
+        for i in 0..ns {
+            self.in_rows[i] = (0..self.m).any(|k| self.nu[k * ns + i] != 0.0);
+        }
     }
 
     /// True once the basis has been rebuilt (its rows are combinations of the originals).
@@ -108,29 +156,24 @@ impl Basis {
         let m = self.m;
         let total: f64 = n.iter().sum::<f64>() + inert;
         // While the amounts span fewer than eight decades the formed Hessian is accurate enough
-        // and its Cholesky factor is the cheaper way.
-        let (mut smallest, mut largest) = (f64::INFINITY, 0.0f64);
-        for (i, &ni) in n.iter().enumerate() {
-            if ni > 0.0 && (0..m).any(|k| self.nu[k * self.ns + i] != 0.0) {
-                smallest = smallest.min(ni);
-                largest = largest.max(ni);
-            }
-        }
+        // and its Cholesky factor is the cheaper way. The span and the Hessian come from one
+        // pass over the species.
+        let (smallest, largest) = self.hessian(n, total, scratch);
         if largest < 1e8 * smallest {
             let mut x = [0.0f64; linalg::MAX_DIM];
             x[..m].copy_from_slice(&rhs[..m]);
-            self.hessian(n, total, scratch);
             if linalg::solve_spd(&mut scratch[..m * m], &mut x[..m], m) {
                 rhs[..m].copy_from_slice(&x[..m]);
                 return true;
             }
+            self.hessian(n, total, scratch);
         }
         let mut a = [0.0f64; MAX_SPECIES * linalg::MAX_DIM];
         let mut rows = 0;
         let mut inv_sqrt = [0.0f64; MAX_SPECIES];
         let mut index = [0usize; MAX_SPECIES];
         for (i, &ni) in n.iter().enumerate() {
-            if ni > 0.0 && (0..m).any(|k| self.nu[k * self.ns + i] != 0.0) {
+            if ni > 0.0 && self.in_rows[i] {
                 inv_sqrt[rows] = 1.0 / ni.sqrt();
                 index[rows] = i;
                 rows += 1;
@@ -153,32 +196,80 @@ impl Basis {
             rhs[..m].copy_from_slice(&x[..m]);
             return true;
         }
-        self.hessian(n, total, scratch);
         linalg::solve_general(&mut scratch[..m * m], &mut rhs[..m], m)
     }
 
-    /// H_ab = sum_i nu_ai nu_bi / n_i - dnu_a dnu_b / n_T.
-    fn hessian(&self, n: &[f64], total: f64, h: &mut [f64]) {
-        let m = self.m;
-        let mut weight = [0.0f64; MAX_SPECIES];
-        for (w, ni) in weight.iter_mut().zip(n) {
-            *w = if *ni > 0.0 { 1.0 / ni } else { 0.0 };
+    /// H_ab = sum_i nu_ai nu_bi / n_i - dnu_a dnu_b / n_T into `h` (m x m, row-major); returns
+    /// the smallest and largest amount of the species present in a working reaction.
+    fn hessian(&self, n: &[f64], total: f64, h: &mut [f64]) -> (f64, f64) {
+        let (m, ns) = (self.m, self.ns);
+        let n = &n[..ns];
+        let in_rows = &self.in_rows[..ns];
+        let (mut smallest, mut largest) = (f64::INFINITY, 0.0f64);
+        let inv_total = 1.0 / total;
+        // One and two working reactions (a shift converter; reforming with shift) are the
+        // common stages: their sums run over the rows directly.
+        if m == 1 {
+            let r0 = &self.nu[..ns];
+            let mut h00 = 0.0;
+            for ((&ni, &a), &used) in n.iter().zip(r0).zip(in_rows) {
+                if ni > 0.0 && used {
+                    smallest = if ni < smallest { ni } else { smallest };
+                    largest = if ni > largest { ni } else { largest };
+                    h00 += a * a / ni;
+                }
+            }
+            h[0] = h00 - self.dnu[0] * self.dnu[0] * inv_total;
+            return (smallest, largest);
         }
-        let weight = &weight[..self.ns];
+        if m == 2 {
+            let (r0, r1) = self.nu[..2 * ns].split_at(ns);
+            let (mut h00, mut h01, mut h11) = (0.0, 0.0, 0.0);
+            for (((&ni, &a), &b), &used) in n.iter().zip(r0).zip(r1).zip(in_rows) {
+                if ni > 0.0 && used {
+                    smallest = if ni < smallest { ni } else { smallest };
+                    largest = if ni > largest { ni } else { largest };
+                    let w = 1.0 / ni;
+                    h00 += a * a * w;
+                    h01 += a * b * w;
+                    h11 += b * b * w;
+                }
+            }
+            let (d0, d1) = (self.dnu[0], self.dnu[1]);
+            h[0] = h00 - d0 * d0 * inv_total;
+            h[1] = h01 - d0 * d1 * inv_total;
+            h[2] = h[1];
+            h[3] = h11 - d1 * d1 * inv_total;
+            return (smallest, largest);
+        }
+        let h = &mut h[..m * m];
+        h.fill(0.0);
+        for (i, (&ni, &used)) in n.iter().zip(in_rows).enumerate() {
+            if !(ni > 0.0 && used) {
+                continue;
+            }
+            smallest = smallest.min(ni);
+            largest = largest.max(ni);
+            let w = 1.0 / ni;
+            for a in 0..m {
+                let va = self.nu[a * ns + i];
+                if va == 0.0 {
+                    continue;
+                }
+                let wa = va * w;
+                for b in a..m {
+                    h[a * m + b] += wa * self.nu[b * ns + i];
+                }
+            }
+        }
         for a in 0..m {
-            let ra = self.row(a);
             for b in a..m {
-                let s: f64 = ra
-                    .iter()
-                    .zip(self.row(b))
-                    .zip(weight)
-                    .map(|((x, y), w)| x * y * w)
-                    .sum();
-                let v = s - self.dnu[a] * self.dnu[b] / total;
+                let v = h[a * m + b] - self.dnu[a] * self.dnu[b] * inv_total;
                 h[a * m + b] = v;
                 h[b * m + a] = v;
             }
         }
+        (smallest, largest)
     }
 
     /// One pass of one-reaction steps in log space: for each working reaction, the species with
@@ -291,6 +382,9 @@ impl Basis {
                 w[p] += f * w[q];
                 changed = true;
             }
+        }
+        if changed {
+            self.update_in_rows();
         }
         changed
     }

@@ -44,7 +44,13 @@ pub struct ExtentSystem {
     dnu: Vec<f64>,
     /// For each reaction, the species with a non-zero coefficient.
     members: Vec<Vec<usize>>,
+    /// Identity of this system's coefficients (shared by its clones), so that a workspace can
+    /// keep the rows it loaded from it.
+    id: u64,
 }
+
+/// Source of [`ExtentSystem`] identities.
+static NEXT_SYSTEM_ID: std::sync::atomic::AtomicU64 = std::sync::atomic::AtomicU64::new(1);
 
 /// The answer of an extent solve.
 #[derive(Debug, Clone, PartialEq, Default)]
@@ -156,6 +162,7 @@ impl ExtentSystem {
             nu,
             dnu,
             members,
+            id: NEXT_SYSTEM_ID.fetch_add(1, std::sync::atomic::Ordering::Relaxed),
         })
     }
 
@@ -403,10 +410,15 @@ impl ExtentSystem {
 
     /// Load the working basis of the given active reactions with their ln K.
     fn load_basis(&self, basis: &mut Basis, active: &[usize], ln_k: &[f64]) {
-        basis.load(
-            active.iter().map(|&j| (self.row(j), self.dnu[j], ln_k[j])),
-            self.n_species,
-        );
+        let mask = active.iter().fold(0u64, |m, &j| m | (1 << j));
+        let source = (self.id, mask);
+        if !basis.reload_ln_k(source, active.iter().map(|&j| ln_k[j])) {
+            basis.load(
+                source,
+                active.iter().map(|&j| (self.row(j), self.dnu[j], ln_k[j])),
+                self.n_species,
+            );
+        }
     }
 
     #[inline]

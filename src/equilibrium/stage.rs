@@ -962,25 +962,35 @@ impl<'a> Context<'a> {
                 reason: "must be positive and finite".into(),
             });
         }
+        // One pass over the flows: a negative flow shows in the smallest, one that is not
+        // finite in the sum (NaN and infinities propagate); the culprit is named in a second
+        // pass, so the common case stays a plain sum.
+        let mut smallest = 0.0f64;
+        let mut total = 0.0;
+        for &n in inlet.flows {
+            total += n;
+            smallest = if n < smallest { n } else { smallest };
+        }
+        if !(smallest >= 0.0 && total.is_finite()) {
+            for (i, n) in inlet.flows.iter().enumerate() {
+                if !(*n >= 0.0 && n.is_finite()) {
+                    return Err(Error::InvalidValue {
+                        field: format!("inlet flow of {}", db.by_index(i).name),
+                        value: format!("{n} mol/s"),
+                        reason: "must be finite and non-negative".into(),
+                    });
+                }
+            }
+        }
         feed.inerts.clear();
         let mut inert = 0.0;
         let mut t_min: f64 = 0.0;
         let mut t_max: f64 = f64::INFINITY;
-        let mut total = 0.0;
         // Inlet enthalpy, W, over the species present (their ranges checked after the loop).
         let rt_in = R_GAS * t_in;
         let mut h = 0.0;
         let mut out_of_range = None;
-        for (i, n) in inlet.flows.iter().enumerate() {
-            if !(*n >= 0.0 && n.is_finite()) {
-                return Err(Error::InvalidValue {
-                    field: format!("inlet flow of {}", db.by_index(i).name),
-                    value: format!("{n} mol/s"),
-                    reason: "must be finite and non-negative".into(),
-                });
-            }
-            total += n;
-            let member = stage.member[i];
+        for (i, (n, &member)) in inlet.flows.iter().zip(&stage.member).enumerate() {
             if *n == 0.0 && !member {
                 continue;
             }
