@@ -160,3 +160,161 @@ pub fn approach_from_quotient(
     let s = approach_sign(delta_h, direction);
     Ok(s * (temperature_k - t_eq))
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet, StageReaction};
+
+    fn db() -> SpeciesDb {
+        SpeciesDb::embedded().unwrap()
+    }
+
+    fn flows(db: &SpeciesDb, pairs: &[(&str, f64)]) -> Vec<f64> {
+        let mut v = vec![0.0; db.len()];
+        for (name, n) in pairs {
+            v[db.index_of(name).unwrap()] = *n;
+        }
+        v
+    }
+
+    #[test]
+    fn the_sign_follows_the_heat_of_the_running_direction() {
+        // Design convention: s = +1 endothermic direction, -1 exothermic direction. Reforming
+        // dH298 = +206.17 kJ/mol, shift -41.17 kJ/mol (NIST-JANAF, Chase 1998).
+        assert_eq!(approach_sign(206.17e3, 1.0), 1.0);
+        assert_eq!(approach_sign(206.17e3, -1.0), -1.0);
+        assert_eq!(approach_sign(-41.17e3, 1.0), -1.0);
+        assert_eq!(approach_sign(-41.17e3, -1.0), 1.0);
+    }
+
+    #[test]
+    fn k_equals_one_at_the_published_temperatures() {
+        // NIST-JANAF (Chase 1998), derived: shift K = 1 near 1097 K, reforming K = 1 near 892 K
+        // (within 3 K, as in the JANAF data checks of the species records).
+        let db = db();
+        for (name, published, bracket) in [
+            ("shift", 1097.0, (700.0, 1500.0)),
+            ("reforming", 892.0, (600.0, 1200.0)),
+        ] {
+            let r = Reaction::named(&db, name).unwrap();
+            let t = equilibrium_temperature(&db, &r, 0.0, bracket).unwrap();
+            assert!((t - published).abs() < 3.0, "{name}: {t}");
+            // ln K there from the reaction module's own path (Gibbs energies with range checks).
+            assert!(r.ln_k(&db, t).unwrap().abs() < 1e-11, "{name}");
+        }
+    }
+
+    #[test]
+    fn a_quotient_outside_the_bracket_is_an_error() {
+        let db = db();
+        let shift = Reaction::named(&db, "shift").unwrap();
+        // ln K of shift is positive below 1097 K, so ln Q = 5 (K = 148) lies far below 700 K.
+        assert!(equilibrium_temperature(&db, &shift, 5.0, (700.0, 1500.0)).is_err());
+        assert!(equilibrium_temperature(&db, &shift, f64::NAN, (700.0, 1500.0)).is_err());
+        assert!(equilibrium_temperature(&db, &shift, 0.0, (1500.0, 700.0)).is_err());
+        // Outside the species data (200-6000 K at most): refused, not extrapolated.
+        assert!(equilibrium_temperature(&db, &shift, 0.0, (100.0, 1500.0)).is_err());
+        let empty = vec![0.0; db.len()];
+        assert!(ln_quotient(&db, &shift, &empty, 1e5).is_err());
+    }
+
+    /// Solve a stage at the given approaches, read every approach back from the outlet.
+    fn round_trip(
+        db: &SpeciesDb,
+        reactions: &[(&str, Direction)],
+        approaches: &[f64],
+        inlet: StageInlet<'_>,
+        mode: EnergyMode,
+    ) {
+        let stage = EquilibriumStage::new(
+            db,
+            reactions
+                .iter()
+                .zip(approaches)
+                .map(|((name, direction), a)| StageReaction {
+                    reaction: Reaction::named(db, name).unwrap(),
+                    approach_k: *a,
+                    direction: *direction,
+                })
+                .collect(),
+        )
+        .unwrap();
+        let r = stage.solve(db, inlet, mode, None).unwrap();
+        assert!(r.converged());
+        let t = r.outlet_temperature_k;
+        for (j, sr) in stage.reactions().iter().enumerate() {
+            let ln_q = ln_quotient(db, &sr.reaction, &r.outlet_flows, inlet.pressure_pa).unwrap();
+            // The running direction the stage used: s_j = approach_sign(dH(T), direction).
+            let dh = sr.reaction.delta_h(db, t).unwrap();
+            let direction = r.approach_signs[j] * dh.signum();
+            let back =
+                approach_from_quotient(db, &sr.reaction, ln_q, t, direction, (400.0, 1500.0))
+                    .unwrap();
+            // Equilibrium residual 1e-10 in ln space over d lnK/dT of 1e-3..3e-2 per K: the
+            // approach comes back within about 1e-7 K; 1e-6 K leaves room.
+            assert!(
+                (back - approaches[j]).abs() < 1e-6,
+                "{}: {back} for {} ({mode:?})",
+                sr.reaction.name,
+                approaches[j]
+            );
+        }
+    }
+
+    #[test]
+    fn an_outlet_made_at_an_approach_gives_that_approach_back() {
+        let db = db();
+        // Reformer (invented feed, S/C 3) at 860 degC and 25 bar, reforming forward.
+        let feed = flows(
+            &db,
+            &[("CH4", 1.0), ("H2O", 3.0), ("CO2", 0.01), ("N2", 0.02)],
+        );
+        let inlet = StageInlet {
+            flows: &feed,
+            temperature_k: 800.0,
+            pressure_pa: 25e5,
+        };
+        let fixed = EnergyMode::FixedTemperature {
+            temperature_k: 1133.15,
+        };
+        for (reforming, shift) in [(0.0, 0.0), (10.0, 0.0), (25.0, -5.0), (-8.0, 12.0)] {
+            round_trip(
+                &db,
+                &[
+                    ("reforming", Direction::Forward),
+                    ("shift", Direction::Auto),
+                ],
+                &[reforming, shift],
+                inlet,
+                fixed,
+            );
+        }
+        // High-temperature shift from 350 degC, adiabatic (invented gas).
+        let gas = flows(
+            &db,
+            &[
+                ("H2", 0.49),
+                ("CO", 0.105),
+                ("CO2", 0.055),
+                ("CH4", 0.035),
+                ("H2O", 0.31),
+                ("N2", 0.005),
+            ],
+        );
+        let hts = StageInlet {
+            flows: &gas,
+            temperature_k: 623.15,
+            pressure_pa: 27e5,
+        };
+        for approach in [0.0, 5.0, 20.0, -10.0] {
+            round_trip(
+                &db,
+                &[("shift", Direction::Auto)],
+                &[approach],
+                hts,
+                EnergyMode::Adiabatic,
+            );
+        }
+    }
+}
