@@ -196,7 +196,7 @@ impl Basis {
             rhs[..m].copy_from_slice(&x[..m]);
             return true;
         }
-        linalg::solve_general(&mut scratch[..m * m], &mut rhs[..m], m)
+        linalg::solve_general(&scratch[..m * m], &mut rhs[..m], m)
     }
 
     /// H_ab = sum_i nu_ai nu_bi / n_i - dnu_a dnu_b / n_T into `h` (m x m, row-major); returns

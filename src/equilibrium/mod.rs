@@ -11,7 +11,7 @@
 pub mod approach;
 mod basis;
 pub mod extents;
-mod linalg;
+pub mod linalg;
 pub mod options;
 pub mod root;
 pub mod stage;
