@@ -178,6 +178,8 @@ struct RunBuffers {
     /// s_j of the last equilibrium evaluated.
     approach_signs: [f64; MAX_DIM],
     extent: ExtentWork,
+    /// H/RT of the stage's species at the stream temperature of the last equilibrium evaluated.
+    h_rt: [f64; MAX_STAGE_SPECIES],
     /// The last equilibrium evaluated, and its stream temperature.
     solution: ExtentSolution,
     solution_temperature_k: f64,
@@ -620,12 +622,13 @@ impl EquilibriumStage {
         let ns = self.species.len();
         let mut ln_k = [0.0f64; MAX_DIM];
         // Species values at the stream temperature, shared by reactions without an approach.
-        let mut h_rt = [0.0f64; MAX_STAGE_SPECIES];
+        let h_rt = &mut run.h_rt;
         let mut g_rt = [0.0f64; MAX_STAGE_SPECIES];
         for k in 0..ns {
             h_rt[k] = self.nasa[k].h_rt(t);
             g_rt[k] = self.nasa[k].g_rt(t);
         }
+        let h_rt = &run.h_rt;
         for (j, r) in self.reactions.iter().enumerate() {
             // Sign from the direction and the sign of dH at the stream temperature.
             let dh_rt: f64 = (0..ns).map(|k| self.system.nu(j, k) * h_rt[k]).sum();
@@ -882,8 +885,9 @@ impl EquilibriumStage {
         let mut h = 0.0;
         let mut cp = 0.0;
         let mut h_i = [0.0f64; MAX_STAGE_SPECIES];
+        // H/RT of the stage's species at `t` from the equilibrium evaluated there.
         for (k, n) in sol.amounts.iter().enumerate() {
-            h_i[k] = rt * self.nasa[k].h_rt(t);
+            h_i[k] = rt * run.h_rt[k];
             h += n * h_i[k];
             cp += n * R_GAS * self.nasa[k].cp_r(t);
         }
