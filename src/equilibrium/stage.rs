@@ -11,6 +11,8 @@
 //! energy residual is normalised by n_in R T_in, in the search and in the reported residual
 //! alike, so that a stream whose total enthalpy is near zero is judged like any other.
 
+use std::cell::RefCell;
+
 use super::approach::approach_sign;
 use super::extents::{ExtentProblem, ExtentSolution, ExtentSystem, ExtentWork};
 use super::linalg::MAX_DIM;
@@ -314,8 +316,9 @@ impl EquilibriumStage {
         self.solve_with_options(db, inlet, mode, guess, &SolverOptions::default())
     }
 
-    /// Solve the stage with the given tolerances and limits (a fresh workspace and result; a
-    /// loop of solves should use [`EquilibriumStage::solve_into`]).
+    /// Solve the stage with the given tolerances and limits: a fresh result, solved with this
+    /// thread's own workspace (so only the result's vectors are allocated; a loop of solves
+    /// that keeps its result should use [`EquilibriumStage::solve_into`]).
     pub fn solve_with_options(
         &self,
         db: &SpeciesDb,
@@ -324,20 +327,27 @@ impl EquilibriumStage {
         guess: Option<&[f64]>,
         options: &SolverOptions,
     ) -> Result<StageResult> {
+        thread_local! {
+            static WORKSPACE: RefCell<StageWorkspace> = RefCell::new(StageWorkspace::new());
+        }
         let mut out = StageResult::default();
         let settings = SolveSettings {
             guess,
             approaches_k: None,
             options: *options,
         };
-        self.solve_into(
-            db,
-            inlet,
-            mode,
-            settings,
-            &mut StageWorkspace::new(),
-            &mut out,
-        )?;
+        WORKSPACE.with(|ws| match ws.try_borrow_mut() {
+            Ok(mut ws) => self.solve_into(db, inlet, mode, settings, &mut ws, &mut out),
+            // Not reachable today (a solve calls no solve); a fresh workspace keeps it safe.
+            Err(_) => self.solve_into(
+                db,
+                inlet,
+                mode,
+                settings,
+                &mut StageWorkspace::new(),
+                &mut out,
+            ),
+        })?;
         Ok(out)
     }
 
