@@ -2,7 +2,9 @@
 //! (reformer outlet, 865 degC, 28 bar, S/C 3) cold and warm-started from a neighbouring answer as
 //! a sweep would, an adiabatic shift stage (HTS from 350 degC), and an adiabatic reforming +
 //! shift stage whose hot steam-rich feed cools by about 300 K (a temperature search that needs
-//! its bisection safeguard).
+//! its bisection safeguard). Each is measured through `solve` (fresh result, allocating) and
+//! through `solve_into` with a reused workspace and result (no allocation), the entry a sweep
+//! uses.
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use syntrain::equilibrium::*;
@@ -60,6 +62,22 @@ fn benches(c: &mut Criterion) {
     c.bench_function("reformer isothermal, cold start", |b| {
         b.iter(|| reformer.solve(&db, black_box(inlet), mode, None).unwrap())
     });
+    let mut ws = StageWorkspace::new();
+    let mut out = StageResult::default();
+    c.bench_function("reformer isothermal, cold start, workspace", |b| {
+        b.iter(|| {
+            reformer
+                .solve_into(
+                    &db,
+                    black_box(inlet),
+                    mode,
+                    SolveSettings::default(),
+                    &mut ws,
+                    &mut out,
+                )
+                .unwrap()
+        })
+    });
     let previous = reformer
         .solve(
             &db,
@@ -76,6 +94,20 @@ fn benches(c: &mut Criterion) {
             b.iter(|| {
                 reformer
                     .solve(&db, black_box(inlet), mode, Some(&previous.extents))
+                    .unwrap()
+            })
+        },
+    );
+    let warm = SolveSettings {
+        guess: Some(&previous.extents),
+        ..SolveSettings::default()
+    };
+    c.bench_function(
+        "reformer isothermal, warm start from a 5 K neighbour, workspace",
+        |b| {
+            b.iter(|| {
+                reformer
+                    .solve_into(&db, black_box(inlet), mode, warm, &mut ws, &mut out)
                     .unwrap()
             })
         },
@@ -105,6 +137,20 @@ fn benches(c: &mut Criterion) {
                 .unwrap()
         })
     });
+    c.bench_function("shift adiabatic, cold start, workspace", |b| {
+        b.iter(|| {
+            shift
+                .solve_into(
+                    &db,
+                    black_box(hts),
+                    EnergyMode::Adiabatic,
+                    SolveSettings::default(),
+                    &mut ws,
+                    &mut out,
+                )
+                .unwrap()
+        })
+    });
 
     let hot = flows(
         &db,
@@ -125,6 +171,20 @@ fn benches(c: &mut Criterion) {
         b.iter(|| {
             reformer
                 .solve(&db, black_box(hot_inlet), EnergyMode::Adiabatic, None)
+                .unwrap()
+        })
+    });
+    c.bench_function("reformer adiabatic, hot steam-rich feed, workspace", |b| {
+        b.iter(|| {
+            reformer
+                .solve_into(
+                    &db,
+                    black_box(hot_inlet),
+                    EnergyMode::Adiabatic,
+                    SolveSettings::default(),
+                    &mut ws,
+                    &mut out,
+                )
                 .unwrap()
         })
     });

@@ -10,8 +10,6 @@
 //! so that the Hessian A^T A - c c^T is never formed (Golub & Van Loan, Matrix Computations, 4th
 //! ed., 5.2 and 2.1.4).
 
-use std::borrow::Cow;
-
 use super::linalg;
 
 /// Fraction of the distance to the boundary (an amount reaching zero) a step may take.
@@ -22,63 +20,92 @@ pub const MAX_SPECIES: usize = 32;
 const SCARCE_FRACTION: f64 = 1e-8;
 
 /// Working reactions: `m` rows over `ns` species, each a combination of the active reactions.
-/// The rows are borrowed from the extent system while they are its own reactions (no copy in
-/// the common case) and copied when a subset is active or the basis is rebuilt.
-pub struct Basis<'a> {
+/// The buffers are kept between solves (a workspace owns the basis), so loading a basis does not
+/// allocate once they have grown to the system's size.
+#[derive(Debug, Clone)]
+pub struct Basis {
     pub ns: usize,
     pub m: usize,
     /// Row-major coefficients, `nu[k * ns + i]`.
-    pub nu: Cow<'a, [f64]>,
+    nu: Vec<f64>,
     /// Gas mole change of each working reaction.
-    pub dnu: Cow<'a, [f64]>,
+    dnu: Vec<f64>,
     /// ln K of each working reaction.
-    pub ln_k: Cow<'a, [f64]>,
-    /// Working row k = sum_j combination[k * m + j] * (active reaction j).
-    pub combination: Vec<f64>,
+    ln_k: Vec<f64>,
+    /// Working row k = sum_j combination[k * m + j] * (active reaction j); valid once rebased.
+    combination: Vec<f64>,
     /// Rows already used as a pivot when rebuilding.
     pivot: Vec<bool>,
+    rebased: bool,
+    /// For each species: does a working reaction change it?
+    in_rows: [bool; MAX_SPECIES],
+    /// Where the rows came from: (extent system id, bit set of its active reactions).
+    source: Option<(u64, u64)>,
 }
 
-impl<'a> Basis<'a> {
-    /// The basis of all reactions of a system, borrowed: `nu` row-major (`dnu.len()` rows of
-    /// `ns`), `dnu` and `ln_k` one per reaction.
-    pub fn borrowed(nu: &'a [f64], dnu: &'a [f64], ln_k: &'a [f64], ns: usize) -> Basis<'a> {
+impl Default for Basis {
+    fn default() -> Self {
         Basis {
-            ns,
-            m: dnu.len(),
-            nu: Cow::Borrowed(nu),
-            dnu: Cow::Borrowed(dnu),
-            ln_k: Cow::Borrowed(ln_k),
+            ns: 0,
+            m: 0,
+            nu: Vec::new(),
+            dnu: Vec::new(),
+            ln_k: Vec::new(),
             combination: Vec::new(),
             pivot: Vec::new(),
+            rebased: false,
+            in_rows: [false; MAX_SPECIES],
+            source: None,
         }
     }
+}
 
-    /// The basis of the given reactions themselves: (coefficient row, gas mole change, ln K).
-    pub fn new<'r>(rows: impl Iterator<Item = (&'r [f64], f64, f64)>, ns: usize) -> Basis<'a> {
-        let mut nu = Vec::with_capacity(ns * 4);
-        let mut dnu = Vec::with_capacity(4);
-        let mut ln_k = Vec::with_capacity(4);
-        for (row, d, k) in rows {
-            nu.extend_from_slice(row);
-            dnu.push(d);
-            ln_k.push(k);
+impl Basis {
+    /// Load only the ln K of the rows already loaded from the same `source` (an extent system
+    /// and its active reactions): true when that was possible (the basis not rebuilt since).
+    pub fn reload_ln_k(&mut self, source: (u64, u64), ln_k: impl Iterator<Item = f64>) -> bool {
+        if self.rebased || self.source != Some(source) {
+            return false;
         }
-        let m = dnu.len();
-        Basis {
-            ns,
-            m,
-            nu: Cow::Owned(nu),
-            dnu: Cow::Owned(dnu),
-            ln_k: Cow::Owned(ln_k),
-            combination: Vec::new(),
-            pivot: Vec::new(),
+        for (slot, k) in self.ln_k.iter_mut().zip(ln_k) {
+            *slot = k;
+        }
+        true
+    }
+
+    /// Load the given reactions themselves: (coefficient row, gas mole change, ln K), from
+    /// `source` (see [`Basis::reload_ln_k`]).
+    pub fn load<'r>(
+        &mut self,
+        source: (u64, u64),
+        rows: impl Iterator<Item = (&'r [f64], f64, f64)>,
+        ns: usize,
+    ) {
+        self.source = Some(source);
+        self.nu.clear();
+        self.dnu.clear();
+        self.ln_k.clear();
+        for (row, d, k) in rows {
+            self.nu.extend_from_slice(&row[..ns]);
+            self.dnu.push(d);
+            self.ln_k.push(k);
+        }
+        self.ns = ns;
+        self.m = self.dnu.len();
+        self.rebased = false;
+        self.update_in_rows();
+    }
+
+    fn update_in_rows(&mut self) {
+        let ns = self.ns;
+        for i in 0..ns {
+            self.in_rows[i] = (0..self.m).any(|k| self.nu[k * ns + i] != 0.0);
         }
     }
 
     /// True once the basis has been rebuilt (its rows are combinations of the originals).
     pub fn rebased(&self) -> bool {
-        !self.combination.is_empty()
+        self.rebased
     }
 
     #[inline]
@@ -129,29 +156,24 @@ impl<'a> Basis<'a> {
         let m = self.m;
         let total: f64 = n.iter().sum::<f64>() + inert;
         // While the amounts span fewer than eight decades the formed Hessian is accurate enough
-        // and its Cholesky factor is the cheaper way.
-        let (mut smallest, mut largest) = (f64::INFINITY, 0.0f64);
-        for (i, &ni) in n.iter().enumerate() {
-            if ni > 0.0 && (0..m).any(|k| self.nu[k * self.ns + i] != 0.0) {
-                smallest = smallest.min(ni);
-                largest = largest.max(ni);
-            }
-        }
+        // and its Cholesky factor is the cheaper way. The span and the Hessian come from one
+        // pass over the species.
+        let (smallest, largest) = self.hessian(n, total, scratch);
         if largest < 1e8 * smallest {
             let mut x = [0.0f64; linalg::MAX_DIM];
             x[..m].copy_from_slice(&rhs[..m]);
-            self.hessian(n, total, scratch);
             if linalg::solve_spd(&mut scratch[..m * m], &mut x[..m], m) {
                 rhs[..m].copy_from_slice(&x[..m]);
                 return true;
             }
+            self.hessian(n, total, scratch);
         }
         let mut a = [0.0f64; MAX_SPECIES * linalg::MAX_DIM];
         let mut rows = 0;
         let mut inv_sqrt = [0.0f64; MAX_SPECIES];
         let mut index = [0usize; MAX_SPECIES];
         for (i, &ni) in n.iter().enumerate() {
-            if ni > 0.0 && (0..m).any(|k| self.nu[k * self.ns + i] != 0.0) {
+            if ni > 0.0 && self.in_rows[i] {
                 inv_sqrt[rows] = 1.0 / ni.sqrt();
                 index[rows] = i;
                 rows += 1;
@@ -174,32 +196,80 @@ impl<'a> Basis<'a> {
             rhs[..m].copy_from_slice(&x[..m]);
             return true;
         }
-        self.hessian(n, total, scratch);
-        linalg::solve_general(&mut scratch[..m * m], &mut rhs[..m], m)
+        linalg::solve_general(&scratch[..m * m], &mut rhs[..m], m)
     }
 
-    /// H_ab = sum_i nu_ai nu_bi / n_i - dnu_a dnu_b / n_T.
-    fn hessian(&self, n: &[f64], total: f64, h: &mut [f64]) {
-        let m = self.m;
-        let mut weight = [0.0f64; MAX_SPECIES];
-        for (w, ni) in weight.iter_mut().zip(n) {
-            *w = if *ni > 0.0 { 1.0 / ni } else { 0.0 };
+    /// H_ab = sum_i nu_ai nu_bi / n_i - dnu_a dnu_b / n_T into `h` (m x m, row-major); returns
+    /// the smallest and largest amount of the species present in a working reaction.
+    fn hessian(&self, n: &[f64], total: f64, h: &mut [f64]) -> (f64, f64) {
+        let (m, ns) = (self.m, self.ns);
+        let n = &n[..ns];
+        let in_rows = &self.in_rows[..ns];
+        let (mut smallest, mut largest) = (f64::INFINITY, 0.0f64);
+        let inv_total = 1.0 / total;
+        // One and two working reactions (a shift converter; reforming with shift) are the
+        // common stages: their sums run over the rows directly.
+        if m == 1 {
+            let r0 = &self.nu[..ns];
+            let mut h00 = 0.0;
+            for ((&ni, &a), &used) in n.iter().zip(r0).zip(in_rows) {
+                if ni > 0.0 && used {
+                    smallest = if ni < smallest { ni } else { smallest };
+                    largest = if ni > largest { ni } else { largest };
+                    h00 += a * a / ni;
+                }
+            }
+            h[0] = h00 - self.dnu[0] * self.dnu[0] * inv_total;
+            return (smallest, largest);
         }
-        let weight = &weight[..self.ns];
+        if m == 2 {
+            let (r0, r1) = self.nu[..2 * ns].split_at(ns);
+            let (mut h00, mut h01, mut h11) = (0.0, 0.0, 0.0);
+            for (((&ni, &a), &b), &used) in n.iter().zip(r0).zip(r1).zip(in_rows) {
+                if ni > 0.0 && used {
+                    smallest = if ni < smallest { ni } else { smallest };
+                    largest = if ni > largest { ni } else { largest };
+                    let w = 1.0 / ni;
+                    h00 += a * a * w;
+                    h01 += a * b * w;
+                    h11 += b * b * w;
+                }
+            }
+            let (d0, d1) = (self.dnu[0], self.dnu[1]);
+            h[0] = h00 - d0 * d0 * inv_total;
+            h[1] = h01 - d0 * d1 * inv_total;
+            h[2] = h[1];
+            h[3] = h11 - d1 * d1 * inv_total;
+            return (smallest, largest);
+        }
+        let h = &mut h[..m * m];
+        h.fill(0.0);
+        for (i, (&ni, &used)) in n.iter().zip(in_rows).enumerate() {
+            if !(ni > 0.0 && used) {
+                continue;
+            }
+            smallest = smallest.min(ni);
+            largest = largest.max(ni);
+            let w = 1.0 / ni;
+            for a in 0..m {
+                let va = self.nu[a * ns + i];
+                if va == 0.0 {
+                    continue;
+                }
+                let wa = va * w;
+                for b in a..m {
+                    h[a * m + b] += wa * self.nu[b * ns + i];
+                }
+            }
+        }
         for a in 0..m {
-            let ra = self.row(a);
             for b in a..m {
-                let s: f64 = ra
-                    .iter()
-                    .zip(self.row(b))
-                    .zip(weight)
-                    .map(|((x, y), w)| x * y * w)
-                    .sum();
-                let v = s - self.dnu[a] * self.dnu[b] / total;
+                let v = h[a * m + b] - self.dnu[a] * self.dnu[b] * inv_total;
                 h[a * m + b] = v;
                 h[b * m + a] = v;
             }
         }
+        (smallest, largest)
     }
 
     /// One pass of one-reaction steps in log space: for each working reaction, the species with
@@ -247,22 +317,39 @@ impl<'a> Basis<'a> {
     /// sum_k w_k row_k is unchanged. Returns true when anything changed.
     pub fn rebase(&mut self, n: &[f64], inert: f64, w: &mut [f64]) -> bool {
         let total: f64 = n.iter().sum::<f64>() + inert;
-        let mut order: Vec<usize> = (0..self.ns)
-            .filter(|&i| n[i] > 0.0 && n[i] < SCARCE_FRACTION * total)
-            .collect();
-        order.sort_by(|a, b| n[*a].total_cmp(&n[*b]));
-        if self.combination.is_empty() {
-            self.combination = vec![0.0; self.m * self.m];
-            for k in 0..self.m {
-                self.combination[k * self.m + k] = 1.0;
+        let mut order = [0usize; MAX_SPECIES];
+        let mut count = 0;
+        for i in 0..self.ns {
+            if n[i] > 0.0 && n[i] < SCARCE_FRACTION * total {
+                order[count] = i;
+                count += 1;
             }
-            self.pivot = vec![false; self.m];
         }
+        let order = &mut order[..count];
+        order.sort_unstable_by(|a, b| n[*a].total_cmp(&n[*b]).then(a.cmp(b)));
+        let m = self.m;
+        if !self.rebased {
+            self.combination.clear();
+            self.combination.resize(m * m, 0.0);
+            for k in 0..m {
+                self.combination[k * m + k] = 1.0;
+            }
+            self.pivot.clear();
+            self.pivot.resize(m, false);
+            self.rebased = true;
+        }
+        let ns = self.ns;
         let mut changed = false;
-        for i in order {
-            let rows_with: Vec<usize> = (0..self.m)
-                .filter(|&k| self.nu[k * self.ns + i] != 0.0)
-                .collect();
+        for &i in order.iter() {
+            let mut rows_with = [0usize; linalg::MAX_DIM];
+            let mut count = 0;
+            for k in 0..m {
+                if self.nu[k * ns + i] != 0.0 {
+                    rows_with[count] = k;
+                    count += 1;
+                }
+            }
+            let rows_with = &rows_with[..count];
             if rows_with.len() < 2 {
                 continue;
             }
@@ -270,35 +357,34 @@ impl<'a> Basis<'a> {
                 .iter()
                 .filter(|&&k| !self.pivot[k])
                 .max_by(|a, b| {
-                    self.nu[**a * self.ns + i]
+                    self.nu[**a * ns + i]
                         .abs()
-                        .total_cmp(&self.nu[**b * self.ns + i].abs())
+                        .total_cmp(&self.nu[**b * ns + i].abs())
                 })
             else {
                 continue;
             };
             self.pivot[p] = true;
-            let ns = self.ns;
-            let nu = self.nu.to_mut();
-            let dnu = self.dnu.to_mut();
-            let ln_k = self.ln_k.to_mut();
             for &q in rows_with.iter().filter(|&&q| q != p) {
-                let f = nu[q * ns + i] / nu[p * ns + i];
+                let f = self.nu[q * ns + i] / self.nu[p * ns + i];
                 for c in 0..ns {
-                    let v = nu[p * ns + c];
-                    nu[q * ns + c] -= f * v;
+                    let v = self.nu[p * ns + c];
+                    self.nu[q * ns + c] -= f * v;
                 }
-                nu[q * ns + i] = 0.0;
-                dnu[q] -= f * dnu[p];
-                ln_k[q] -= f * ln_k[p];
-                for c in 0..self.m {
-                    let v = self.combination[p * self.m + c];
-                    self.combination[q * self.m + c] -= f * v;
+                self.nu[q * ns + i] = 0.0;
+                self.dnu[q] -= f * self.dnu[p];
+                self.ln_k[q] -= f * self.ln_k[p];
+                for c in 0..m {
+                    let v = self.combination[p * m + c];
+                    self.combination[q * m + c] -= f * v;
                 }
                 // sum w row stays the same: row_q' = row_q - f row_p  =>  w_p' = w_p + f w_q.
                 w[p] += f * w[q];
                 changed = true;
             }
+        }
+        if changed {
+            self.update_in_rows();
         }
         changed
     }

@@ -21,16 +21,17 @@
 pub use super::basis::MAX_SPECIES;
 use super::basis::{Basis, FRACTION_TO_BOUNDARY};
 use super::linalg;
+use super::options::{SolverOptions, StageTermination};
 use crate::error::{Error, Result};
 
-/// Convergence tolerance on the largest equilibrium residual of the working equations, ln-space.
+/// Default convergence tolerance on the largest equilibrium residual of the working equations,
+/// ln-space ([`SolverOptions::extent_tolerance`]).
 pub const RESIDUAL_TOLERANCE: f64 = 1e-11;
-/// Largest residual of the original reactions a converged solution may report, ln-space.
+/// Default largest residual of the original reactions a converged solution may report, ln-space
+/// ([`SolverOptions::extent_reported_tolerance`]).
 pub const REPORTED_TOLERANCE: f64 = 1e-10;
 /// Smallest line-search step; below it the step is taken as failed (round-off bound).
 const MIN_STEP: f64 = 1e-10;
-/// Newton iterations allowed.
-const MAX_ITERATIONS: usize = 200;
 
 /// Stoichiometry of a set of independent reactions over a set of species.
 #[derive(Debug, Clone)]
@@ -43,10 +44,16 @@ pub struct ExtentSystem {
     dnu: Vec<f64>,
     /// For each reaction, the species with a non-zero coefficient.
     members: Vec<Vec<usize>>,
+    /// Identity of this system's coefficients (shared by its clones), so that a workspace can
+    /// keep the rows it loaded from it.
+    id: u64,
 }
 
+/// Source of [`ExtentSystem`] identities.
+static NEXT_SYSTEM_ID: std::sync::atomic::AtomicU64 = std::sync::atomic::AtomicU64::new(1);
+
 /// The answer of an extent solve.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, Default)]
 pub struct ExtentSolution {
     /// Equilibrium amounts of the system's species (same units as the inlet).
     pub amounts: Vec<f64>,
@@ -59,8 +66,9 @@ pub struct ExtentSolution {
     pub frozen: Vec<bool>,
     /// Newton iterations taken.
     pub iterations: usize,
-    /// True when every active residual is within [`RESIDUAL_TOLERANCE`].
-    pub converged: bool,
+    /// Why the Newton iteration stopped: [`StageTermination::Converged`] when every active
+    /// residual is within the reported tolerance.
+    pub termination: StageTermination,
 }
 
 impl ExtentSolution {
@@ -68,6 +76,35 @@ impl ExtentSolution {
     pub fn max_residual(&self) -> f64 {
         self.residuals.iter().fold(0.0f64, |m, r| m.max(r.abs()))
     }
+
+    /// True when the solve converged.
+    pub fn converged(&self) -> bool {
+        self.termination.is_converged()
+    }
+}
+
+/// One extent problem: inlet amounts of the system's species, the amount of other gas species
+/// (they count in the total only), ln K of each reaction, ln(P / P0), and the extents to start
+/// from (used when they give positive amounts).
+#[derive(Debug, Clone, Copy)]
+pub struct ExtentProblem<'a> {
+    /// Amounts of the system's species.
+    pub inlet: &'a [f64],
+    /// Amount of gas species in no reaction.
+    pub inert: f64,
+    /// ln K of each reaction.
+    pub ln_k: &'a [f64],
+    /// ln(P / P0).
+    pub ln_p: f64,
+    /// Extents to start from (same units as `inlet`).
+    pub guess: Option<&'a [f64]>,
+}
+
+/// Buffers of the extent solver, kept between solves so that a warm solve does not allocate.
+#[derive(Debug, Clone, Default)]
+pub struct ExtentWork {
+    buffer: Vec<f64>,
+    basis: Basis,
 }
 
 impl ExtentSystem {
@@ -125,6 +162,7 @@ impl ExtentSystem {
             nu,
             dnu,
             members,
+            id: NEXT_SYSTEM_ID.fetch_add(1, std::sync::atomic::Ordering::Relaxed),
         })
     }
 
@@ -134,12 +172,13 @@ impl ExtentSystem {
         self.nu[j * self.n_species + i]
     }
 
-    /// Solve for equilibrium.
+    /// Solve for equilibrium with the default options (allocates its result; see
+    /// [`ExtentSystem::solve_into`]).
     ///
     /// `inlet`: amounts of the system's species; `inert`: amount of other gas species (they count
     /// in the total only); `ln_k`: ln K of each reaction; `ln_p`: ln(P / P0).
     /// `guess`: extents to start from (same units as `inlet`), used when they give positive
-    /// amounts. A failure to converge is reported in the solution (`converged` false), not as an
+    /// amounts. A failure to converge is reported in the solution (its termination), not as an
     /// error; an error is returned only for input that cannot be solved at all.
     pub fn solve(
         &self,
@@ -149,6 +188,38 @@ impl ExtentSystem {
         ln_p: f64,
         guess: Option<&[f64]>,
     ) -> Result<ExtentSolution> {
+        let mut out = ExtentSolution::default();
+        self.solve_into(
+            ExtentProblem {
+                inlet,
+                inert,
+                ln_k,
+                ln_p,
+                guess,
+            },
+            &SolverOptions::default(),
+            &mut ExtentWork::default(),
+            &mut out,
+        )?;
+        Ok(out)
+    }
+
+    /// Solve for equilibrium into `out`, with the buffers of `work`; no allocation once both
+    /// have grown to the system's size. See [`ExtentSystem::solve`].
+    pub fn solve_into(
+        &self,
+        problem: ExtentProblem<'_>,
+        options: &SolverOptions,
+        work: &mut ExtentWork,
+        out: &mut ExtentSolution,
+    ) -> Result<()> {
+        let ExtentProblem {
+            inlet,
+            inert,
+            ln_k,
+            ln_p,
+            guess,
+        } = problem;
         let ns = self.n_species;
         let nr = self.n_reactions;
         if inlet.len() != ns || ln_k.len() != nr {
@@ -173,18 +244,21 @@ impl ExtentSystem {
                     .into(),
             });
         }
-        // One buffer for every work vector: n0 | n | xi | ln_n | dn | trial | g | trial_g | step
-        // | hessian.
-        let mut buffer = vec![0.0; 6 * ns + 4 * nr + nr * nr];
+        // One buffer for every work vector: n0 | ln_n | dn | trial | g | trial_g | step |
+        // hessian; the amounts and extents live in `out`.
+        let ExtentWork { buffer, basis } = work;
+        buffer.resize(4 * ns + 4 * nr + nr * nr, 0.0);
         let (n0, rest) = buffer.split_at_mut(ns);
-        let (n, rest) = rest.split_at_mut(ns);
-        let (xi, rest) = rest.split_at_mut(nr);
         let (ln_n, rest) = rest.split_at_mut(ns);
         let (dn, rest) = rest.split_at_mut(ns);
         let (trial, rest) = rest.split_at_mut(ns);
         let (g, rest) = rest.split_at_mut(nr);
         let (trial_g, rest) = rest.split_at_mut(nr);
         let (step, hessian) = rest.split_at_mut(nr);
+        out.amounts.resize(ns, 0.0);
+        out.extents.resize(nr, 0.0);
+        let n = &mut out.amounts[..];
+        let xi = &mut out.extents[..];
         for i in 0..ns {
             n0[i] = inlet[i] / scale;
         }
@@ -205,9 +279,10 @@ impl ExtentSystem {
             xi.fill(0.0);
             self.make_interior(n, xi);
         }
-        let frozen: Vec<bool> = (0..nr)
-            .map(|j| self.members[j].iter().any(|&i| n[i] <= 0.0))
-            .collect();
+        out.frozen.clear();
+        out.frozen
+            .extend((0..nr).map(|j| self.members[j].iter().any(|&i| n[i] <= 0.0)));
+        let frozen = &out.frozen;
         let mut active_list = [0usize; linalg::MAX_DIM];
         let mut na = 0;
         for j in 0..nr {
@@ -221,7 +296,7 @@ impl ExtentSystem {
         let trial_g = &mut trial_g[..na];
         let step = &mut step[..na];
         let scratch = &mut hessian[..na * na];
-        let mut basis = self.basis(active, ln_k);
+        self.load_basis(basis, active, ln_k);
         // Working extents, in the working basis (added to xi at the end).
         let mut w = [0.0f64; linalg::MAX_DIM];
         let w = &mut w[..na];
@@ -229,10 +304,13 @@ impl ExtentSystem {
             basis.log_relaxation(n, w, inert, ln_p);
         }
 
+        let tolerance = options.extent_tolerance;
         let mut iterations = 0;
         let mut merit = basis.gradient(n, inert, ln_p, ln_n, g);
-        let mut converged = max_abs(g) <= RESIDUAL_TOLERANCE;
-        while !converged && iterations < MAX_ITERATIONS {
+        let mut converged = max_abs(g) <= tolerance;
+        // Why the last step failed, if it did.
+        let mut last_failure = None;
+        while !converged && iterations < options.extent_iteration_limit {
             iterations += 1;
             // Newton direction: H d = -g.
             for k in 0..na {
@@ -273,6 +351,11 @@ impl ExtentSystem {
                     }
                     alpha *= 0.5;
                 }
+                if !accepted {
+                    last_failure = Some(StageTermination::LineSearchFailed);
+                }
+            } else {
+                last_failure = Some(StageTermination::SingularStep);
             }
             if !accepted {
                 // Round-off: a species far below the others and changed by several reactions
@@ -282,15 +365,16 @@ impl ExtentSystem {
                     basis.log_relaxation(n, w, inert, ln_p);
                 }
                 merit = basis.gradient(n, inert, ln_p, ln_n, g);
-                converged = max_abs(g) <= RESIDUAL_TOLERANCE;
+                converged = max_abs(g) <= tolerance;
                 continue;
             }
+            last_failure = None;
             n.copy_from_slice(trial);
             g.copy_from_slice(trial_g);
             for k in 0..na {
                 w[k] += alpha * step[k];
             }
-            converged = max_abs(g) <= RESIDUAL_TOLERANCE;
+            converged = max_abs(g) <= tolerance;
         }
         // Extents and residuals of the original reactions.
         let mut extents_active = [0.0f64; linalg::MAX_DIM];
@@ -299,32 +383,42 @@ impl ExtentSystem {
             xi[j] += extents_active[k];
         }
         if basis.rebased() {
-            self.basis(active, ln_k).gradient(n, inert, ln_p, ln_n, g);
+            self.load_basis(basis, active, ln_k);
+            basis.gradient(n, inert, ln_p, ln_n, g);
         }
-        let mut residuals = vec![0.0; nr];
+        out.residuals.clear();
+        out.residuals.resize(nr, 0.0);
         for (k, &j) in active.iter().enumerate() {
-            residuals[j] = g[k];
+            out.residuals[j] = g[k];
         }
-        let converged = converged && max_abs(g) <= REPORTED_TOLERANCE;
-        Ok(ExtentSolution {
-            amounts: n.iter().map(|v| v * scale).collect(),
-            extents: xi.iter().map(|v| v * scale).collect(),
-            residuals,
-            frozen,
-            iterations,
-            converged,
-        })
+        out.termination = if !converged {
+            last_failure.unwrap_or(StageTermination::ExtentIterationLimit)
+        } else if max_abs(g) <= options.extent_reported_tolerance {
+            StageTermination::Converged
+        } else {
+            StageTermination::ResidualAboveTolerance
+        };
+        out.iterations = iterations;
+        for v in out.amounts.iter_mut() {
+            *v *= scale;
+        }
+        for v in out.extents.iter_mut() {
+            *v *= scale;
+        }
+        Ok(())
     }
 
-    /// The working basis of the given active reactions with their ln K.
-    fn basis<'a>(&'a self, active: &[usize], ln_k: &'a [f64]) -> Basis<'a> {
-        if active.len() == self.n_reactions {
-            return Basis::borrowed(&self.nu, &self.dnu, ln_k, self.n_species);
+    /// Load the working basis of the given active reactions with their ln K.
+    fn load_basis(&self, basis: &mut Basis, active: &[usize], ln_k: &[f64]) {
+        let mask = active.iter().fold(0u64, |m, &j| m | (1 << j));
+        let source = (self.id, mask);
+        if !basis.reload_ln_k(source, active.iter().map(|&j| ln_k[j])) {
+            basis.load(
+                source,
+                active.iter().map(|&j| (self.row(j), self.dnu[j], ln_k[j])),
+                self.n_species,
+            );
         }
-        Basis::new(
-            active.iter().map(|&j| (self.row(j), self.dnu[j], ln_k[j])),
-            self.n_species,
-        )
     }
 
     #[inline]
@@ -336,6 +430,7 @@ impl ExtentSystem {
     /// equilibrium amounts (dxi/dT = H^-1 d lnK/dT) into `out` (frozen reactions get zero).
     /// Returns false, with `out` zeroed, when the Hessian cannot be factorised (a species so
     /// scarce that H is numerically singular); the caller must then do without the sensitivity.
+    /// `work` lends its basis buffers (no allocation once grown).
     #[must_use]
     pub fn sensitivity(
         &self,
@@ -343,6 +438,7 @@ impl ExtentSystem {
         inert: f64,
         rhs: &[f64],
         out: &mut [f64],
+        work: &mut ExtentWork,
     ) -> bool {
         let nr = self.n_reactions;
         if rhs.len() < nr
@@ -366,14 +462,8 @@ impl ExtentSystem {
             return true;
         }
         const NO_LN_K: [f64; linalg::MAX_DIM] = [0.0; linalg::MAX_DIM];
-        let basis = if na == nr {
-            Basis::borrowed(&self.nu, &self.dnu, &NO_LN_K[..nr], self.n_species)
-        } else {
-            Basis::new(
-                active.iter().map(|&j| (self.row(j), self.dnu[j], 0.0)),
-                self.n_species,
-            )
-        };
+        let basis = &mut work.basis;
+        self.load_basis(basis, active, &NO_LN_K[..nr]);
         let mut scratch = [0.0f64; linalg::MAX_DIM * linalg::MAX_DIM];
         let mut x = [0.0f64; linalg::MAX_DIM];
         for (k, &j) in active.iter().enumerate() {

@@ -11,8 +11,12 @@
 //! energy residual is normalised by n_in R T_in, in the search and in the reported residual
 //! alike, so that a stream whose total enthalpy is near zero is judged like any other.
 
-use super::extents::{ExtentSolution, ExtentSystem};
+use std::cell::RefCell;
+
+use super::approach::approach_sign;
+use super::extents::{ExtentProblem, ExtentSolution, ExtentSystem, ExtentWork};
 use super::linalg::MAX_DIM;
+use super::options::{SolverOptions, StageTermination};
 use super::root::{self, Evaluation, Root, RootOptions, Termination};
 use crate::error::{Error, Result};
 use crate::quantity::{R_GAS, STANDARD_PRESSURE_PA};
@@ -71,8 +75,21 @@ pub struct StageInlet<'a> {
     pub pressure_pa: f64,
 }
 
+/// What one solve may set without rebuilding the stage.
+#[derive(Debug, Clone, Copy, Default)]
+pub struct SolveSettings<'a> {
+    /// Extents (mol/s) of a neighbouring solution to start from; ignored unless one per
+    /// reaction.
+    pub guess: Option<&'a [f64]>,
+    /// Approach temperature of each reaction for this solve, K, in the stage's reaction order;
+    /// `None` takes the approaches the stage was built with.
+    pub approaches_k: Option<&'a [f64]>,
+    /// Tolerances and limits.
+    pub options: SolverOptions,
+}
+
 /// The result of a stage solve.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, Default)]
 pub struct StageResult {
     /// Outlet flow of every database species, mol/s.
     pub outlet_flows: Vec<f64>,
@@ -100,15 +117,96 @@ pub struct StageResult {
     /// How the temperature search ended (`None` for a fixed outlet temperature): termination
     /// reason, Newton and bisection steps, and evaluations whose slope dH/dT was unavailable.
     pub temperature_search: Option<Root>,
-    /// True when every residual is within tolerance: the extent solve's, and the energy
-    /// residual within [`ENERGY_TOLERANCE`] (adiabatic and fixed duty).
-    pub converged: bool,
+    /// Why the solve stopped: [`StageTermination::Converged`] when every residual is within
+    /// tolerance (the extent solve's, and the energy residual within
+    /// [`SolverOptions::energy_tolerance`] for adiabatic and fixed-duty stages).
+    pub termination: StageTermination,
 }
 
 impl StageResult {
     /// Largest equilibrium residual magnitude.
     pub fn max_residual(&self) -> f64 {
         self.residuals.iter().fold(0.0f64, |m, r| m.max(r.abs()))
+    }
+
+    /// True when the solve converged (its termination says so).
+    pub fn converged(&self) -> bool {
+        self.termination.is_converged()
+    }
+}
+
+/// Buffers of a stage solve, kept between solves: one per thread, reused for every stage and
+/// every solve, so that a warm solve makes no heap allocation.
+#[derive(Debug, Clone, Default)]
+pub struct StageWorkspace {
+    feed: FeedBuffers,
+    run: RunBuffers,
+    /// Result of the zero-approach solve that decides [`Direction::Auto`].
+    zero: StageResult,
+}
+
+impl StageWorkspace {
+    /// An empty workspace (its buffers grow on first use).
+    pub fn new() -> StageWorkspace {
+        StageWorkspace::default()
+    }
+}
+
+/// What a solve needs to know about the inlet, per solve.
+#[derive(Debug, Clone, Default)]
+struct FeedBuffers {
+    /// Inlet amounts of the stage's species, in the stage's order.
+    local_inlet: Vec<f64>,
+    /// Gas species not in any reaction: (amount, polynomial).
+    inerts: Vec<(f64, Nasa7)>,
+}
+
+/// The state of one solve.
+#[derive(Debug, Clone, Default)]
+struct RunBuffers {
+    /// Extents the next extent solve starts from (valid when `has_guess`).
+    guess: Vec<f64>,
+    has_guess: bool,
+    /// The last point of the temperature search, for the next start: x(T') ~ x + slope (T' - T)
+    /// (valid when `has_tangent`).
+    tangent_extents: Vec<f64>,
+    tangent_slope: Vec<f64>,
+    tangent_temperature_k: f64,
+    has_tangent: bool,
+    /// Extent solve iterations, summed.
+    iterations: usize,
+    /// T_eq,j of the last equilibrium evaluated, K.
+    equilibrium_temperatures_k: [f64; MAX_DIM],
+    /// s_j of the last equilibrium evaluated.
+    approach_signs: [f64; MAX_DIM],
+    extent: ExtentWork,
+    /// H/RT of the stage's species at the stream temperature of the last equilibrium evaluated.
+    h_rt: [f64; MAX_STAGE_SPECIES],
+    /// The last equilibrium evaluated, and its stream temperature.
+    solution: ExtentSolution,
+    solution_temperature_k: f64,
+}
+
+/// The settings of one pass of a solve (the zero-approach pass or the real one).
+struct Pass<'p> {
+    inlet: StageInlet<'p>,
+    mode: EnergyMode,
+    guess: Option<&'p [f64]>,
+    /// Running direction of each reaction: +1 as written, -1 against.
+    directions: &'p [f64],
+    /// Approach of each reaction, K.
+    approaches: &'p [f64],
+    zero_approach: bool,
+    options: &'p SolverOptions,
+}
+
+impl Pass<'_> {
+    fn approach(&self, j: usize) -> f64 {
+        if self.zero_approach {
+            0.0
+        } else {
+            self.approaches[j]
+        }
     }
 }
 
@@ -124,14 +222,9 @@ pub struct EquilibriumStage {
     member: Vec<bool>,
 }
 
-/// Largest energy residual |H_out - H_in - duty| / (n_in R T_in) of a converged adiabatic or
-/// fixed-duty stage; the temperature search stops there too (about 1e-8 K of outlet temperature).
+/// Default largest energy residual |H_out - H_in - duty| / (n_in R T_in) of a converged
+/// adiabatic or fixed-duty stage ([`SolverOptions::energy_tolerance`]).
 pub const ENERGY_TOLERANCE: f64 = 1e-10;
-/// Bracket length at which the temperature search stops, K (the round-off floor of the energy
-/// residual; the energy tolerance still decides convergence).
-const TEMPERATURE_STEP_TOLERANCE_K: f64 = 1e-9;
-/// Equilibrium evaluations the temperature search may take.
-const MAX_TEMPERATURE_ITERATIONS: usize = 100;
 /// An extent at zero approach below this fraction of the largest flow (inlet or outlet) of the
 /// reaction's species is taken as zero when [`Direction::Auto`] is decided; the same bound on
 /// |ln K - ln Q| decides a lone reaction at its inlet. Both are scale-free.
@@ -211,7 +304,8 @@ impl EquilibriumStage {
         &self.reactions
     }
 
-    /// Solve the stage. `guess`: the extents (mol/s) of a neighbouring solution to start from.
+    /// Solve the stage with the default [`SolverOptions`]. `guess`: the extents (mol/s) of a
+    /// neighbouring solution to start from.
     pub fn solve(
         &self,
         db: &SpeciesDb,
@@ -219,51 +313,152 @@ impl EquilibriumStage {
         mode: EnergyMode,
         guess: Option<&[f64]>,
     ) -> Result<StageResult> {
-        let needs_auto = self
-            .reactions
-            .iter()
-            .any(|r| r.direction == Direction::Auto && r.approach_k != 0.0);
-        let single = self.single_reaction_direction(inlet, mode);
-        let directions: Vec<f64> = if let (true, Some(d)) = (needs_auto, single) {
-            vec![d]
-        } else if needs_auto {
-            let zero = self.solve_with(
+        self.solve_with_options(db, inlet, mode, guess, &SolverOptions::default())
+    }
+
+    /// Solve the stage with the given tolerances and limits: a fresh result, solved with this
+    /// thread's own workspace (so only the result's vectors are allocated; a loop of solves
+    /// that keeps its result should use [`EquilibriumStage::solve_into`]).
+    pub fn solve_with_options(
+        &self,
+        db: &SpeciesDb,
+        inlet: StageInlet<'_>,
+        mode: EnergyMode,
+        guess: Option<&[f64]>,
+        options: &SolverOptions,
+    ) -> Result<StageResult> {
+        thread_local! {
+            static WORKSPACE: RefCell<StageWorkspace> = RefCell::new(StageWorkspace::new());
+        }
+        let mut out = StageResult::default();
+        let settings = SolveSettings {
+            guess,
+            approaches_k: None,
+            options: *options,
+        };
+        WORKSPACE.with(|ws| match ws.try_borrow_mut() {
+            Ok(mut ws) => self.solve_into(db, inlet, mode, settings, &mut ws, &mut out),
+            // Not reachable today (a solve calls no solve); a fresh workspace keeps it safe.
+            Err(_) => self.solve_into(
                 db,
                 inlet,
                 mode,
-                guess,
-                &vec![1.0; self.reactions.len()],
-                true,
-            )?;
-            self.reactions
-                .iter()
-                .zip(&zero.extents)
-                .enumerate()
-                .map(|(j, (r, x))| match r.direction {
+                settings,
+                &mut StageWorkspace::new(),
+                &mut out,
+            ),
+        })?;
+        Ok(out)
+    }
+
+    /// Solve the stage into `out` with the buffers of `ws`: the entry for loops of solves. Once
+    /// `ws` and `out` have served one solve of a stage of this size, a solve makes no heap
+    /// allocation (errors excepted). `settings` carries the start, the approaches of this solve
+    /// and the options. On an error `out` holds nothing meaningful.
+    pub fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlet: StageInlet<'_>,
+        mode: EnergyMode,
+        settings: SolveSettings<'_>,
+        ws: &mut StageWorkspace,
+        out: &mut StageResult,
+    ) -> Result<()> {
+        let options = &settings.options;
+        if !options.is_valid() {
+            return Err(Error::InvalidValue {
+                field: "solver options".into(),
+                value: format!("{options:?}"),
+                reason: "tolerances must be positive and finite and limits at least one".into(),
+            });
+        }
+        let nr = self.reactions.len();
+        let mut approaches = [0.0f64; MAX_DIM];
+        match settings.approaches_k {
+            Some(given) => {
+                if given.len() != nr {
+                    return Err(Error::InvalidValue {
+                        field: "approaches".into(),
+                        value: format!("{} values", given.len()),
+                        reason: format!("expected one per reaction of the stage ({nr})"),
+                    });
+                }
+                for (j, a) in given.iter().enumerate() {
+                    if !a.is_finite() {
+                        return Err(Error::InvalidValue {
+                            field: format!("approach of {}", self.reactions[j].reaction.name),
+                            value: a.to_string(),
+                            reason: "must be a finite temperature difference".into(),
+                        });
+                    }
+                    approaches[j] = *a;
+                }
+            }
+            None => {
+                for (a, r) in approaches.iter_mut().zip(&self.reactions) {
+                    *a = r.approach_k;
+                }
+            }
+        }
+        let approaches = &approaches[..nr];
+        let needs_auto = self
+            .reactions
+            .iter()
+            .zip(approaches)
+            .any(|(r, a)| r.direction == Direction::Auto && *a != 0.0);
+        let mut directions = [1.0f64; MAX_DIM];
+        let single = if needs_auto {
+            self.single_reaction_direction(inlet, mode)
+        } else {
+            None
+        };
+        if let (true, Some(d)) = (needs_auto, single) {
+            directions[0] = d;
+        } else if needs_auto {
+            let mut zero = std::mem::take(&mut ws.zero);
+            let all_forward = [1.0f64; MAX_DIM];
+            let pass = Pass {
+                inlet,
+                mode,
+                guess: settings.guess,
+                directions: &all_forward[..nr],
+                approaches,
+                zero_approach: true,
+                options,
+            };
+            self.solve_with(db, &pass, &mut ws.feed, &mut ws.run, &mut zero)?;
+            for (j, r) in self.reactions.iter().enumerate() {
+                directions[j] = match r.direction {
                     Direction::Forward => 1.0,
                     Direction::Backward => -1.0,
                     Direction::Auto => {
-                        if *x < -EXTENT_SIGN_TOLERANCE * self.largest_flow(j, inlet.flows, &zero) {
+                        let x = zero.extents[j];
+                        if x < -EXTENT_SIGN_TOLERANCE * self.largest_flow(j, inlet.flows, &zero) {
                             -1.0
                         } else {
                             1.0
                         }
                     }
-                })
-                .collect()
+                };
+            }
+            ws.zero = zero;
         } else {
-            self.reactions
-                .iter()
-                .map(|r| {
-                    if r.direction == Direction::Backward {
-                        -1.0
-                    } else {
-                        1.0
-                    }
-                })
-                .collect()
+            for (d, r) in directions.iter_mut().zip(&self.reactions) {
+                if r.direction == Direction::Backward {
+                    *d = -1.0;
+                }
+            }
+        }
+        let pass = Pass {
+            inlet,
+            mode,
+            guess: settings.guess,
+            directions: &directions[..nr],
+            approaches,
+            zero_approach: false,
+            options,
         };
-        self.solve_with(db, inlet, mode, guess, &directions, false)
+        self.solve_with(db, &pass, &mut ws.feed, &mut ws.run, out)
     }
 
     /// Largest flow, inlet or outlet of `zero`, of the species of reaction `j` (mol/s).
@@ -322,39 +517,36 @@ impl EquilibriumStage {
     fn solve_with(
         &self,
         db: &SpeciesDb,
-        inlet: StageInlet<'_>,
-        mode: EnergyMode,
-        guess: Option<&[f64]>,
-        directions: &[f64],
-        zero_approach: bool,
-    ) -> Result<StageResult> {
-        let ctx = Context::new(self, db, inlet)?;
+        pass: &Pass<'_>,
+        feed: &mut FeedBuffers,
+        run: &mut RunBuffers,
+        out: &mut StageResult,
+    ) -> Result<()> {
+        let inlet = pass.inlet;
+        let mode = pass.mode;
+        let ctx = Context::new(self, db, inlet, feed)?;
         let nr = self.reactions.len();
-        let mut state = StageState {
-            guess: guess.filter(|g| g.len() == nr).map(|g| g.to_vec()),
-            tangent: None,
-            iterations: 0,
-            equilibrium_temperatures_k: vec![0.0; nr],
-            approach_signs: vec![0.0; nr],
-        };
-        let (temperature_k, solution, search) = match mode {
+        run.iterations = 0;
+        run.has_tangent = false;
+        run.solution_temperature_k = f64::NAN;
+        run.has_guess = false;
+        if let Some(g) = pass.guess.filter(|g| g.len() == nr) {
+            run.guess.clear();
+            run.guess.extend_from_slice(g);
+            run.has_guess = true;
+        }
+        run.equilibrium_temperatures_k = [0.0; MAX_DIM];
+        run.approach_signs = [0.0; MAX_DIM];
+        let (temperature_k, search) = match mode {
             EnergyMode::FixedTemperature { temperature_k } => {
                 ctx.check_temperature(temperature_k)?;
                 let mut dlnk_dt = [0.0; MAX_DIM];
-                let sol = self.equilibrium_at(
-                    &ctx,
-                    temperature_k,
-                    directions,
-                    zero_approach,
-                    &mut state,
-                    &mut dlnk_dt,
-                )?;
-                (temperature_k, sol, None)
+                self.equilibrium_at(&ctx, temperature_k, pass, run, &mut dlnk_dt)?;
+                (temperature_k, None)
             }
             EnergyMode::Adiabatic => {
-                let (t, sol, root) =
-                    self.temperature_search(&ctx, 0.0, directions, zero_approach, &mut state)?;
-                (t, sol, Some(root))
+                let (t, root) = self.temperature_search(&ctx, 0.0, pass, run)?;
+                (t, Some(root))
             }
             EnergyMode::FixedDuty { duty_w } => {
                 if !duty_w.is_finite() {
@@ -364,14 +556,15 @@ impl EquilibriumStage {
                         reason: "must be finite".into(),
                     });
                 }
-                let (t, sol, root) =
-                    self.temperature_search(&ctx, duty_w, directions, zero_approach, &mut state)?;
-                (t, sol, Some(root))
+                let (t, root) = self.temperature_search(&ctx, duty_w, pass, run)?;
+                (t, Some(root))
             }
         };
-        let mut outlet = inlet.flows.to_vec();
+        let solution = &run.solution;
+        out.outlet_flows.clear();
+        out.outlet_flows.extend_from_slice(inlet.flows);
         for (k, &i) in self.species.iter().enumerate() {
-            outlet[i] = solution.amounts[k];
+            out.outlet_flows[i] = solution.amounts[k];
         }
         let h_in = ctx.inlet_enthalpy;
         let h_out = self.enthalpy_of(&ctx, &solution.amounts, temperature_k);
@@ -381,24 +574,34 @@ impl EquilibriumStage {
             EnergyMode::FixedDuty { duty_w } => duty_w,
         };
         let energy_residual = (h_out - h_in - duty_w).abs() / ctx.enthalpy_scale;
-        let converged = solution.converged
-            && (matches!(mode, EnergyMode::FixedTemperature { .. })
-                || energy_residual <= ENERGY_TOLERANCE);
-        Ok(StageResult {
-            outlet_flows: outlet,
-            outlet_temperature_k: temperature_k,
-            duty_w,
-            extents: solution.extents,
-            equilibrium_temperatures_k: state.equilibrium_temperatures_k,
-            approach_signs: state.approach_signs,
-            frozen: solution.frozen,
-            residuals: solution.residuals,
-            energy_residual,
-            iterations: state.iterations,
-            temperature_iterations: search.map_or(0, |r| r.iterations),
-            temperature_search: search,
-            converged,
-        })
+        out.termination = if !solution.converged() {
+            solution.termination
+        } else if matches!(mode, EnergyMode::FixedTemperature { .. })
+            || energy_residual <= pass.options.energy_tolerance
+        {
+            StageTermination::Converged
+        } else {
+            StageTermination::ResidualAboveTolerance
+        };
+        out.outlet_temperature_k = temperature_k;
+        out.duty_w = duty_w;
+        out.extents.clear();
+        out.extents.extend_from_slice(&solution.extents);
+        out.equilibrium_temperatures_k.clear();
+        out.equilibrium_temperatures_k
+            .extend_from_slice(&run.equilibrium_temperatures_k[..nr]);
+        out.approach_signs.clear();
+        out.approach_signs
+            .extend_from_slice(&run.approach_signs[..nr]);
+        out.frozen.clear();
+        out.frozen.extend_from_slice(&solution.frozen);
+        out.residuals.clear();
+        out.residuals.extend_from_slice(&solution.residuals);
+        out.energy_residual = energy_residual;
+        out.iterations = run.iterations;
+        out.temperature_iterations = search.map_or(0, |r| r.iterations);
+        out.temperature_search = search;
+        Ok(())
     }
 
     /// Enthalpy (W) of the stage's species at `amounts` plus the inerts, at `t` (in range).
@@ -413,39 +616,36 @@ impl EquilibriumStage {
         rt * (local + inert)
     }
 
-    /// Equilibrium at stream temperature `t`; `dlnk_dt` receives d lnK/dT of each reaction.
-    /// The extent solve starts from the tangent prediction of the last evaluation when there is
-    /// one and it keeps every flow positive, else from the last extents or the caller's guess.
+    /// Equilibrium at stream temperature `t` into `run.solution`; `dlnk_dt` receives d lnK/dT of
+    /// each reaction. The extent solve starts from the tangent prediction of the last evaluation
+    /// when there is one and it keeps every flow positive, else from the last extents or the
+    /// caller's guess.
     fn equilibrium_at(
         &self,
         ctx: &Context<'_>,
         t: f64,
-        directions: &[f64],
-        zero_approach: bool,
-        state: &mut StageState,
+        pass: &Pass<'_>,
+        run: &mut RunBuffers,
         dlnk_dt: &mut [f64; MAX_DIM],
-    ) -> Result<ExtentSolution> {
+    ) -> Result<()> {
         let nr = self.reactions.len();
         let ns = self.species.len();
         let mut ln_k = [0.0f64; MAX_DIM];
         // Species values at the stream temperature, shared by reactions without an approach.
-        let mut h_rt = [0.0f64; MAX_STAGE_SPECIES];
+        let h_rt = &mut run.h_rt;
         let mut g_rt = [0.0f64; MAX_STAGE_SPECIES];
         for k in 0..ns {
             h_rt[k] = self.nasa[k].h_rt(t);
             g_rt[k] = self.nasa[k].g_rt(t);
         }
+        let h_rt = &run.h_rt;
         for (j, r) in self.reactions.iter().enumerate() {
             // Sign from the direction and the sign of dH at the stream temperature.
             let dh_rt: f64 = (0..ns).map(|k| self.system.nu(j, k) * h_rt[k]).sum();
-            let s = if dh_rt * directions[j] >= 0.0 {
-                1.0
-            } else {
-                -1.0
-            };
-            let approach = if zero_approach { 0.0 } else { r.approach_k };
-            state.approach_signs[j] = s;
-            state.equilibrium_temperatures_k[j] = t - s * approach;
+            let s = approach_sign(dh_rt, pass.directions[j]);
+            let approach = pass.approach(j);
+            run.approach_signs[j] = s;
+            run.equilibrium_temperatures_k[j] = t - s * approach;
             if approach == 0.0 {
                 ln_k[j] = -(0..ns).map(|k| self.system.nu(j, k) * g_rt[k]).sum::<f64>();
                 dlnk_dt[j] = dh_rt / t; // dH/(R T^2) = (H/RT)/T
@@ -476,72 +676,83 @@ impl EquilibriumStage {
             ln_k[j] = -g;
             dlnk_dt[j] = h / t_eq;
         }
-        if let Some(tangent) = &state.tangent {
-            let guess = state.guess.get_or_insert_with(|| vec![0.0; nr]);
+        if run.has_tangent {
+            run.guess.resize(nr, 0.0);
             for j in 0..nr {
-                guess[j] = tangent.extents[j] + tangent.slope[j] * (t - tangent.temperature_k);
+                run.guess[j] =
+                    run.tangent_extents[j] + run.tangent_slope[j] * (t - run.tangent_temperature_k);
             }
-            if !self.guess_feasible(ctx, guess) {
-                guess.copy_from_slice(&tangent.extents);
+            if !self.guess_feasible(ctx, &run.guess) {
+                run.guess.copy_from_slice(&run.tangent_extents);
             }
+            run.has_guess = true;
         }
-        let sol = self.system.solve(
-            &ctx.local_inlet,
-            ctx.inert,
-            &ln_k[..nr],
-            ctx.ln_p,
-            state.guess.as_deref(),
-        )?;
-        state.iterations += sol.iterations;
-        if !sol.converged {
+        let problem = ExtentProblem {
+            inlet: ctx.local_inlet,
+            inert: ctx.inert,
+            ln_k: &ln_k[..nr],
+            ln_p: ctx.ln_p,
+            guess: run.has_guess.then_some(&run.guess[..]),
+        };
+        let result =
+            self.system
+                .solve_into(problem, pass.options, &mut run.extent, &mut run.solution);
+        run.solution_temperature_k = f64::NAN;
+        result?;
+        let sol = &run.solution;
+        run.iterations += sol.iterations;
+        if !sol.converged() {
             return Err(Error::NotConverged {
                 what: format!("equilibrium at {t:.3} K"),
                 iterations: sol.iterations,
                 residual: sol.max_residual(),
-                hint: "; check the inlet composition and approach temperatures".into(),
+                hint: format!(
+                    " ({}); check the inlet composition and approach temperatures",
+                    sol.termination
+                ),
             });
         }
-        Ok(sol)
+        run.solution_temperature_k = t;
+        Ok(())
     }
 
     /// The temperature at which H_out(T) = H_in + duty, by the safeguarded Newton search of
     /// [`root::solve_increasing`] on the residual (H_out - H_in - duty) / (n_in R T_in), inside
-    /// the species data range narrowed by the largest approach.
+    /// the species data range narrowed by the largest approach. The equilibrium there is left in
+    /// `run.solution`.
     fn temperature_search(
         &self,
         ctx: &Context<'_>,
         duty_w: f64,
-        directions: &[f64],
-        zero_approach: bool,
-        state: &mut StageState,
-    ) -> Result<(f64, ExtentSolution, Root)> {
+        pass: &Pass<'_>,
+        run: &mut RunBuffers,
+    ) -> Result<(f64, Root)> {
         let target = ctx.inlet_enthalpy + duty_w;
-        let range = self.search_range(ctx, directions, zero_approach)?;
+        let range = self.search_range(ctx, pass)?;
         let (lo, hi) = (range.lo, range.hi);
         let scale = ctx.enthalpy_scale;
+        let limit = pass.options.temperature_iteration_limit;
         let options = RootOptions {
-            residual_tolerance: ENERGY_TOLERANCE,
-            step_tolerance: TEMPERATURE_STEP_TOLERANCE_K,
-            max_iterations: MAX_TEMPERATURE_ITERATIONS,
+            residual_tolerance: pass.options.energy_tolerance,
+            step_tolerance: pass.options.temperature_step_tolerance_k,
+            max_iterations: limit,
         };
-        let mut last: Option<(f64, ExtentSolution)> = None;
+        let nr = self.reactions.len();
         let root = root::solve_increasing(lo, hi, ctx.inlet.temperature_k, options, |t| {
             let mut dlnk_dt = [0.0; MAX_DIM];
-            let sol =
-                self.equilibrium_at(ctx, t, directions, zero_approach, state, &mut dlnk_dt)?;
-            let tangent = state.tangent.get_or_insert_with(|| Tangent {
-                temperature_k: t,
-                extents: vec![0.0; sol.extents.len()],
-                slope: vec![0.0; sol.extents.len()],
-            });
-            let (h, dh_dt) = self.outlet_enthalpy(ctx, &sol, t, &dlnk_dt, &mut tangent.slope);
-            tangent.temperature_k = t;
-            tangent.extents.copy_from_slice(&sol.extents);
+            self.equilibrium_at(ctx, t, pass, run, &mut dlnk_dt)?;
+            if !run.has_tangent {
+                run.tangent_extents.resize(nr, 0.0);
+                run.tangent_slope.resize(nr, 0.0);
+                run.has_tangent = true;
+            }
+            let (h, dh_dt) = self.outlet_enthalpy(ctx, t, &dlnk_dt, run);
+            run.tangent_temperature_k = t;
+            run.tangent_extents.copy_from_slice(&run.solution.extents);
             if dh_dt.is_none() {
                 // No sensitivity: the next solve starts from these extents, not a prediction.
-                tangent.slope.fill(0.0);
+                run.tangent_slope.fill(0.0);
             }
-            last = Some((t, sol));
             Ok::<_, Error>(Evaluation {
                 value: (h - target) / scale,
                 slope: dh_dt.map(|d| d / scale),
@@ -559,20 +770,20 @@ impl EquilibriumStage {
                 return Err(stop(format!(
                     "; the outlet would lie above {hi:.2} K, {}; check the duty, the feed and \
                      the approaches",
-                    self.range_end(ctx, range.hi_set_by)
+                    self.range_end(ctx, range.hi_set_by, pass)
                 )))
             }
             Termination::RootBelowBracket => {
                 return Err(stop(format!(
                     "; the outlet would lie below {lo:.2} K, {}; check the duty, the feed and \
                      the approaches",
-                    self.range_end(ctx, range.lo_set_by)
+                    self.range_end(ctx, range.lo_set_by, pass)
                 )))
             }
             Termination::IterationLimit => {
                 return Err(stop(format!(
-                    "; the temperature search reached its limit of {MAX_TEMPERATURE_ITERATIONS} \
-                     equilibrium evaluations"
+                    "; the temperature search reached its limit of {limit} equilibrium \
+                     evaluations"
                 )))
             }
             Termination::NotFinite => {
@@ -587,27 +798,19 @@ impl EquilibriumStage {
             }
         }
         // The best point is usually the last one evaluated; otherwise solve there again.
-        let sol = match last {
-            Some((t, sol)) if t == root.x => sol,
-            _ => {
-                state.tangent = None;
-                let mut dlnk_dt = [0.0; MAX_DIM];
-                self.equilibrium_at(ctx, root.x, directions, zero_approach, state, &mut dlnk_dt)?
-            }
-        };
-        Ok((root.x, sol, root))
+        if run.solution_temperature_k != root.x {
+            run.has_tangent = false;
+            let mut dlnk_dt = [0.0; MAX_DIM];
+            self.equilibrium_at(ctx, root.x, pass, run, &mut dlnk_dt)?;
+        }
+        Ok((root.x, root))
     }
 
     /// Stream temperatures at which every reaction's equilibrium temperature T - s_j dT_j lies
     /// inside the species data range, with s_j taken at the inlet temperature: the range and,
     /// for each end, the reaction whose approach set it (if any). An error names the approach
     /// and the data range when nothing is left.
-    fn search_range(
-        &self,
-        ctx: &Context<'_>,
-        directions: &[f64],
-        zero_approach: bool,
-    ) -> Result<SearchRange> {
+    fn search_range(&self, ctx: &Context<'_>, pass: &Pass<'_>) -> Result<SearchRange> {
         let (t_min, t_max) = (ctx.t_min, ctx.t_max);
         let mut range = SearchRange {
             lo: t_min,
@@ -615,23 +818,19 @@ impl EquilibriumStage {
             lo_set_by: None,
             hi_set_by: None,
         };
-        if zero_approach {
+        if pass.zero_approach {
             return Ok(range);
         }
         let t_ref = ctx.inlet.temperature_k.max(t_min).min(t_max);
         for (j, r) in self.reactions.iter().enumerate() {
-            if r.approach_k == 0.0 {
+            let approach = pass.approaches[j];
+            if approach == 0.0 {
                 continue;
             }
             let dh_rt: f64 = (0..self.species.len())
                 .map(|k| self.system.nu(j, k) * self.nasa[k].h_rt(t_ref))
                 .sum();
-            let s = if dh_rt * directions[j] >= 0.0 {
-                1.0
-            } else {
-                -1.0
-            };
-            let shift = s * r.approach_k;
+            let shift = approach_sign(dh_rt, pass.directions[j]) * approach;
             if t_min + shift > range.lo {
                 range.lo = t_min + shift;
                 range.lo_set_by = Some(j);
@@ -643,7 +842,7 @@ impl EquilibriumStage {
             if !(range.lo < range.hi) {
                 return Err(Error::InvalidValue {
                     field: format!("approach of {}", r.reaction.name),
-                    value: format!("{} K", r.approach_k),
+                    value: format!("{approach} K"),
                     reason: format!(
                         "leaves no outlet temperature whose equilibrium temperatures lie inside \
                          the species data range {t_min:.2}-{t_max:.2} K; give a smaller approach"
@@ -655,12 +854,12 @@ impl EquilibriumStage {
     }
 
     /// Why the search range ends where it does, for messages.
-    fn range_end(&self, ctx: &Context<'_>, set_by: Option<usize>) -> String {
+    fn range_end(&self, ctx: &Context<'_>, set_by: Option<usize>, pass: &Pass<'_>) -> String {
         match set_by {
             Some(j) => format!(
                 "where the equilibrium temperature of {} (approach {} K) leaves the species \
                  data range {:.2}-{:.2} K",
-                self.reactions[j].reaction.name, self.reactions[j].approach_k, ctx.t_min, ctx.t_max
+                self.reactions[j].reaction.name, pass.approaches[j], ctx.t_min, ctx.t_max
             ),
             None => format!(
                 "the end of the species data range {:.2}-{:.2} K",
@@ -680,31 +879,37 @@ impl EquilibriumStage {
         })
     }
 
-    /// Outlet enthalpy (W) at `t` and its total derivative along the equilibrium (W/K); `dxi`
-    /// receives the sensitivity of the extents to temperature (mol/s per K). The derivative is
-    /// `None` when the sensitivity could not be solved (the search then bisects).
+    /// Outlet enthalpy (W) of `run.solution` at `t` and its total derivative along the
+    /// equilibrium (W/K); `run.tangent_slope` receives the sensitivity of the extents to
+    /// temperature (mol/s per K). The derivative is `None` when the sensitivity could not be
+    /// solved (the search then bisects).
     fn outlet_enthalpy(
         &self,
         ctx: &Context<'_>,
-        sol: &ExtentSolution,
         t: f64,
         dlnk_dt: &[f64; MAX_DIM],
-        dxi: &mut [f64],
+        run: &mut RunBuffers,
     ) -> (f64, Option<f64>) {
+        let sol = &run.solution;
         let rt = R_GAS * t;
         let mut h = 0.0;
         let mut cp = 0.0;
         let mut h_i = [0.0f64; MAX_STAGE_SPECIES];
+        // H/RT of the stage's species at `t` from the equilibrium evaluated there.
         for (k, n) in sol.amounts.iter().enumerate() {
-            h_i[k] = rt * self.nasa[k].h_rt(t);
+            h_i[k] = rt * run.h_rt[k];
             h += n * h_i[k];
             cp += n * R_GAS * self.nasa[k].cp_r(t);
         }
-        for (n, nasa) in &ctx.inerts {
+        for (n, nasa) in ctx.inerts {
             h += n * rt * nasa.h_rt(t);
             cp += n * R_GAS * nasa.cp_r(t);
         }
-        if !self.system.sensitivity(sol, ctx.inert, dlnk_dt, dxi) {
+        let dxi = &mut run.tangent_slope;
+        if !self
+            .system
+            .sensitivity(sol, ctx.inert, dlnk_dt, dxi, &mut run.extent)
+        {
             return (h, None);
         }
         let mut dh = cp;
@@ -719,18 +924,6 @@ impl EquilibriumStage {
     }
 }
 
-struct StageState {
-    /// Extents the next extent solve starts from.
-    guess: Option<Vec<f64>>,
-    /// The last point of the temperature search, for the next start.
-    tangent: Option<Tangent>,
-    iterations: usize,
-    /// T_eq,j of the last equilibrium evaluated, K.
-    equilibrium_temperatures_k: Vec<f64>,
-    /// s_j of the last equilibrium evaluated.
-    approach_signs: Vec<f64>,
-}
-
 /// The stream temperatures a search may visit, and the reaction whose approach set each end.
 struct SearchRange {
     lo: f64,
@@ -739,21 +932,14 @@ struct SearchRange {
     hi_set_by: Option<usize>,
 }
 
-/// Extents at a temperature and their derivative there: x(T') ~ x + slope (T' - T).
-struct Tangent {
-    temperature_k: f64,
-    extents: Vec<f64>,
-    slope: Vec<f64>,
-}
-
-/// What a solve needs to know about the inlet, computed once.
+/// What a solve needs to know about the inlet, computed once per solve.
 struct Context<'a> {
     inlet: StageInlet<'a>,
     /// Gas species not in any reaction: (amount, polynomial).
-    inerts: Vec<(f64, &'a Nasa7)>,
+    inerts: &'a [(f64, Nasa7)],
     inert: f64,
     /// Inlet amounts of the stage's species, in the stage's order.
-    local_inlet: Vec<f64>,
+    local_inlet: &'a [f64],
     ln_p: f64,
     inlet_enthalpy: f64,
     enthalpy_scale: f64,
@@ -764,8 +950,9 @@ struct Context<'a> {
 impl<'a> Context<'a> {
     fn new(
         stage: &EquilibriumStage,
-        db: &'a SpeciesDb,
+        db: &SpeciesDb,
         inlet: StageInlet<'a>,
+        feed: &'a mut FeedBuffers,
     ) -> Result<Context<'a>> {
         if inlet.flows.len() != db.len() || stage.member.len() != db.len() {
             return Err(Error::InvalidValue {
@@ -781,55 +968,81 @@ impl<'a> Context<'a> {
                 reason: "must be positive and finite".into(),
             });
         }
-        if !(inlet.temperature_k > 0.0 && inlet.temperature_k.is_finite()) {
+        let t_in = inlet.temperature_k;
+        if !(t_in > 0.0 && t_in.is_finite()) {
             return Err(Error::InvalidValue {
                 field: "inlet temperature".into(),
-                value: format!("{} K", inlet.temperature_k),
+                value: format!("{} K", t_in),
                 reason: "must be positive and finite".into(),
             });
         }
-        let mut inerts = Vec::new();
+        // One pass over the flows: a negative flow shows in the smallest, one that is not
+        // finite in the sum (NaN and infinities propagate); the culprit is named in a second
+        // pass, so the common case stays a plain sum.
+        let mut smallest = 0.0f64;
+        let mut total = 0.0;
+        for &n in inlet.flows {
+            total += n;
+            smallest = if n < smallest { n } else { smallest };
+        }
+        if !(smallest >= 0.0 && total.is_finite()) {
+            for (i, n) in inlet.flows.iter().enumerate() {
+                if !(*n >= 0.0 && n.is_finite()) {
+                    return Err(Error::InvalidValue {
+                        field: format!("inlet flow of {}", db.by_index(i).name),
+                        value: format!("{n} mol/s"),
+                        reason: "must be finite and non-negative".into(),
+                    });
+                }
+            }
+        }
+        feed.inerts.clear();
         let mut inert = 0.0;
         let mut t_min: f64 = 0.0;
         let mut t_max: f64 = f64::INFINITY;
-        for (i, n) in inlet.flows.iter().enumerate() {
-            if !(*n >= 0.0 && n.is_finite()) {
-                return Err(Error::InvalidValue {
-                    field: format!("inlet flow of {}", db.by_index(i).name),
-                    value: format!("{n} mol/s"),
-                    reason: "must be finite and non-negative".into(),
-                });
+        // Inlet enthalpy, W, over the species present (their ranges checked after the loop).
+        let rt_in = R_GAS * t_in;
+        let mut h = 0.0;
+        let mut out_of_range = None;
+        for (i, (n, &member)) in inlet.flows.iter().zip(&stage.member).enumerate() {
+            if *n == 0.0 && !member {
+                continue;
             }
             let sp = db.by_index(i);
-            let member = stage.member[i];
-            if *n > 0.0 || member {
-                t_min = t_min.max(sp.nasa7.t_min_k);
-                t_max = t_max.min(sp.nasa7.t_max_k);
-            }
-            if *n > 0.0 && !member {
-                if sp.phase != Phase::Gas {
-                    return Err(Error::InvalidValue {
-                        field: format!("inlet flow of {}", sp.name),
-                        value: format!("{n} mol/s"),
-                        reason: "a solid cannot pass through a gas equilibrium stage".into(),
-                    });
+            t_min = t_min.max(sp.nasa7.t_min_k);
+            t_max = t_max.min(sp.nasa7.t_max_k);
+            if *n > 0.0 {
+                if !sp.nasa7.in_range(t_in) && out_of_range.is_none() {
+                    out_of_range = Some(i);
                 }
-                inerts.push((*n, &sp.nasa7));
-                inert += n;
+                h += n * (rt_in * sp.nasa7.h_rt(t_in));
+                if !member {
+                    if sp.phase != Phase::Gas {
+                        return Err(Error::InvalidValue {
+                            field: format!("inlet flow of {}", sp.name),
+                            value: format!("{n} mol/s"),
+                            reason: "a solid cannot pass through a gas equilibrium stage".into(),
+                        });
+                    }
+                    feed.inerts.push((*n, sp.nasa7.clone()));
+                    inert += n;
+                }
             }
         }
-        let inlet_enthalpy =
-            crate::thermo::mixture::enthalpy(db, inlet.flows, inlet.temperature_k)?;
-        let total: f64 = inlet.flows.iter().sum();
-        let enthalpy_scale = total * R_GAS * inlet.temperature_k;
-        let local_inlet = stage.species.iter().map(|&i| inlet.flows[i]).collect();
+        if let Some(i) = out_of_range {
+            db.by_index(i).check_range(t_in)?;
+        }
+        feed.local_inlet.clear();
+        feed.local_inlet
+            .extend(stage.species.iter().map(|&i| inlet.flows[i]));
+        let enthalpy_scale = total * R_GAS * t_in;
         Ok(Context {
             inlet,
-            inerts,
+            inerts: &feed.inerts,
             inert,
-            local_inlet,
+            local_inlet: &feed.local_inlet,
             ln_p: (inlet.pressure_pa / STANDARD_PRESSURE_PA).ln(),
-            inlet_enthalpy,
+            inlet_enthalpy: h,
             enthalpy_scale,
             t_min,
             t_max,

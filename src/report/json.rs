@@ -81,7 +81,7 @@ pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
             .collect();
         unit.insert("figures".into(), Value::Object(figures));
         if let Some(eq) = &r.equilibrium {
-            unit.insert("converged".into(), json!(eq.converged));
+            unit.insert("converged".into(), json!(eq.converged()));
             unit.insert(
                 "iterations".into(),
                 json!(eq.iterations + eq.temperature_iterations),

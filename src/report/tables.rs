@@ -491,7 +491,7 @@ fn equilibrium_table(result: &FlowsheetResult) -> Option<Table> {
         if let Some(eq) = &unit.result.equilibrium {
             table.push(vec![
                 unit.name.clone(),
-                yes_no(eq.converged),
+                yes_no(eq.converged()),
                 (eq.iterations + eq.temperature_iterations).to_string(),
                 residual(eq.max_residual()),
                 residual(eq.energy_residual),

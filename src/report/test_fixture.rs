@@ -2,7 +2,7 @@
 //! gas and steam, mixer, reformer, shift, cooler, knockout, purifier). Figures are for the tests
 //! only; stream enthalpies are computed, duties are made to close each unit's energy balance.
 
-use crate::equilibrium::StageResult;
+use crate::equilibrium::{StageResult, StageTermination};
 use crate::flowsheet::result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Summary};
 use crate::thermo::SpeciesDb;
 use crate::units::{Figure, FigureKind, Stream, StreamPhase, UnitResult};
@@ -35,7 +35,11 @@ fn stage(outlet: &Stream, residuals: Vec<f64>, converged: bool) -> StageResult {
         temperature_iterations: 0,
         temperature_search: None,
         residuals,
-        converged,
+        termination: if converged {
+            StageTermination::Converged
+        } else {
+            StageTermination::ResidualAboveTolerance
+        },
     }
 }
 

@@ -449,12 +449,15 @@ pub(crate) fn run_stage(
     let r = stage
         .solve(db, inlet, mode, guess)
         .map_err(|e| e.context(format!("unit '{unit}'")))?;
-    if !r.converged {
+    if !r.converged() {
         return Err(Error::NotConverged {
             what: "equilibrium stage".into(),
             iterations: r.iterations,
             residual: r.max_residual().max(r.energy_residual),
-            hint: "; check the inlet composition, temperatures and approaches".into(),
+            hint: format!(
+                " ({}); check the inlet composition, temperatures and approaches",
+                r.termination
+            ),
         }
         .context(format!("unit '{unit}'")));
     }
