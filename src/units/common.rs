@@ -417,7 +417,6 @@ pub(crate) fn resolve_approaches(
     Ok(out)
 }
 
-/// Solve a prepared stage; errors and an unconverged result are reported with the unit's name.
 /// The equilibrium stage of a unit: the named reactions with their approaches (K) and
 /// directions, errors naming the unit.
 pub(crate) fn build_stage(
@@ -438,16 +437,27 @@ pub(crate) fn build_stage(
     EquilibriumStage::new(db, list).context(|| format!("unit '{unit}'"))
 }
 
-pub(crate) fn run_stage(
+/// Solve a stage into `r` with stage work memory `ws` and the solver `options`; errors and an
+/// unconverged result are reported with the unit's name.
+#[allow(clippy::too_many_arguments)]
+pub(crate) fn run_stage_into(
     stage: &EquilibriumStage,
     db: &SpeciesDb,
     unit: &str,
     inlet: crate::equilibrium::StageInlet<'_>,
     mode: crate::equilibrium::EnergyMode,
     guess: Option<&[f64]>,
-) -> Result<StageResult> {
-    let r = stage
-        .solve(db, inlet, mode, guess)
+    options: &crate::equilibrium::SolverOptions,
+    ws: &mut crate::equilibrium::StageWorkspace,
+    r: &mut StageResult,
+) -> Result<()> {
+    let settings = crate::equilibrium::SolveSettings {
+        guess,
+        approaches_k: None,
+        options: *options,
+    };
+    stage
+        .solve_into(db, inlet, mode, settings, ws, r)
         .map_err(|e| e.context(format!("unit '{unit}'")))?;
     if !r.converged() {
         return Err(Error::NotConverged {
@@ -461,7 +471,7 @@ pub(crate) fn run_stage(
         }
         .context(format!("unit '{unit}'")));
     }
-    Ok(r)
+    Ok(())
 }
 
 /// Warnings for the reactions a stage could not run at all (a species on each side absent and
@@ -491,12 +501,15 @@ pub(crate) fn frozen_warnings(
 pub(crate) fn stage_approaches(
     reactions: &'static [&'static str],
     stage: &EquilibriumStage,
-) -> Vec<(&'static str, f64)> {
-    reactions
-        .iter()
-        .zip(stage.reactions())
-        .map(|(name, r)| (*name, r.approach_k))
-        .collect()
+    out: &mut Vec<(&'static str, f64)>,
+) {
+    out.clear();
+    out.extend(
+        reactions
+            .iter()
+            .zip(stage.reactions())
+            .map(|(name, r)| (*name, r.approach_k)),
+    );
 }
 
 /// (reaction name, approach) pairs in the order of `reactions`.

@@ -13,10 +13,10 @@ use super::chemistry::unconverted_carbon_warnings;
 use super::common::named;
 use super::common::{
     build_stage, check_pressure_drop, dry_fraction, figure, frozen_warnings, reactor_inlet,
-    resolve_approaches, run_stage, stage_approaches, Key,
+    resolve_approaches, run_stage_into, stage_approaches, Key,
 };
-use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
-use super::{FigureKind, Stream, UnitResult, Warning};
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
+use super::{FigureKind, Stream, StreamPhase, UnitResult, Warning};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::Result;
 use crate::thermo::SpeciesDb;
@@ -82,11 +82,35 @@ impl Methanator {
         inlets: &[&Stream],
         guess: Option<&[f64]>,
     ) -> Result<UnitResult> {
+        let mut out = UnitResult::default();
+        self.solve_into(db, inlets, guess, &mut UnitScratch::default(), &mut out)?;
+        Ok(out)
+    }
+
+    /// Solve into `out` with the work memory of `scratch` (no heap allocation once warm).
+    pub fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
         let name = &self.name;
         let key = &self.key;
         let (inlet, p) = reactor_inlet(db, name, "methanator", inlets, self.spec.pressure_drop_pa)?;
         let t_in = inlet.temperature_k;
-        let stage = run_stage(
+        out.reset(1, db.len());
+        let UnitResult {
+            outlets,
+            approaches,
+            figures,
+            equilibrium,
+            warnings,
+            ..
+        } = out;
+        let stage = equilibrium.get_or_insert_with(Default::default);
+        run_stage_into(
             &self.stage,
             db,
             name,
@@ -97,56 +121,61 @@ impl Methanator {
             },
             EnergyMode::Adiabatic,
             guess,
+            &scratch.options,
+            &mut scratch.stage,
+            stage,
         )?;
         let t_out = stage.outlet_temperature_k;
-        let out = stage.outlet_flows.clone();
-        let total_out: f64 = out.iter().sum();
-        let oxides = out[key.co] + out[key.co2];
+        let outlet = &mut outlets[0];
+        outlet.flows.copy_from_slice(&stage.outlet_flows);
+        outlet.temperature_k = t_out;
+        outlet.pressure_pa = p;
+        outlet.phase = StreamPhase::Vapour;
+        let out_flows = &outlet.flows;
+        let total_out: f64 = out_flows.iter().sum();
+        let oxides = out_flows[key.co] + out_flows[key.co2];
         let rise = t_out - t_in;
         let n_in = inlet.total();
         let (d_co, d_co2) = if n_in > 0.0 {
             (
-                100.0 * (inlet.flows[key.co] - out[key.co]) / n_in,
-                100.0 * (inlet.flows[key.co2] - out[key.co2]) / n_in,
+                100.0 * (inlet.flows[key.co] - out_flows[key.co]) / n_in,
+                100.0 * (inlet.flows[key.co2] - out_flows[key.co2]) / n_in,
             )
         } else {
             (0.0, 0.0)
         };
         let rule = RISE_PER_PERCENT_CO_K * d_co + RISE_PER_PERCENT_CO2_K * d_co2;
-        let figures = vec![
-            figure(
-                "co-co2-wet",
-                "CO + CO2 at the outlet, wet",
-                if total_out > 0.0 {
-                    oxides / total_out
-                } else {
-                    0.0
-                },
-                FigureKind::Ppm,
-            ),
-            figure(
-                "co-co2-dry",
-                "CO + CO2 at the outlet, dry",
-                dry_fraction(key, &out, key.co) + dry_fraction(key, &out, key.co2),
-                FigureKind::Ppm,
-            ),
-            figure(
-                "temperature-rise",
-                "temperature rise",
-                rise,
-                FigureKind::TemperatureDifference,
-            ),
-            figure(
-                "temperature-rise-rule-of-thumb",
-                "temperature rise by rule of thumb (74 K per % CO, 60 K per % CO2 converted; \
-                 common practice)",
-                rule,
-                FigureKind::TemperatureDifference,
-            ),
-        ];
-        let mut warnings = Vec::new();
-        unconverted_carbon_warnings(db, name, &inlet.flows, |_| false, &mut warnings);
-        frozen_warnings(name, &self.stage, &stage, &mut warnings);
+        figures.push(figure(
+            "co-co2-wet",
+            "CO + CO2 at the outlet, wet",
+            if total_out > 0.0 {
+                oxides / total_out
+            } else {
+                0.0
+            },
+            FigureKind::Ppm,
+        ));
+        figures.push(figure(
+            "co-co2-dry",
+            "CO + CO2 at the outlet, dry",
+            dry_fraction(key, out_flows, key.co) + dry_fraction(key, out_flows, key.co2),
+            FigureKind::Ppm,
+        ));
+        figures.push(figure(
+            "temperature-rise",
+            "temperature rise",
+            rise,
+            FigureKind::TemperatureDifference,
+        ));
+        figures.push(figure(
+            "temperature-rise-rule-of-thumb",
+            "temperature rise by rule of thumb (74 K per % CO, 60 K per % CO2 converted; \
+             common practice)",
+            rule,
+            FigureKind::TemperatureDifference,
+        ));
+        unconverted_carbon_warnings(db, name, &inlet.flows, |_| false, warnings);
+        frozen_warnings(name, &self.stage, stage, warnings);
         if rise > LARGE_RISE_K {
             warnings.push(
                 Warning::new(
@@ -160,14 +189,8 @@ impl Methanator {
                 .for_unit(name.as_str()),
             );
         }
-        Ok(UnitResult {
-            outlets: vec![Stream::vapour(out, t_out, p)],
-            duty_w: 0.0,
-            approaches: stage_approaches(&METHANATOR_REACTIONS, &self.stage),
-            figures,
-            equilibrium: Some(stage),
-            warnings,
-        })
+        stage_approaches(&METHANATOR_REACTIONS, &self.stage, approaches);
+        Ok(())
     }
 }
 
@@ -225,6 +248,17 @@ impl UnitKind for Methanator {
         guess: Option<&[f64]>,
     ) -> Result<UnitResult> {
         Methanator::solve(self, db, inlets, guess)
+    }
+
+    fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        Methanator::solve_into(self, db, inlets, guess, scratch, out)
     }
 }
 

@@ -12,10 +12,10 @@ use super::chemistry::{unconverted_carbon_warnings, CarbonCheck, HigherHydrocarb
 use super::common::named;
 use super::common::{
     build_stage, check_pressure_drop, dry_fraction, figure, frozen_warnings, reactor_inlet,
-    resolve_approaches, run_stage, stage_approaches, Key,
+    resolve_approaches, run_stage_into, stage_approaches, Key,
 };
-use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
-use super::{FigureKind, Stream, UnitResult};
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
+use super::{FigureKind, Stream, StreamPhase, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::{Result, ResultExt};
 use crate::thermo::{mixture, SpeciesDb};
@@ -77,25 +77,56 @@ impl Prereformer {
         inlets: &[&Stream],
         guess: Option<&[f64]>,
     ) -> Result<UnitResult> {
+        let mut out = UnitResult::default();
+        self.solve_into(db, inlets, guess, &mut UnitScratch::default(), &mut out)?;
+        Ok(out)
+    }
+
+    /// Solve into `out` with the work memory of `scratch` (no heap allocation once warm).
+    pub fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
         let name = &self.name;
         let key = &self.key;
         let (inlet, p) =
             reactor_inlet(db, name, "prereformer", inlets, self.spec.pressure_drop_pa)?;
         let t_in = inlet.temperature_k;
         let higher_in = self.higher.amount(&inlet.flows);
-        let mut converted = inlet.flows.clone();
-        self.higher.reform(name, key, &mut converted)?;
+        let UnitScratch {
+            flows,
+            stage: stage_ws,
+            options,
+        } = scratch;
+        let converted = &mut flows[0];
+        converted.clear();
+        converted.extend_from_slice(&inlet.flows);
+        self.higher.reform(name, key, converted)?;
         let h_in = inlet
             .enthalpy_w(db)
             .context(|| format!("unit '{name}', inlet enthalpy"))?;
-        let h_converted = mixture::enthalpy(db, &converted, t_in)
+        let h_converted = mixture::enthalpy(db, converted, t_in)
             .context(|| format!("unit '{name}', inlet enthalpy"))?;
-        let stage = run_stage(
+        out.reset(1, db.len());
+        let UnitResult {
+            outlets,
+            approaches,
+            figures,
+            equilibrium,
+            warnings,
+            ..
+        } = out;
+        let stage = equilibrium.get_or_insert_with(Default::default);
+        run_stage_into(
             &self.stage,
             db,
             name,
             StageInlet {
-                flows: &converted,
+                flows: converted,
                 temperature_k: t_in,
                 pressure_pa: p,
             },
@@ -103,27 +134,35 @@ impl Prereformer {
                 duty_w: h_in - h_converted,
             },
             guess,
+            options,
+            stage_ws,
+            stage,
         )?;
         let t_out = stage.outlet_temperature_k;
-        let out = stage.outlet_flows.clone();
-        let mut figures = vec![figure(
+        let outlet = &mut outlets[0];
+        outlet.flows.copy_from_slice(&stage.outlet_flows);
+        outlet.temperature_k = t_out;
+        outlet.pressure_pa = p;
+        outlet.phase = StreamPhase::Vapour;
+        let out_flows = &outlet.flows;
+        figures.push(figure(
             "temperature-change",
             "temperature change",
             t_out - t_in,
             FigureKind::TemperatureDifference,
-        )];
+        ));
         if higher_in > 0.0 {
             figures.push(figure(
                 "higher-hydrocarbon-conversion",
                 "higher-hydrocarbon conversion",
-                1.0 - self.higher.amount(&out) / higher_in,
+                1.0 - self.higher.amount(out_flows) / higher_in,
                 FigureKind::Fraction,
             ));
         }
         figures.push(figure(
             "methane-dry",
             "methane, dry",
-            dry_fraction(key, &out, key.ch4),
+            dry_fraction(key, out_flows, key.ch4),
             FigureKind::Fraction,
         ));
         if let Some(sc) = key.steam_to_carbon(&inlet.flows) {
@@ -134,26 +173,17 @@ impl Prereformer {
                 FigureKind::Number,
             ));
         }
-        let mut warnings = Vec::new();
         unconverted_carbon_warnings(
             db,
             name,
             &inlet.flows,
             |i| self.higher.converts(i),
-            &mut warnings,
-        );
-        frozen_warnings(name, &self.stage, &stage, &mut warnings);
-        let outlet = Stream::vapour(out, t_out, p);
-        self.carbon
-            .report(db, name, &outlet, &mut figures, &mut warnings)?;
-        Ok(UnitResult {
-            outlets: vec![outlet],
-            duty_w: 0.0,
-            approaches: stage_approaches(&PREREFORMER_REACTIONS, &self.stage),
-            figures,
-            equilibrium: Some(stage),
             warnings,
-        })
+        );
+        frozen_warnings(name, &self.stage, stage, warnings);
+        self.carbon.report(db, name, outlet, figures, warnings)?;
+        stage_approaches(&PREREFORMER_REACTIONS, &self.stage, approaches);
+        Ok(())
     }
 }
 
@@ -211,6 +241,17 @@ impl UnitKind for Prereformer {
         guess: Option<&[f64]>,
     ) -> Result<UnitResult> {
         Prereformer::solve(self, db, inlets, guess)
+    }
+
+    fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        Prereformer::solve_into(self, db, inlets, guess, scratch, out)
     }
 }
 

@@ -15,10 +15,10 @@ use super::chemistry::{unconverted_carbon_warnings, CarbonCheck, HigherHydrocarb
 use super::common::named;
 use super::common::{
     build_stage, check_pressure_drop, check_temperature, dry_fraction, figure, frozen_warnings,
-    reactor_inlet, resolve_approaches, run_stage, spec_error, stage_approaches, Key,
+    reactor_inlet, resolve_approaches, run_stage_into, spec_error, stage_approaches, Key,
 };
-use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
-use super::{FigureKind, Stream, UnitResult};
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
+use super::{FigureKind, Stream, StreamPhase, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::{Result, ResultExt};
 use crate::thermo::{mixture, SpeciesDb};
@@ -90,22 +90,53 @@ impl Reformer {
         inlets: &[&Stream],
         guess: Option<&[f64]>,
     ) -> Result<UnitResult> {
+        let mut out = UnitResult::default();
+        self.solve_into(db, inlets, guess, &mut UnitScratch::default(), &mut out)?;
+        Ok(out)
+    }
+
+    /// Solve into `out` with the work memory of `scratch` (no heap allocation once warm).
+    pub fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
         let name = &self.name;
         let key = &self.key;
         let (inlet, p) = reactor_inlet(db, name, "reformer", inlets, self.spec.pressure_drop_pa)?;
         let t_out = self.spec.outlet_temperature_k;
-        let mut converted = inlet.flows.clone();
-        self.higher.reform(name, key, &mut converted)?;
-        check_temperature(db, name, "outlet-temperature", &converted, t_out)?;
+        let UnitScratch {
+            flows,
+            stage: stage_ws,
+            options,
+        } = scratch;
+        let converted = &mut flows[0];
+        converted.clear();
+        converted.extend_from_slice(&inlet.flows);
+        self.higher.reform(name, key, converted)?;
+        check_temperature(db, name, "outlet-temperature", converted, t_out)?;
         let h_in = inlet
             .enthalpy_w(db)
             .context(|| format!("unit '{name}', inlet enthalpy"))?;
-        let stage = run_stage(
+        out.reset(1, db.len());
+        let UnitResult {
+            outlets,
+            duty_w,
+            approaches,
+            figures,
+            equilibrium,
+            warnings,
+        } = out;
+        let stage = equilibrium.get_or_insert_with(Default::default);
+        run_stage_into(
             &self.stage,
             db,
             name,
             StageInlet {
-                flows: &converted,
+                flows: converted,
                 temperature_k: inlet.temperature_k,
                 pressure_pa: p,
             },
@@ -113,16 +144,23 @@ impl Reformer {
                 temperature_k: t_out,
             },
             guess,
+            options,
+            stage_ws,
+            stage,
         )?;
-        let out = stage.outlet_flows.clone();
-        let h_out = mixture::enthalpy(db, &out, t_out)?;
-        let mut figures = Vec::with_capacity(9);
+        let outlet = &mut outlets[0];
+        outlet.flows.copy_from_slice(&stage.outlet_flows);
+        outlet.temperature_k = t_out;
+        outlet.pressure_pa = p;
+        outlet.phase = StreamPhase::Vapour;
+        let out_flows = &outlet.flows;
+        *duty_w = mixture::enthalpy(db, out_flows, t_out)? - h_in;
         let ch4_in = inlet.flows[key.ch4];
         if ch4_in > 0.0 {
             figures.push(figure(
                 "methane-conversion",
                 "methane conversion",
-                1.0 - out[key.ch4] / ch4_in,
+                1.0 - out_flows[key.ch4] / ch4_in,
                 FigureKind::Fraction,
             ));
         }
@@ -135,7 +173,7 @@ impl Reformer {
             figures.push(figure(
                 k,
                 label,
-                dry_fraction(key, &out, i),
+                dry_fraction(key, out_flows, i),
                 FigureKind::Fraction,
             ));
         }
@@ -147,26 +185,17 @@ impl Reformer {
                 FigureKind::Number,
             ));
         }
-        let mut warnings = Vec::new();
         unconverted_carbon_warnings(
             db,
             name,
             &inlet.flows,
             |i| self.higher.converts(i),
-            &mut warnings,
-        );
-        frozen_warnings(name, &self.stage, &stage, &mut warnings);
-        let outlet = Stream::vapour(out, t_out, p);
-        self.carbon
-            .report(db, name, &outlet, &mut figures, &mut warnings)?;
-        Ok(UnitResult {
-            outlets: vec![outlet],
-            duty_w: h_out - h_in,
-            approaches: stage_approaches(&REFORMER_REACTIONS, &self.stage),
-            figures,
-            equilibrium: Some(stage),
             warnings,
-        })
+        );
+        frozen_warnings(name, &self.stage, stage, warnings);
+        self.carbon.report(db, name, outlet, figures, warnings)?;
+        stage_approaches(&REFORMER_REACTIONS, &self.stage, approaches);
+        Ok(())
     }
 }
 

@@ -11,11 +11,11 @@ use super::chemistry::unconverted_carbon_warnings;
 use super::common::named;
 use super::common::{
     build_stage, check_pressure_drop, check_temperature, dew_point_k, dry_fraction, figure,
-    frozen_warnings, reactor_inlet, resolve_approaches, run_stage, spec_error, stage_approaches,
-    Key,
+    frozen_warnings, reactor_inlet, resolve_approaches, run_stage_into, spec_error,
+    stage_approaches, Key,
 };
-use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
-use super::{FigureKind, Stream, UnitResult, Warning};
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
+use super::{FigureKind, Stream, StreamPhase, UnitResult, Warning};
 use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
 use crate::error::{Result, ResultExt};
 use crate::quantity::CELSIUS_OFFSET_K;
@@ -133,6 +133,20 @@ impl Shift {
         inlets: &[&Stream],
         guess: Option<&[f64]>,
     ) -> Result<UnitResult> {
+        let mut out = UnitResult::default();
+        self.solve_into(db, inlets, guess, &mut UnitScratch::default(), &mut out)?;
+        Ok(out)
+    }
+
+    /// Solve into `result` with the work memory of `scratch` (no heap allocation once warm).
+    pub fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        result: &mut UnitResult,
+    ) -> Result<()> {
         let name = &self.name;
         let key = &self.key;
         let (inlet, p) = reactor_inlet(db, name, "shift", inlets, self.spec.pressure_drop_pa)?;
@@ -147,7 +161,17 @@ impl Shift {
         let h_in = inlet
             .enthalpy_w(db)
             .context(|| format!("unit '{name}', inlet enthalpy"))?;
-        let stage = run_stage(
+        result.reset(1, db.len());
+        let UnitResult {
+            outlets,
+            duty_w,
+            approaches,
+            figures,
+            equilibrium,
+            warnings,
+        } = result;
+        let stage = equilibrium.get_or_insert_with(Default::default);
+        run_stage_into(
             &self.stage,
             db,
             name,
@@ -158,14 +182,21 @@ impl Shift {
             },
             mode,
             guess,
+            &scratch.options,
+            &mut scratch.stage,
+            stage,
         )?;
         let t_out = stage.outlet_temperature_k;
-        let out = stage.outlet_flows.clone();
-        let duty = match mode {
+        let outlet = &mut outlets[0];
+        outlet.flows.copy_from_slice(&stage.outlet_flows);
+        outlet.temperature_k = t_out;
+        outlet.pressure_pa = p;
+        outlet.phase = StreamPhase::Vapour;
+        let out = &outlet.flows;
+        *duty_w = match mode {
             EnergyMode::Adiabatic => 0.0,
-            _ => crate::thermo::mixture::enthalpy(db, &out, t_out)? - h_in,
+            _ => crate::thermo::mixture::enthalpy(db, out, t_out)? - h_in,
         };
-        let mut figures = Vec::with_capacity(5);
         let co_in = inlet.flows[key.co];
         if co_in > 0.0 {
             figures.push(figure(
@@ -196,9 +227,8 @@ impl Shift {
                 FigureKind::TemperatureDifference,
             ));
         }
-        let mut warnings = Vec::new();
-        unconverted_carbon_warnings(db, name, &inlet.flows, |_| false, &mut warnings);
-        frozen_warnings(name, &self.stage, &stage, &mut warnings);
+        unconverted_carbon_warnings(db, name, &inlet.flows, |_| false, warnings);
+        frozen_warnings(name, &self.stage, stage, warnings);
         let catalyst = match self.spec.catalyst {
             Some(c) => c,
             None => {
@@ -257,14 +287,8 @@ impl Shift {
                 );
             }
         }
-        Ok(UnitResult {
-            outlets: vec![Stream::vapour(out, t_out, p)],
-            duty_w: duty,
-            approaches: stage_approaches(&SHIFT_REACTIONS, &self.stage),
-            figures,
-            equilibrium: Some(stage),
-            warnings,
-        })
+        stage_approaches(&SHIFT_REACTIONS, &self.stage, approaches);
+        Ok(())
     }
 }
 
@@ -371,6 +395,17 @@ impl UnitKind for Shift {
         guess: Option<&[f64]>,
     ) -> Result<UnitResult> {
         Shift::solve(self, db, inlets, guess)
+    }
+
+    fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        Shift::solve_into(self, db, inlets, guess, scratch, out)
     }
 }
 

@@ -13,6 +13,7 @@ use std::fmt;
 
 use super::{Stream, UnitResult};
 use crate::diagnostics::FigureKind;
+use crate::equilibrium::{SolverOptions, StageWorkspace};
 use crate::error::{Error, Result};
 use crate::quantity::{self, Flow};
 use crate::thermo::SpeciesDb;
@@ -588,11 +589,16 @@ pub trait UnitKind: Send + Sync + fmt::Debug + Sized + 'static {
 }
 
 /// Per-thread work memory of one unit, kept in a flowsheet's workspace and reused across solves
-/// so that a unit's temporaries need no heap allocation once they have their size.
+/// so that a unit's temporaries need no heap allocation once they have their size; with the
+/// flowsheet's solver options, which the flowsheet sets before each solve.
 #[derive(Debug, Default)]
 pub struct UnitScratch {
     /// Flow vectors for a unit's temporaries (one entry per database species once sized).
     pub flows: [Vec<f64>; 3],
+    /// The equilibrium stage's work memory.
+    pub stage: StageWorkspace,
+    /// Tolerances and iteration limits of the equilibrium stages (the flowsheet's `solver:`).
+    pub options: SolverOptions,
 }
 
 /// What a compiled flowsheet solves: a built unit with its inputs.
