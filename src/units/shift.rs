@@ -209,7 +209,7 @@ impl Shift {
         figures.push(figure(
             "co-slip-dry",
             "CO slip, dry",
-            dry_fraction(key, &out, key.co),
+            dry_fraction(key, out, key.co),
             FigureKind::Fraction,
         ));
         figures.push(figure(
