@@ -194,7 +194,11 @@ impl Splitter {
         let remaining = &mut rest[0].flows;
         remaining.copy_from_slice(&inlet.flows);
         for (outlet, x) in parts.iter_mut().zip(f.iter()) {
-            for ((o, n), r) in outlet.flows.iter_mut().zip(&inlet.flows).zip(remaining.iter_mut())
+            for ((o, n), r) in outlet
+                .flows
+                .iter_mut()
+                .zip(&inlet.flows)
+                .zip(remaining.iter_mut())
             {
                 *o = n * x;
                 *r -= *o;
