@@ -211,7 +211,7 @@ pub fn fixture(db: &SpeciesDb) -> FlowsheetResult {
             &["reformed"],
             &[&mixed],
             vec![reformed.clone()],
-            vec![("reforming".into(), 10.0), ("shift".into(), 0.0)],
+            vec![("reforming", 10.0), ("shift", 0.0)],
             vec![
                 figure(
                     "methane-slip-dry",
@@ -235,7 +235,7 @@ pub fn fixture(db: &SpeciesDb) -> FlowsheetResult {
             &["hts-out"],
             &[&reformed],
             vec![shifted.clone()],
-            vec![("shift".into(), 10.0)],
+            vec![("shift", 10.0)],
             vec![figure(
                 "temperature-rise",
                 "temperature rise",

@@ -87,11 +87,12 @@ pub(crate) fn check_inlets(
         ));
     }
     for (k, s) in inlets.iter().enumerate() {
-        let field = format!("inlet {}", k + 1);
+        // Named only when there is something to say (no allocation on the normal path).
+        let field = || format!("inlet {}", k + 1);
         if s.flows.len() != db.len() {
             return Err(spec_error(
                 unit,
-                &field,
+                &field(),
                 format!(
                     "has {} flows, expected one per database species ({})",
                     s.flows.len(),
@@ -107,7 +108,7 @@ pub(crate) fn check_inlets(
         {
             return Err(spec_error(
                 unit,
-                &field,
+                &field(),
                 format!(
                     "flow of {} is {v} mol/s; flows must be finite and non-negative",
                     db.by_index(i).name
@@ -117,14 +118,14 @@ pub(crate) fn check_inlets(
         if !(s.temperature_k.is_finite() && s.temperature_k > 0.0) {
             return Err(spec_error(
                 unit,
-                &field,
+                &field(),
                 format!("temperature {} K must be positive", s.temperature_k),
             ));
         }
         if !(s.pressure_pa.is_finite() && s.pressure_pa > 0.0) {
             return Err(spec_error(
                 unit,
-                &field,
+                &field(),
                 format!("pressure {} Pa must be positive", s.pressure_pa),
             ));
         }
@@ -364,6 +365,11 @@ pub(crate) fn dew_point_k(key: &Key, flows: &[f64], pressure_pa: f64) -> Option<
         return None;
     }
     let p_w = flows[key.h2o] / total * pressure_pa;
+    // The range of the saturation line checked here rather than through the error of
+    // `saturation_temperature_k`, which would be built (and allocated) only to be dropped.
+    if !(water::SATURATION_MIN_PRESSURE_PA..=water::CRITICAL_PRESSURE_PA).contains(&p_w) {
+        return None;
+    }
     water::saturation_temperature_k(p_w).ok()
 }
 

@@ -13,7 +13,7 @@ use super::common::{
     check_inlets, check_pressure_drop, check_temperature, degc, dew_point_k, figure,
     outlet_pressure, require_vapour, spec_error, Key,
 };
-use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
 use super::{FigureKind, Stream, StreamPhase, UnitResult, Warning};
 use crate::error::{Result, ResultExt};
 use crate::thermo::{water, SpeciesDb};
@@ -69,6 +69,19 @@ impl Knockout {
 
     /// Cool and separate; outlets [gas, condensate].
     pub fn solve(&self, db: &SpeciesDb, inlets: &[&Stream]) -> Result<UnitResult> {
+        let mut out = UnitResult::default();
+        self.solve_into(db, inlets, &mut out)?;
+        Ok(out)
+    }
+
+    /// Cool and separate into `out` (its buffers reused: no heap allocation once they have
+    /// their size, but for the warning above the critical temperature).
+    pub fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        out: &mut UnitResult,
+    ) -> Result<()> {
         let name = &self.name;
         let w = self.key.h2o;
         check_inlets(db, name, "knockout", inlets, 1, Some(1))?;
@@ -88,11 +101,16 @@ impl Knockout {
         }
         check_temperature(db, name, "temperature", &inlet.flows, t)?;
         let p = outlet_pressure(name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
-        let mut gas = inlet.flows.clone();
-        let mut condensate = vec![0.0; db.len()];
+        out.reset(2, db.len());
+        out.equilibrium = None;
+        // Gas: the inlet with the water it can hold; condensate: the rest of the water.
+        out.set_outlet(0, &inlet.flows, t, p, StreamPhase::Vapour);
+        let condensate = &mut out.outlets[1];
+        condensate.temperature_k = t;
+        condensate.pressure_pa = p;
+        condensate.phase = StreamPhase::Liquid;
         let water_in = inlet.flows[w];
         let dry: f64 = inlet.flows.iter().sum::<f64>() - water_in;
-        let mut warnings = Vec::new();
         if t < TRIPLE_POINT_K {
             return Err(spec_error(
                 name,
@@ -106,12 +124,12 @@ impl Knockout {
             if y_sat < 1.0 {
                 let held = y_sat * dry / (1.0 - y_sat);
                 if water_in > held {
-                    gas[w] = held;
-                    condensate[w] = water_in - held;
+                    out.outlets[0].flows[w] = held;
+                    out.outlets[1].flows[w] = water_in - held;
                 }
             }
         } else if water_in > 0.0 {
-            warnings.push(
+            out.warnings.push(
                 Warning::new(
                     "no-condensation",
                     "at {value}, above the critical temperature of water ({limit}), nothing \
@@ -122,47 +140,33 @@ impl Knockout {
                 .for_unit(name.as_str()),
             );
         }
-        let gas = Stream::vapour(gas, t, p);
-        let condensate = Stream {
-            flows: condensate,
-            temperature_k: t,
-            pressure_pa: p,
-            phase: StreamPhase::Liquid,
-        };
         let h_in = inlet
             .enthalpy_w(db)
             .context(|| format!("unit '{name}', inlet enthalpy"))?;
+        let (gas, condensate) = (&out.outlets[0], &out.outlets[1]);
         let h_out = gas.enthalpy_w(db)? + condensate.enthalpy_w(db)?;
-        let mut figures = vec![
-            figure(
-                "condensate-flow",
-                "condensate",
-                condensate.flows[w],
-                FigureKind::MolarFlow,
-            ),
-            figure(
-                "gas-water",
-                "water in the gas outlet",
-                gas.mole_fraction(w),
-                FigureKind::Fraction,
-            ),
-        ];
+        out.duty_w = h_out - h_in;
+        out.figures.push(figure(
+            "condensate-flow",
+            "condensate",
+            condensate.flows[w],
+            FigureKind::MolarFlow,
+        ));
+        out.figures.push(figure(
+            "gas-water",
+            "water in the gas outlet",
+            gas.mole_fraction(w),
+            FigureKind::Fraction,
+        ));
         if let Some(dew) = dew_point_k(&self.key, &inlet.flows, inlet.pressure_pa) {
-            figures.push(figure(
+            out.figures.push(figure(
                 "inlet-dew-point",
                 "water dew point of the inlet",
                 dew,
                 FigureKind::Temperature,
             ));
         }
-        Ok(UnitResult {
-            outlets: vec![gas, condensate],
-            duty_w: h_out - h_in,
-            approaches: Vec::new(),
-            figures,
-            equilibrium: None,
-            warnings,
-        })
+        Ok(())
     }
 }
 
@@ -214,6 +218,17 @@ impl UnitKind for Knockout {
 
     fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
         Knockout::solve(self, db, inlets)
+    }
+
+    fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        _: Option<&[f64]>,
+        _: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        Knockout::solve_into(self, db, inlets, out)
     }
 }
 

@@ -17,11 +17,13 @@
 use super::common::{
     check_inlets, check_pressure_drop, figure, outlet_pressure, require_vapour, spec_error, Key,
 };
-use super::{FigureKind, Stream, UnitResult};
+use super::{FigureKind, Stream, StreamPhase, UnitResult};
 use crate::error::Result;
 use crate::thermo::SpeciesDb;
 
-use super::unit::{build, EntryValue, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
+use super::unit::{
+    build, EntryValue, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind,
+};
 
 /// Default weights (0..1) of how readily each impurity reaches the product when a purity is
 /// given (common practice: the order of adsorption strength He < Ar ~ N2 < CO < CH4 < CO2 <
@@ -159,6 +161,20 @@ impl Purifier {
 
     /// Purify; outlets [product, tail gas].
     pub fn solve(&self, db: &SpeciesDb, inlets: &[&Stream]) -> Result<UnitResult> {
+        let mut out = UnitResult::default();
+        self.solve_into(db, inlets, &mut UnitScratch::default(), &mut out)?;
+        Ok(out)
+    }
+
+    /// Purify into `out` (its buffers and `scratch` reused: no heap allocation once they have
+    /// their size); outlets [product, tail gas].
+    pub fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
         let name = &self.name;
         let h2 = self.key.h2;
         check_inlets(db, name, "purifier", inlets, 1, Some(1))?;
@@ -183,7 +199,9 @@ impl Purifier {
             return Err(spec_error(name, "inlet", "carries no hydrogen to purify"));
         }
         let h2_product = self.spec.hydrogen_recovery * h2_feed;
-        let mut product = vec![0.0; db.len()];
+        out.reset(2, db.len());
+        out.equilibrium = None;
+        let product = &mut out.outlets[0].flows;
         product[h2] = h2_product;
         match &self.mode {
             Mode::Purity(x, w) => {
@@ -202,7 +220,8 @@ impl Purifier {
                     ));
                 }
                 if wanted > 0.0 {
-                    let shares = weighted_shares(&inlet.flows, w, wanted).ok_or_else(|| {
+                    let shares = &mut scratch.flows[0];
+                    if !weighted_shares(&inlet.flows, w, wanted, shares) {
                         let reachable: f64 = inlet
                             .flows
                             .iter()
@@ -210,7 +229,7 @@ impl Purifier {
                             .filter(|(_, w)| **w > 0.0)
                             .map(|(n, _)| n)
                             .sum();
-                        spec_error(
+                        return Err(spec_error(
                             name,
                             "purity",
                             format!(
@@ -219,8 +238,8 @@ impl Purifier {
                                  amount to {reachable:.6} mol/s in the feed; raise the purity or \
                                  give `impurity-weights` for the others"
                             ),
-                        )
-                    })?;
+                        ));
+                    }
                     for (i, f) in shares.iter().enumerate() {
                         if i != h2 {
                             product[i] = inlet.flows[i] * f;
@@ -236,15 +255,19 @@ impl Purifier {
                 }
             }
         }
-        let tail: Vec<f64> = inlet
-            .flows
-            .iter()
-            .zip(&product)
-            .map(|(n, p)| (n - p).max(0.0))
-            .collect();
-        let product = Stream::vapour(product, inlet.temperature_k, p_product);
-        let tail = Stream::vapour(tail, inlet.temperature_k, p_tail);
-        let figures = vec![
+        let (first, second) = out.outlets.split_at_mut(1);
+        let (product, tail) = (&mut first[0], &mut second[0]);
+        for ((t, n), p) in tail.flows.iter_mut().zip(&inlet.flows).zip(&product.flows) {
+            *t = (n - p).max(0.0);
+        }
+        product.temperature_k = inlet.temperature_k;
+        product.pressure_pa = p_product;
+        product.phase = StreamPhase::Vapour;
+        tail.temperature_k = inlet.temperature_k;
+        tail.pressure_pa = p_tail;
+        tail.phase = StreamPhase::Vapour;
+        let (product, tail) = (&out.outlets[0], &out.outlets[1]);
+        out.figures.extend([
             figure(
                 "hydrogen-recovery",
                 "hydrogen recovery",
@@ -281,15 +304,8 @@ impl Purifier {
                 tail.mole_fraction(h2),
                 FigureKind::Fraction,
             ),
-        ];
-        Ok(UnitResult {
-            outlets: vec![product, tail],
-            duty_w: 0.0,
-            approaches: Vec::new(),
-            figures,
-            equilibrium: None,
-            warnings: Vec::new(),
-        })
+        ]);
+        Ok(())
     }
 }
 
@@ -327,10 +343,11 @@ fn weights(db: &SpeciesDb, unit: &str, h2: usize, overrides: &[(String, f64)]) -
 }
 
 /// The fraction of each species' feed that reaches the product, min(1, w_i s), with s such that
-/// the product takes `wanted` mol/s of impurities in all; `None` when even every weighted
-/// impurity in full falls short. The species that reach their whole feed amount are fixed one
-/// round at a time, so at most one round per species.
-fn weighted_shares(flows: &[f64], weights: &[f64], wanted: f64) -> Option<Vec<f64>> {
+/// the product takes `wanted` mol/s of impurities in all, written into `shares` (its buffer
+/// reused); false when even every weighted impurity in full falls short. The species that reach
+/// their whole feed amount are fixed one round at a time, so at most one round per species;
+/// while the rounds go on, `shares` holds 1 for the species so fixed and 0 for the others.
+fn weighted_shares(flows: &[f64], weights: &[f64], wanted: f64, shares: &mut Vec<f64>) -> bool {
     let reachable: f64 = flows
         .iter()
         .zip(weights)
@@ -338,21 +355,23 @@ fn weighted_shares(flows: &[f64], weights: &[f64], wanted: f64) -> Option<Vec<f6
         .map(|(n, _)| n)
         .sum();
     if wanted > reachable * (1.0 + 1e-12) {
-        return None;
+        return false;
     }
-    let mut full = vec![false; flows.len()];
+    shares.clear();
+    shares.resize(flows.len(), 0.0);
+    let full = |share: &f64| *share == 1.0;
     loop {
         let taken: f64 = flows
             .iter()
-            .zip(&full)
-            .filter(|(_, f)| **f)
+            .zip(shares.iter())
+            .filter(|(_, f)| full(f))
             .map(|(n, _)| n)
             .sum();
         let weighted: f64 = flows
             .iter()
             .zip(weights)
-            .zip(&full)
-            .filter(|(_, f)| !**f)
+            .zip(shares.iter())
+            .filter(|(_, f)| !full(f))
             .map(|((n, w), _)| n * w)
             .sum();
         let s = if weighted > 0.0 {
@@ -361,23 +380,19 @@ fn weighted_shares(flows: &[f64], weights: &[f64], wanted: f64) -> Option<Vec<f6
             0.0
         };
         let mut changed = false;
-        for i in 0..flows.len() {
-            if !full[i] && weights[i] > 0.0 && weights[i] * s >= 1.0 {
-                full[i] = true;
+        for (share, w) in shares.iter_mut().zip(weights) {
+            if !full(share) && *w > 0.0 && w * s >= 1.0 {
+                *share = 1.0;
                 changed = true;
             }
         }
         if !changed {
-            let shares = (0..flows.len())
-                .map(|i| {
-                    if full[i] {
-                        1.0
-                    } else {
-                        (weights[i] * s).min(1.0)
-                    }
-                })
-                .collect();
-            return Some(shares);
+            for (share, w) in shares.iter_mut().zip(weights) {
+                if !full(share) {
+                    *share = (w * s).min(1.0);
+                }
+            }
+            return true;
         }
     }
 }
@@ -535,6 +550,17 @@ impl UnitKind for Purifier {
 
     fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
         Purifier::solve(self, db, inlets)
+    }
+
+    fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        _: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        Purifier::solve_into(self, db, inlets, scratch, out)
     }
 }
 

@@ -2,7 +2,7 @@
 //! pressure drop), phase and composition, by fraction or by total molar flow per outlet.
 
 use super::common::{check_inlets, check_pressure_drop, outlet_pressure, spec_error};
-use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
 use super::{Stream, UnitResult};
 use crate::error::Result;
 use crate::thermo::SpeciesDb;
@@ -115,14 +115,15 @@ impl Splitter {
         }
     }
 
-    /// Fractions to each outlet for an inlet of `total` mol/s (they sum to one to rounding).
-    fn fractions(&self, total: f64) -> Result<Vec<f64>> {
+    /// Fractions to each outlet for an inlet of `total` mol/s (they sum to one to rounding),
+    /// written into `f` (its buffer reused).
+    fn fractions_into(&self, total: f64, f: &mut Vec<f64>) -> Result<()> {
         let name = &self.name;
-        // `None`: the one outlet that takes the rest.
-        let (given, given_sum): (Vec<Option<f64>>, f64) = match &self.spec.split {
+        // Each entry's given fraction (`None`: the one outlet that takes the rest), and their sum.
+        let (given, scale, given_sum) = match &self.spec.split {
             Split::Fractions(v) => {
                 let sum: f64 = v.iter().flatten().sum();
-                (v.clone(), sum)
+                (v, None, sum)
             }
             Split::Flows(v) => {
                 let sum: f64 = v.iter().flatten().sum();
@@ -140,60 +141,78 @@ impl Splitter {
                 }
                 if total <= 0.0 {
                     let n = v.len() as f64;
-                    return Ok(vec![1.0 / n; v.len()]);
+                    f.clear();
+                    f.resize(v.len(), 1.0 / n);
+                    return Ok(());
                 }
-                (
-                    v.iter().map(|e| e.map(|x| x / total)).collect(),
-                    sum / total,
-                )
+                (v, Some(total), sum / total)
             }
         };
         let rest = (1.0 - given_sum).max(0.0);
-        let mut f: Vec<f64> = given.iter().map(|x| x.unwrap_or(rest)).collect();
+        f.clear();
+        f.extend(given.iter().map(|e| match (e, scale) {
+            (Some(x), Some(total)) => x / total,
+            (Some(x), None) => *x,
+            (None, _) => rest,
+        }));
         let sum: f64 = f.iter().sum();
         if sum > 0.0 {
             for x in f.iter_mut() {
                 *x /= sum;
             }
         }
-        Ok(f)
+        Ok(())
     }
 
     /// Split the inlet.
     pub fn solve(&self, db: &SpeciesDb, inlets: &[&Stream]) -> Result<UnitResult> {
+        let mut out = UnitResult::default();
+        self.solve_into(db, inlets, &mut UnitScratch::default(), &mut out)?;
+        Ok(out)
+    }
+
+    /// Split the inlet into `out` (its buffers and `scratch` reused: no heap allocation once
+    /// they have their size).
+    pub fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
         check_inlets(db, &self.name, "splitter", inlets, 1, Some(1))?;
         let inlet = inlets[0];
         let p = outlet_pressure(&self.name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
-        let f = self.fractions(inlet.total())?;
+        let f = &mut scratch.flows[0];
+        self.fractions_into(inlet.total(), f)?;
         let last = f.len() - 1;
-        let mut outlets: Vec<Stream> = Vec::with_capacity(f.len());
-        let mut remaining = inlet.flows.clone();
-        for (k, x) in f.iter().enumerate() {
-            let flows = if k == last {
-                // The last outlet takes what is left, so the balance closes to rounding.
-                remaining.iter().map(|v| v.max(0.0)).collect()
-            } else {
-                let part: Vec<f64> = inlet.flows.iter().map(|n| n * x).collect();
-                for (r, v) in remaining.iter_mut().zip(&part) {
-                    *r -= v;
-                }
-                part
-            };
-            outlets.push(Stream {
-                flows,
-                temperature_k: inlet.temperature_k,
-                pressure_pa: p,
-                phase: inlet.phase,
-            });
+        out.reset(f.len(), db.len());
+        out.equilibrium = None;
+        // The last outlet starts as the whole inlet and gives up each part in turn, so that it
+        // takes what is left and the balance closes to rounding.
+        let (parts, rest) = out.outlets.split_at_mut(last);
+        let remaining = &mut rest[0].flows;
+        remaining.copy_from_slice(&inlet.flows);
+        for (outlet, x) in parts.iter_mut().zip(f.iter()) {
+            for ((o, n), r) in outlet
+                .flows
+                .iter_mut()
+                .zip(&inlet.flows)
+                .zip(remaining.iter_mut())
+            {
+                *o = n * x;
+                *r -= *o;
+            }
         }
-        Ok(UnitResult {
-            outlets,
-            duty_w: 0.0,
-            approaches: Vec::new(),
-            figures: Vec::new(),
-            equilibrium: None,
-            warnings: Vec::new(),
-        })
+        for r in remaining.iter_mut() {
+            *r = r.max(0.0);
+        }
+        for outlet in &mut out.outlets {
+            outlet.temperature_k = inlet.temperature_k;
+            outlet.pressure_pa = p;
+            outlet.phase = inlet.phase;
+        }
+        Ok(())
     }
 }
 
@@ -291,6 +310,17 @@ impl UnitKind for Splitter {
 
     fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
         Splitter::solve(self, db, inlets)
+    }
+
+    fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        _: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        Splitter::solve_into(self, db, inlets, scratch, out)
     }
 }
 

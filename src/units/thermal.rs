@@ -19,7 +19,7 @@ use super::common::{
     outlet_pressure, spec_error, temperature_at_enthalpy, Key,
 };
 use super::stream::{check_phases, water_at_enthalpy, water_phase, WaterState};
-use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitType, ValueKind};
+use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
 use super::{FigureKind, Stream, StreamPhase, UnitResult};
 use crate::error::{Error, Result, ResultExt};
 use crate::thermo::{mixture, water, SpeciesDb};
@@ -156,6 +156,19 @@ impl Thermal {
 
     /// Heat or cool the inlet.
     pub fn solve(&self, db: &SpeciesDb, inlets: &[&Stream]) -> Result<UnitResult> {
+        let mut out = UnitResult::default();
+        self.solve_into(db, inlets, &mut out)?;
+        Ok(out)
+    }
+
+    /// Heat or cool the inlet into `out` (its buffers reused: no heap allocation once they have
+    /// their size).
+    pub fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        out: &mut UnitResult,
+    ) -> Result<()> {
         let name = &self.name;
         check_inlets(db, name, self.kind.name(), inlets, 1, Some(1))?;
         let w = self.key.h2o;
@@ -166,7 +179,7 @@ impl Thermal {
             .enthalpy_w(db)
             .context(|| format!("unit '{name}', inlet enthalpy"))?;
         let pure_water = inlet.is_pure_water(w);
-        let outlet = match self.spec.target {
+        let (t_out, phase) = match self.spec.target {
             ThermalTarget::OutletTemperature(t) => {
                 let t_in = inlet.temperature_k;
                 let wrong = match self.kind {
@@ -200,12 +213,7 @@ impl Thermal {
                 } else {
                     inlet.phase
                 };
-                Stream {
-                    flows: inlet.flows.clone(),
-                    temperature_k: t,
-                    pressure_pa: p,
-                    phase,
-                }
+                (t, phase)
             }
             ThermalTarget::Duty(q) => {
                 let target = h_in + q;
@@ -220,8 +228,8 @@ impl Thermal {
                         inlet.temperature_k,
                     )?;
                     match state {
-                        WaterState::Liquid(t) => Stream::liquid(inlet.flows.clone(), t, p),
-                        WaterState::Vapour(t) => Stream::vapour(inlet.flows.clone(), t, p),
+                        WaterState::Liquid(t) => (t, StreamPhase::Liquid),
+                        WaterState::Vapour(t) => (t, StreamPhase::Vapour),
                         WaterState::Wet {
                             temperature_k,
                             vapour_fraction,
@@ -266,36 +274,35 @@ impl Thermal {
                     } else {
                         inlet.phase
                     };
-                    Stream {
-                        flows: inlet.flows.clone(),
-                        temperature_k: t,
-                        pressure_pa: p,
-                        phase,
-                    }
+                    (t, phase)
                 }
             }
         };
-        let t_out = outlet.temperature_k;
-        let duty = match self.spec.target {
+        out.reset(1, db.len());
+        out.equilibrium = None;
+        out.set_outlet(0, &inlet.flows, t_out, p, phase);
+        let outlet = &out.outlets[0];
+        out.duty_w = match self.spec.target {
             ThermalTarget::OutletTemperature(_) => outlet.enthalpy_w(db)? - h_in,
             ThermalTarget::Duty(q) => q,
         };
-        let mut figures = vec![figure(
+        out.figures.push(figure(
             "temperature-change",
             "temperature change",
             t_out - inlet.temperature_k,
             FigureKind::TemperatureDifference,
-        )];
-        if pure_water && outlet.phase != inlet.phase {
-            let (key, label) = match outlet.phase {
+        ));
+        if pure_water && phase != inlet.phase {
+            let (key, label) = match phase {
                 StreamPhase::Vapour => ("vaporised-water", "liquid water vaporised"),
                 StreamPhase::Liquid => ("condensed-water", "steam condensed"),
             };
-            figures.push(figure(key, label, inlet.flows[w], FigureKind::MolarFlow));
+            out.figures
+                .push(figure(key, label, inlet.flows[w], FigureKind::MolarFlow));
         }
-        if outlet.phase == StreamPhase::Liquid && pure_water {
+        if phase == StreamPhase::Liquid && pure_water {
             if let Ok(t_s) = water::saturation_temperature_k(p) {
-                figures.push(figure(
+                out.figures.push(figure(
                     "outlet-subcooling",
                     "outlet temperature below the saturation temperature",
                     t_s - t_out,
@@ -303,7 +310,7 @@ impl Thermal {
                 ));
             }
         } else if let Some(dew) = dew_point_k(&self.key, &outlet.flows, p) {
-            figures.push(figure(
+            out.figures.push(figure(
                 "outlet-dew-point-margin",
                 "outlet above water dew point",
                 t_out - dew,
@@ -313,15 +320,7 @@ impl Thermal {
                 return Err(self.below_dew_point("outlet-temperature", Some(t_out), dew, p));
             }
         }
-        let warnings = Vec::new();
-        Ok(UnitResult {
-            outlets: vec![outlet],
-            duty_w: duty,
-            approaches: Vec::new(),
-            figures,
-            equilibrium: None,
-            warnings,
-        })
+        Ok(())
     }
 }
 
@@ -436,6 +435,17 @@ impl UnitKind for Heater {
     fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
         self.0.solve(db, inlets)
     }
+
+    fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        _: Option<&[f64]>,
+        _: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        self.0.solve_into(db, inlets, out)
+    }
 }
 
 impl UnitKind for Cooler {
@@ -455,6 +465,17 @@ impl UnitKind for Cooler {
 
     fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
         self.0.solve(db, inlets)
+    }
+
+    fn solve_into(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        _: Option<&[f64]>,
+        _: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        self.0.solve_into(db, inlets, out)
     }
 }
 
