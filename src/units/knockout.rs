@@ -216,10 +216,6 @@ impl UnitKind for Knockout {
         &self.spec
     }
 
-    fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
-        Knockout::solve(self, db, inlets)
-    }
-
     fn solve_into(
         &self,
         db: &SpeciesDb,

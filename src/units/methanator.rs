@@ -241,15 +241,6 @@ impl UnitKind for Methanator {
         &self.spec
     }
 
-    fn solve(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-    ) -> Result<UnitResult> {
-        Methanator::solve(self, db, inlets, guess)
-    }
-
     fn solve_into(
         &self,
         db: &SpeciesDb,

@@ -223,10 +223,6 @@ impl UnitKind for Mixer {
         &self.spec
     }
 
-    fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
-        Mixer::solve(self, db, inlets)
-    }
-
     fn solve_into(
         &self,
         db: &SpeciesDb,

@@ -234,15 +234,6 @@ impl UnitKind for Prereformer {
         &self.spec
     }
 
-    fn solve(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-    ) -> Result<UnitResult> {
-        Prereformer::solve(self, db, inlets, guess)
-    }
-
     fn solve_into(
         &self,
         db: &SpeciesDb,

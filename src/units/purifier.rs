@@ -548,10 +548,6 @@ impl UnitKind for Purifier {
         &self.spec
     }
 
-    fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
-        Purifier::solve(self, db, inlets)
-    }
-
     fn solve_into(
         &self,
         db: &SpeciesDb,

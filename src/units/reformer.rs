@@ -260,13 +260,15 @@ impl UnitKind for Reformer {
         &self.spec
     }
 
-    fn solve(
+    fn solve_into(
         &self,
         db: &SpeciesDb,
         inlets: &[&Stream],
         guess: Option<&[f64]>,
-    ) -> Result<UnitResult> {
-        Reformer::solve(self, db, inlets, guess)
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        Reformer::solve_into(self, db, inlets, guess, scratch, out)
     }
 }
 

@@ -388,15 +388,6 @@ impl UnitKind for Shift {
         &self.spec
     }
 
-    fn solve(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-    ) -> Result<UnitResult> {
-        Shift::solve(self, db, inlets, guess)
-    }
-
     fn solve_into(
         &self,
         db: &SpeciesDb,

@@ -308,10 +308,6 @@ impl UnitKind for Splitter {
         &self.spec
     }
 
-    fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
-        Splitter::solve(self, db, inlets)
-    }
-
     fn solve_into(
         &self,
         db: &SpeciesDb,

@@ -432,10 +432,6 @@ impl UnitKind for Heater {
         self.0.spec()
     }
 
-    fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
-        self.0.solve(db, inlets)
-    }
-
     fn solve_into(
         &self,
         db: &SpeciesDb,
@@ -461,10 +457,6 @@ impl UnitKind for Cooler {
 
     fn spec(&self) -> &ThermalSpec {
         self.0.spec()
-    }
-
-    fn solve(&self, db: &SpeciesDb, inlets: &[&Stream], _: Option<&[f64]>) -> Result<UnitResult> {
-        self.0.solve(db, inlets)
     }
 
     fn solve_into(

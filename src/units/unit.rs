@@ -564,27 +564,28 @@ pub trait UnitKind: Send + Sync + fmt::Debug + Sized + 'static {
     /// The specification it was built from.
     fn spec(&self) -> &Self::Spec;
 
-    /// Solve for these inlets; `guess`: the equilibrium extents of a previous solve of this
-    /// unit (ignored by units without an equilibrium stage).
-    fn solve(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-    ) -> Result<UnitResult>;
-
-    /// Solve into `out`, reusing its buffers and `scratch` (a unit that does so makes no heap
-    /// allocation once warm); by default a new result is made and moved in.
+    /// Solve for these inlets into `out`, reusing its buffers and the work memory of `scratch`
+    /// (no heap allocation once warm, errors and warnings aside); `guess`: the equilibrium
+    /// extents of a previous solve of this unit (ignored by units without an equilibrium stage).
     fn solve_into(
         &self,
         db: &SpeciesDb,
         inlets: &[&Stream],
         guess: Option<&[f64]>,
-        _scratch: &mut UnitScratch,
+        scratch: &mut UnitScratch,
         out: &mut UnitResult,
-    ) -> Result<()> {
-        *out = self.solve(db, inlets, guess)?;
-        Ok(())
+    ) -> Result<()>;
+
+    /// Solve into a new result.
+    fn solve(
+        &self,
+        db: &SpeciesDb,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+    ) -> Result<UnitResult> {
+        let mut out = UnitResult::default();
+        self.solve_into(db, inlets, guess, &mut UnitScratch::default(), &mut out)?;
+        Ok(out)
     }
 }
 
