@@ -182,7 +182,7 @@ pub const NEAR_SATURATION_K: f64 = 1.0;
 /// A warning for a liquid-water feed within [`NEAR_SATURATION_K`] below its saturation
 /// temperature (taken as liquid; saturated steam needs T >= T_s(P)).
 pub fn near_saturation_warning(db: &SpeciesDb, feed: &str, s: &Stream) -> Option<Warning> {
-    let w = db.index_of("H2O")?;
+    let w = db.water()?;
     if s.phase != crate::units::StreamPhase::Liquid || !s.is_pure_water(w) {
         return None;
     }
@@ -203,7 +203,7 @@ pub fn near_saturation_warning(db: &SpeciesDb, feed: &str, s: &Stream) -> Option
 /// A pure-water feed takes its phase from the saturation line; a gas mixture below its water
 /// dew point is refused.
 fn with_phase(db: &SpeciesDb, field: &str, mut stream: Stream) -> Result<Stream> {
-    let Some(w) = db.index_of("H2O") else {
+    let Some(w) = db.water() else {
         return Ok(stream);
     };
     let (t, p) = (stream.temperature_k, stream.pressure_pa);

@@ -22,22 +22,33 @@ pub const ELEMENT_BALANCE_TOLERANCE: f64 = 1e-9;
 /// Largest relative energy-balance error a solved flowsheet may have.
 pub const ENERGY_BALANCE_TOLERANCE: f64 = 1e-6;
 
-/// The atoms of each element in each database species, built once per flowsheet so that the
+/// The atoms of each database species by element index, built once per flowsheet so that the
 /// element balance of a solve reads numbers by index.
 #[derive(Debug, Clone)]
 pub(crate) struct ElementTable {
     /// Element symbols, sorted.
     names: Vec<String>,
-    /// For each element: atoms per molecule of each database species.
-    atoms: Vec<Vec<f64>>,
+    /// For each database species: (element index, atoms per molecule).
+    atoms: Vec<Vec<(usize, f64)>>,
 }
+
+/// Most elements the balance check keeps on the stack.
+const MAX_ELEMENTS: usize = 32;
 
 impl ElementTable {
     pub(crate) fn new(db: &SpeciesDb) -> ElementTable {
         let names = mixture::elements(db);
-        let atoms = names
+        let atoms = db
+            .all()
             .iter()
-            .map(|e| db.all().iter().map(|s| s.atoms(e)).collect())
+            .map(|s| {
+                names
+                    .iter()
+                    .enumerate()
+                    .map(|(e, name)| (e, s.atoms(name)))
+                    .filter(|(_, a)| *a != 0.0)
+                    .collect()
+            })
             .collect();
         ElementTable { names, atoms }
     }
@@ -275,7 +286,7 @@ pub(crate) fn solve(
 /// the pressures for rounding). Otherwise it would be two phases, which a stream does not carry:
 /// an error naming the stream and the unit, never a quiet label.
 fn check_phase(db: &SpeciesDb, unit: &str, name: &str, s: &Stream) -> Result<()> {
-    let Some(w) = db.index_of("H2O") else {
+    let Some(w) = db.water() else {
         return Ok(());
     };
     let (t, p, total) = (s.temperature_k, s.pressure_pa, s.total());
@@ -364,28 +375,42 @@ fn set_entry(list: &mut Vec<(String, f64)>, i: usize, unit: &str, value: f64) {
 /// Largest relative element-balance error, products against feeds; an error above tolerance.
 /// Feeds are the streams a feed makes; products those no unit uses (a feed may be both).
 fn element_balance(table: &ElementTable, streams: &[SolvedStream]) -> Result<f64> {
-    let amount = |e: usize, feed: bool| -> f64 {
-        streams
-            .iter()
-            .filter(|s| match feed {
-                true => s.source == StreamSource::Feed,
-                false => s.destination.is_none(),
-            })
-            .map(|s| {
-                s.stream
-                    .flows
-                    .iter()
-                    .zip(&table.atoms[e])
-                    .map(|(n, a)| n * a)
-                    .sum::<f64>()
-            })
-            .sum()
-    };
-    let all_atoms: f64 = (0..table.names.len()).map(|e| amount(e, true)).sum();
+    let n_elements = table.names.len();
+    if n_elements > MAX_ELEMENTS {
+        return Err(Error::Flowsheet {
+            reason: format!(
+                "the species data hold {n_elements} elements; the balance check takes at most \
+                 {MAX_ELEMENTS}"
+            ),
+        });
+    }
+    let mut fed = [0.0f64; MAX_ELEMENTS];
+    let mut made = [0.0f64; MAX_ELEMENTS];
+    for s in streams {
+        let is_feed = s.source == StreamSource::Feed;
+        let is_product = s.destination.is_none();
+        if !is_feed && !is_product {
+            continue;
+        }
+        for (n, atoms) in s.stream.flows.iter().zip(&table.atoms) {
+            if *n == 0.0 {
+                continue;
+            }
+            for &(e, a) in atoms {
+                if is_feed {
+                    fed[e] += n * a;
+                }
+                if is_product {
+                    made[e] += n * a;
+                }
+            }
+        }
+    }
+    let all_atoms: f64 = fed[..n_elements].iter().sum();
     let mut worst = 0.0f64;
     let mut worst_element = 0;
-    for e in 0..table.names.len() {
-        let (fed, made) = (amount(e, true), amount(e, false));
+    for e in 0..n_elements {
+        let (fed, made) = (fed[e], made[e]);
         let scale = fed.max(1e-12 * all_atoms).max(f64::MIN_POSITIVE);
         let r = (made - fed).abs() / scale;
         if !(r <= worst) {

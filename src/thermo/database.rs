@@ -88,6 +88,8 @@ struct Nasa7Model {
 pub struct SpeciesDb {
     species: Vec<Species>,
     index: HashMap<String, usize>,
+    /// Index of H2O, looked up on every solve (kept here so that no hash is computed there).
+    water: Option<usize>,
 }
 
 impl SpeciesDb {
@@ -96,6 +98,7 @@ impl SpeciesDb {
         let mut db = SpeciesDb {
             species: Vec::new(),
             index: HashMap::new(),
+            water: None,
         };
         db.add_yaml("<embedded data/species.yaml>", EMBEDDED_SPECIES_YAML)?;
         Ok(db)
@@ -141,6 +144,9 @@ impl SpeciesDb {
             added.push(species);
         }
         for species in added {
+            if species.name == "H2O" {
+                self.water = Some(self.species.len());
+            }
             self.index.insert(species.name.clone(), self.species.len());
             self.species.push(species);
         }
@@ -165,6 +171,11 @@ impl SpeciesDb {
     /// Index of a species by name.
     pub fn index_of(&self, name: &str) -> Option<usize> {
         self.index.get(name).copied()
+    }
+
+    /// The index of water (H2O), where the database has it.
+    pub fn water(&self) -> Option<usize> {
+        self.water
     }
 
     /// A species by index.

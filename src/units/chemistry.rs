@@ -85,15 +85,14 @@ impl HigherHydrocarbons {
 pub(crate) fn unconverted_carbon_warnings(
     db: &SpeciesDb,
     unit: &str,
+    key: &Key,
     flows: &[f64],
     converts: impl Fn(usize) -> bool,
     warnings: &mut Vec<Warning>,
 ) {
-    for (i, n) in flows.iter().enumerate() {
-        let s = db.by_index(i);
-        let carbon = s.phase == crate::thermo::Phase::Gas && s.atoms("C") > 0.0;
-        let passive = matches!(s.name.as_str(), "CH4" | "CO" | "CO2");
-        if *n > 0.0 && carbon && !passive && !converts(i) {
+    for &i in &key.other_carbon {
+        let (s, n) = (db.by_index(i), &flows[i]);
+        if *n > 0.0 && !converts(i) {
             warnings.push(
                 Warning::new(
                     "unconverted-carbon",

@@ -22,6 +22,8 @@ pub(crate) struct Key {
     /// Species holding organic carbon (every gas with carbon other than CO and CO2):
     /// (index, carbon atoms).
     pub organic: Vec<(usize, f64)>,
+    /// Carbon-bearing gases other than CH4, CO and CO2 (what a reformer may have to convert).
+    pub other_carbon: Vec<usize>,
 }
 
 impl Key {
@@ -39,6 +41,17 @@ impl Key {
                 .enumerate()
                 .map(|(i, s)| (i, organic_carbon_atoms(s)))
                 .filter(|(_, c)| *c > 0.0)
+                .collect(),
+            other_carbon: db
+                .all()
+                .iter()
+                .enumerate()
+                .filter(|(_, s)| {
+                    s.phase == Phase::Gas
+                        && s.atoms("C") > 0.0
+                        && !matches!(s.name.as_str(), "CH4" | "CO" | "CO2")
+                })
+                .map(|(i, _)| i)
                 .collect(),
         })
     }

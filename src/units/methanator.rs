@@ -174,7 +174,7 @@ impl Methanator {
             rule,
             FigureKind::TemperatureDifference,
         ));
-        unconverted_carbon_warnings(db, name, &inlet.flows, |_| false, warnings);
+        unconverted_carbon_warnings(db, name, key, &inlet.flows, |_| false, warnings);
         frozen_warnings(name, &self.stage, stage, warnings);
         if rise > LARGE_RISE_K {
             warnings.push(

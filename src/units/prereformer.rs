@@ -176,6 +176,7 @@ impl Prereformer {
         unconverted_carbon_warnings(
             db,
             name,
+            key,
             &inlet.flows,
             |i| self.higher.converts(i),
             warnings,

@@ -188,6 +188,7 @@ impl Reformer {
         unconverted_carbon_warnings(
             db,
             name,
+            key,
             &inlet.flows,
             |i| self.higher.converts(i),
             warnings,

@@ -227,7 +227,7 @@ impl Shift {
                 FigureKind::TemperatureDifference,
             ));
         }
-        unconverted_carbon_warnings(db, name, &inlet.flows, |_| false, warnings);
+        unconverted_carbon_warnings(db, name, key, &inlet.flows, |_| false, warnings);
         frozen_warnings(name, &self.stage, stage, warnings);
         let catalyst = match self.spec.catalyst {
             Some(c) => c,

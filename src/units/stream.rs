@@ -89,7 +89,7 @@ impl Stream {
 
     /// Mole fraction on a dry basis (water left out); zero when nothing but water flows.
     pub fn dry_mole_fraction(&self, db: &SpeciesDb, species: usize) -> f64 {
-        let water = db.index_of("H2O");
+        let water = db.water();
         if Some(species) == water {
             return 0.0;
         }
@@ -107,7 +107,10 @@ impl Stream {
         match self.phase {
             StreamPhase::Vapour => Ok(ideal),
             StreamPhase::Liquid => {
-                let water = db.require("H2O", " (condensate)")?;
+                let water = match db.water() {
+                    Some(w) => w,
+                    None => db.require("H2O", " (condensate)")?,
+                };
                 let n = self.flows[water];
                 if n == 0.0 {
                     // No condensate: no latent heat (and no range check on the temperature).
