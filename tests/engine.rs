@@ -390,3 +390,41 @@ fn result_paths_read_the_solution_in_the_units_their_names_say() {
     let e = r.value(&db, "units.hts.dutty_kW").unwrap_err().to_string();
     assert!(e.contains("units.hts.duty_kW"), "{e}");
 }
+
+#[test]
+fn solver_options_come_from_the_file_and_are_checked() {
+    let db = db();
+    let text = std::fs::read_to_string(root().join("flowsheets/demo-train.yaml")).unwrap();
+    let with = |solver: &str| text.replacen("feeds:\n", &format!("{solver}\nfeeds:\n"), 1);
+    // Defaults where the file says nothing (documented in SolverOptions).
+    let fs = Flowsheet::from_yaml_str("d", &text, &db).unwrap();
+    assert_eq!(
+        *fs.solver_options(),
+        syntrain::equilibrium::SolverOptions::default()
+    );
+    // A tighter energy tolerance still solves, to the same answer within the old tolerance.
+    let tight =
+        Flowsheet::from_yaml_str("t", &with("solver: {energy-tolerance: 1e-12}"), &db).unwrap();
+    assert_eq!(tight.solver_options().energy_tolerance, 1e-12);
+    let (a, b) = (fs.solve(&db).unwrap(), tight.solve(&db).unwrap());
+    for (x, y) in a.streams.iter().zip(&b.streams) {
+        assert!((x.stream.temperature_k - y.stream.temperature_k).abs() < 1e-6);
+    }
+    // One Newton step is not enough: the solve says how it stopped, never a quiet answer.
+    let starved =
+        Flowsheet::from_yaml_str("s", &with("solver: {extent-iteration-limit: 1}"), &db).unwrap();
+    let e = format!("{:?}", starved.solve(&db).unwrap_err());
+    assert!(e.contains("converge") || e.contains("iteration"), "{e}");
+    // Impossible values and unknown keys are refused with their position.
+    let e = Flowsheet::from_yaml_str("n", &with("solver: {energy-tolerance: -1}"), &db)
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("n:") && e.contains("positive"), "{e}");
+    let e = Flowsheet::from_yaml_str("u", &with("solver: {energy-tolerence: 1e-9}"), &db)
+        .unwrap_err()
+        .to_string();
+    assert!(
+        e.contains("energy-tolerence") && e.contains("energy-tolerance"),
+        "{e}"
+    );
+}

@@ -31,6 +31,7 @@ pub use result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Summar
 pub use solve::{Workspace, ELEMENT_BALANCE_TOLERANCE, ENERGY_BALANCE_TOLERANCE};
 pub use spec::FlowsheetUnit;
 
+use crate::equilibrium::SolverOptions;
 use crate::error::{Error, Result};
 use crate::thermo::SpeciesDb;
 use crate::units::unit::{Param, ParamInfo, ParamTable};
@@ -55,6 +56,8 @@ pub struct Flowsheet {
     /// streams of a result (feeds first, then unit outlets in solve order).
     layout: Vec<UnitIo>,
     elements: solve::ElementTable,
+    /// Tolerances and iteration limits of the equilibrium stages (`solver:`).
+    options: SolverOptions,
 }
 
 /// Where a unit's inlets and outlets sit among the streams of a result.
@@ -179,6 +182,7 @@ impl Flowsheet {
             defaults,
             layout,
             elements: solve::ElementTable::new(db),
+            options: model.solver,
         })
     }
 
@@ -241,6 +245,11 @@ impl Flowsheet {
                 ),
             }
         })
+    }
+
+    /// The solver options of the file (`solver:`; defaults where it gives none).
+    pub fn solver_options(&self) -> &SolverOptions {
+        &self.options
     }
 
     /// The title (the file's `title`, else its name).

@@ -198,6 +198,7 @@ pub(crate) fn solve_in<'w>(
             defaults,
         };
         let g = (!guess.is_empty()).then_some(guess.as_slice());
+        scratch[k].options = fs.options;
         let outcome = with_inlets(before, &io.inlets, |inlets| {
             unit.unit
                 .solve_into(&cx, inlets, g, &mut scratch[k], &mut solved.result)

@@ -16,7 +16,10 @@ use serde::Deserialize;
 use serde_norway::Value;
 
 use super::checks::Checked;
-use super::values::{FlowRate, Fraction, Names, OrderedMap, Pressure, Temperature};
+use super::values::{
+    FlowRate, Fraction, Names, OrderedMap, Pressure, Temperature, TemperatureDifference,
+};
+use crate::equilibrium::SolverOptions;
 use crate::error::{Error, Position, Result};
 use crate::units::registry;
 use crate::units::unit::{Entry, EntryValue, UnitType};
@@ -26,6 +29,8 @@ use crate::units::unit::{Entry, EntryValue, UnitType};
 pub struct FileModel {
     /// Title of the flowsheet.
     pub title: Option<String>,
+    /// Tolerances and iteration limits of the equilibrium stages (`solver:`).
+    pub solver: SolverOptions,
     /// Feeds, in file order.
     pub feeds: OrderedMap<FeedModel>,
     /// Units, in file order.
@@ -183,7 +188,55 @@ fn yaml_error(origin: &str, err: &serde_norway::Error, previews: &[Preview]) -> 
     }
 }
 
-const FILE_KEYS: &[&str] = &["title", "feeds", "units"];
+const FILE_KEYS: &[&str] = &["title", "solver", "feeds", "units"];
+
+/// The `solver:` key: tolerances and iteration limits of the equilibrium stages, each optional
+/// (the defaults of [`SolverOptions`]).
+#[derive(Debug, Clone, Copy, Default, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct SolverModel {
+    /// Working residual of the extent Newton iteration (ln-space).
+    pub extent_tolerance: Option<f64>,
+    /// Largest residual a converged extent solve may report (ln-space).
+    pub extent_reported_tolerance: Option<f64>,
+    /// Newton iterations of one extent solve.
+    pub extent_iteration_limit: Option<usize>,
+    /// Energy residual of an adiabatic or fixed-duty stage, relative to n R T of its inlet.
+    pub energy_tolerance: Option<f64>,
+    /// Bracket length at which a temperature search stops.
+    pub temperature_step_tolerance: Option<TemperatureDifference>,
+    /// Equilibrium evaluations of one temperature search.
+    pub temperature_iteration_limit: Option<usize>,
+}
+
+impl SolverModel {
+    /// The options: the defaults with the values given; refused unless every tolerance is
+    /// positive and finite and every limit at least one.
+    pub fn options(&self) -> std::result::Result<SolverOptions, String> {
+        let d = SolverOptions::default();
+        let o = SolverOptions {
+            extent_tolerance: self.extent_tolerance.unwrap_or(d.extent_tolerance),
+            extent_reported_tolerance: self
+                .extent_reported_tolerance
+                .unwrap_or(d.extent_reported_tolerance),
+            extent_iteration_limit: self
+                .extent_iteration_limit
+                .unwrap_or(d.extent_iteration_limit),
+            energy_tolerance: self.energy_tolerance.unwrap_or(d.energy_tolerance),
+            temperature_step_tolerance_k: self
+                .temperature_step_tolerance
+                .map_or(d.temperature_step_tolerance_k, |t| t.0),
+            temperature_iteration_limit: self
+                .temperature_iteration_limit
+                .unwrap_or(d.temperature_iteration_limit),
+        };
+        if o.is_valid() {
+            Ok(o)
+        } else {
+            Err("every tolerance must be positive and finite and every limit at least 1".into())
+        }
+    }
+}
 
 struct FileSeed<'a> {
     previews: &'a [Preview],
@@ -201,15 +254,20 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
     type Value = FileModel;
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
-        f.write_str("a flowsheet with the keys title, feeds and units")
+        f.write_str("a flowsheet with the keys title, solver, feeds and units")
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> std::result::Result<FileModel, A::Error> {
         let mut title: Option<String> = None;
         let mut feeds: Option<OrderedMap<FeedModel>> = None;
         let mut units: Option<Vec<UnitModel>> = None;
+        let mut solver: Option<SolverOptions> = None;
         while let Some(key) = map.next_key::<String>()? {
             match key.as_str() {
+                "solver" if solver.is_none() => {
+                    let model: SolverModel = map.next_value()?;
+                    solver = Some(model.options().map_err(de::Error::custom)?);
+                }
                 "title" if title.is_none() => title = Some(map.next_value()?),
                 "feeds" if feeds.is_none() => {
                     let checked: OrderedMap<Checked<FeedModel>> = map.next_value()?;
@@ -222,7 +280,7 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
                         previews: self.previews,
                     })?)
                 }
-                "title" | "feeds" | "units" => {
+                "title" | "solver" | "feeds" | "units" => {
                     return Err(de::Error::custom(format!("duplicate key `{key}`")))
                 }
                 other => return Err(de::Error::unknown_field(other, FILE_KEYS)),
@@ -237,6 +295,7 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
         let units = units.ok_or_else(|| de::Error::missing_field("units"))?;
         Ok(FileModel {
             title,
+            solver: solver.unwrap_or_default(),
             feeds,
             units,
         })
