@@ -105,6 +105,20 @@ pub fn element_amount(db: &SpeciesDb, amounts: &[f64], element: &str) -> f64 {
         .sum()
 }
 
+/// Mole fraction of `species` on a dry basis (water, index `water`, left out): zero for water
+/// itself and when nothing but water flows. The one dry-basis rule of the crate.
+pub fn dry_mole_fraction(flows: &[f64], water: Option<usize>, species: usize) -> f64 {
+    if Some(species) == water {
+        return 0.0;
+    }
+    let dry = total(flows) - water.map_or(0.0, |w| flows[w]);
+    if dry > 0.0 {
+        flows[species] / dry
+    } else {
+        0.0
+    }
+}
+
 /// All element symbols present in the database.
 pub fn elements(db: &SpeciesDb) -> Vec<String> {
     let mut out: Vec<String> = Vec::new();

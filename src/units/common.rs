@@ -388,12 +388,7 @@ pub(crate) fn dew_point_k(key: &Key, flows: &[f64], pressure_pa: f64) -> Option<
 
 /// Mole fraction on a dry basis (water left out) of species `i`.
 pub(crate) fn dry_fraction(key: &Key, flows: &[f64], i: usize) -> f64 {
-    let dry: f64 = flows.iter().sum::<f64>() - flows[key.h2o];
-    if dry > 0.0 && i != key.h2o {
-        flows[i] / dry
-    } else {
-        0.0
-    }
+    crate::thermo::mixture::dry_mole_fraction(flows, Some(key.h2o), i)
 }
 
 /// Approach temperature of each of `allowed` reactions from a (name, K) list; unknown names,

@@ -89,16 +89,7 @@ impl Stream {
 
     /// Mole fraction on a dry basis (water left out); zero when nothing but water flows.
     pub fn dry_mole_fraction(&self, db: &SpeciesDb, species: usize) -> f64 {
-        let water = db.water();
-        if Some(species) == water {
-            return 0.0;
-        }
-        let dry = self.total() - water.map_or(0.0, |w| self.flows[w]);
-        if dry > 0.0 {
-            self.flows[species] / dry
-        } else {
-            0.0
-        }
+        mixture::dry_mole_fraction(&self.flows, db.water(), species)
     }
 
     /// Enthalpy flow, W, formation enthalpies included.
