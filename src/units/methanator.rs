@@ -50,9 +50,47 @@ pub struct Methanator {
     stage: EquilibriumStage,
 }
 
-impl Methanator {
+/// The `methanator` unit type.
+pub static TYPE: UnitType = UnitType {
+    name: "methanator",
+    summary: "Adiabatic methanator: the last CO and CO2 turned back to methane (reforming \
+              backward, shift either way) at equilibrium with their approach temperatures; the \
+              temperature rise is set beside the rule of thumb.",
+    inlets: Ports::exactly(1, "purified gas"),
+    outlets: Ports::exactly(1, "methanated gas"),
+    keys: &[
+    KeyDoc {
+        key: "pressure-drop",
+        value: ValueKind::PressureDifference,
+        default: Some("0 bar"),
+        meaning: "pressure lost across the unit",
+    },
+        KeyDoc {
+            key: "approach",
+            value: ValueKind::PerReaction(&METHANATOR_REACTIONS),
+            default: Some("0 K for each reaction"),
+            meaning: "approach temperature per reaction; a positive one leaves the outlet short of equilibrium (more CO and CO2)",
+        },
+    ],
+    example: "- name: methanator\n  type: methanator\n  from: methanator-feed\n  to: \
+              methanated-gas\n  approach: {reforming: 20 K}",
+    build: build::<Methanator>,
+};
+
+impl UnitKind for Methanator {
+    type Spec = MethanatorSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, MethanatorSpec>) -> Result<MethanatorSpec> {
+        let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
+        let approaches = b.approaches(&METHANATOR_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
+        Ok(MethanatorSpec {
+            pressure_drop_pa: drop,
+            approaches: named(&METHANATOR_REACTIONS, approaches),
+        })
+    }
+
     /// Check the spec and build the equilibrium stage.
-    pub fn new(db: &SpeciesDb, name: &str, spec: &MethanatorSpec) -> Result<Methanator> {
+    fn new(db: &SpeciesDb, name: &str, spec: &MethanatorSpec) -> Result<Methanator> {
         let approaches = resolve_approaches(name, &spec.approaches, &METHANATOR_REACTIONS)?;
         check_pressure_drop(name, spec.pressure_drop_pa)?;
         let stage = build_stage(
@@ -70,25 +108,12 @@ impl Methanator {
         })
     }
 
-    /// The spec.
-    pub fn spec(&self) -> &MethanatorSpec {
+    fn spec(&self) -> &MethanatorSpec {
         &self.spec
     }
 
-    /// Solve; `guess`: the stage extents of a previous solve (a warm start).
-    pub fn solve(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-    ) -> Result<UnitResult> {
-        let mut out = UnitResult::default();
-        self.solve_into(db, inlets, guess, &mut UnitScratch::default(), &mut out)?;
-        Ok(out)
-    }
-
     /// Solve into `out` with the work memory of `scratch` (no heap allocation once warm).
-    pub fn solve_into(
+    fn solve_into(
         &self,
         db: &SpeciesDb,
         inlets: &[&Stream],
@@ -191,65 +216,6 @@ impl Methanator {
         }
         stage_approaches(&METHANATOR_REACTIONS, &self.stage, approaches);
         Ok(())
-    }
-}
-
-/// The `methanator` unit type.
-pub static TYPE: UnitType = UnitType {
-    name: "methanator",
-    summary: "Adiabatic methanator: the last CO and CO2 turned back to methane (reforming \
-              backward, shift either way) at equilibrium with their approach temperatures; the \
-              temperature rise is set beside the rule of thumb.",
-    inlets: Ports::exactly(1, "purified gas"),
-    outlets: Ports::exactly(1, "methanated gas"),
-    keys: &[
-    KeyDoc {
-        key: "pressure-drop",
-        value: ValueKind::PressureDifference,
-        default: Some("0 bar"),
-        meaning: "pressure lost across the unit",
-    },
-        KeyDoc {
-            key: "approach",
-            value: ValueKind::PerReaction(&METHANATOR_REACTIONS),
-            default: Some("0 K for each reaction"),
-            meaning: "approach temperature per reaction; a positive one leaves the outlet short of equilibrium (more CO and CO2)",
-        },
-    ],
-    example: "- name: methanator\n  type: methanator\n  from: methanator-feed\n  to: \
-              methanated-gas\n  approach: {reforming: 20 K}",
-    build: build::<Methanator>,
-};
-
-impl UnitKind for Methanator {
-    type Spec = MethanatorSpec;
-
-    fn read(b: &mut UnitBuilder<'_, '_, MethanatorSpec>) -> Result<MethanatorSpec> {
-        let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
-        let approaches = b.approaches(&METHANATOR_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
-        Ok(MethanatorSpec {
-            pressure_drop_pa: drop,
-            approaches: named(&METHANATOR_REACTIONS, approaches),
-        })
-    }
-
-    fn new(db: &SpeciesDb, name: &str, spec: &MethanatorSpec) -> Result<Methanator> {
-        Methanator::new(db, name, spec)
-    }
-
-    fn spec(&self) -> &MethanatorSpec {
-        &self.spec
-    }
-
-    fn solve_into(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-        scratch: &mut UnitScratch,
-        out: &mut UnitResult,
-    ) -> Result<()> {
-        Methanator::solve_into(self, db, inlets, guess, scratch, out)
     }
 }
 

@@ -43,9 +43,47 @@ pub struct Prereformer {
     carbon: CarbonCheck,
 }
 
-impl Prereformer {
+/// The `prereformer` unit type.
+pub static TYPE: UnitType = UnitType {
+    name: "prereformer",
+    summary: "Adiabatic pre-reformer: the higher hydrocarbons and oxygenates reformed \
+              completely, then reforming (either way) and shift at equilibrium with their \
+              approach temperatures; the outlet temperature follows from the energy balance.",
+    inlets: Ports::exactly(1, "process gas with steam"),
+    outlets: Ports::exactly(1, "pre-reformed gas"),
+    keys: &[
+    KeyDoc {
+        key: "pressure-drop",
+        value: ValueKind::PressureDifference,
+        default: Some("0 bar"),
+        meaning: "pressure lost across the unit",
+    },
+        KeyDoc {
+            key: "approach",
+            value: ValueKind::PerReaction(&PREREFORMER_REACTIONS),
+            default: Some("0 K for each reaction"),
+            meaning: "approach temperature per reaction; a positive one leaves the outlet short of equilibrium",
+        },
+    ],
+    example: "- name: prereformer\n  type: prereformer\n  from: prereformer-feed\n  to: \
+              prereformed-gas\n  approach: {reforming: 0 K, shift: 0 K}",
+    build: build::<Prereformer>,
+};
+
+impl UnitKind for Prereformer {
+    type Spec = PrereformerSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, PrereformerSpec>) -> Result<PrereformerSpec> {
+        let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
+        let approaches = b.approaches(&PREREFORMER_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
+        Ok(PrereformerSpec {
+            pressure_drop_pa: drop,
+            approaches: named(&PREREFORMER_REACTIONS, approaches),
+        })
+    }
+
     /// Check the spec and build the equilibrium stage.
-    pub fn new(db: &SpeciesDb, name: &str, spec: &PrereformerSpec) -> Result<Prereformer> {
+    fn new(db: &SpeciesDb, name: &str, spec: &PrereformerSpec) -> Result<Prereformer> {
         let approaches = resolve_approaches(name, &spec.approaches, &PREREFORMER_REACTIONS)?;
         check_pressure_drop(name, spec.pressure_drop_pa)?;
         let stage = build_stage(
@@ -65,25 +103,12 @@ impl Prereformer {
         })
     }
 
-    /// The spec.
-    pub fn spec(&self) -> &PrereformerSpec {
+    fn spec(&self) -> &PrereformerSpec {
         &self.spec
     }
 
-    /// Solve; `guess`: the stage extents of a previous solve (a warm start).
-    pub fn solve(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-    ) -> Result<UnitResult> {
-        let mut out = UnitResult::default();
-        self.solve_into(db, inlets, guess, &mut UnitScratch::default(), &mut out)?;
-        Ok(out)
-    }
-
     /// Solve into `out` with the work memory of `scratch` (no heap allocation once warm).
-    pub fn solve_into(
+    fn solve_into(
         &self,
         db: &SpeciesDb,
         inlets: &[&Stream],
@@ -185,65 +210,6 @@ impl Prereformer {
         self.carbon.report(db, name, outlet, figures, warnings)?;
         stage_approaches(&PREREFORMER_REACTIONS, &self.stage, approaches);
         Ok(())
-    }
-}
-
-/// The `prereformer` unit type.
-pub static TYPE: UnitType = UnitType {
-    name: "prereformer",
-    summary: "Adiabatic pre-reformer: the higher hydrocarbons and oxygenates reformed \
-              completely, then reforming (either way) and shift at equilibrium with their \
-              approach temperatures; the outlet temperature follows from the energy balance.",
-    inlets: Ports::exactly(1, "process gas with steam"),
-    outlets: Ports::exactly(1, "pre-reformed gas"),
-    keys: &[
-    KeyDoc {
-        key: "pressure-drop",
-        value: ValueKind::PressureDifference,
-        default: Some("0 bar"),
-        meaning: "pressure lost across the unit",
-    },
-        KeyDoc {
-            key: "approach",
-            value: ValueKind::PerReaction(&PREREFORMER_REACTIONS),
-            default: Some("0 K for each reaction"),
-            meaning: "approach temperature per reaction; a positive one leaves the outlet short of equilibrium",
-        },
-    ],
-    example: "- name: prereformer\n  type: prereformer\n  from: prereformer-feed\n  to: \
-              prereformed-gas\n  approach: {reforming: 0 K, shift: 0 K}",
-    build: build::<Prereformer>,
-};
-
-impl UnitKind for Prereformer {
-    type Spec = PrereformerSpec;
-
-    fn read(b: &mut UnitBuilder<'_, '_, PrereformerSpec>) -> Result<PrereformerSpec> {
-        let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
-        let approaches = b.approaches(&PREREFORMER_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
-        Ok(PrereformerSpec {
-            pressure_drop_pa: drop,
-            approaches: named(&PREREFORMER_REACTIONS, approaches),
-        })
-    }
-
-    fn new(db: &SpeciesDb, name: &str, spec: &PrereformerSpec) -> Result<Prereformer> {
-        Prereformer::new(db, name, spec)
-    }
-
-    fn spec(&self) -> &PrereformerSpec {
-        &self.spec
-    }
-
-    fn solve_into(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-        scratch: &mut UnitScratch,
-        out: &mut UnitResult,
-    ) -> Result<()> {
-        Prereformer::solve_into(self, db, inlets, guess, scratch, out)
     }
 }
 

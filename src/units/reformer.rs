@@ -48,9 +48,61 @@ pub struct Reformer {
     carbon: CarbonCheck,
 }
 
-impl Reformer {
+/// The `reformer` unit type.
+pub static TYPE: UnitType = UnitType {
+    name: "reformer",
+    summary: "Steam reformer at a given outlet temperature: the higher hydrocarbons and \
+              oxygenates reformed completely, then reforming and shift at equilibrium with their \
+              approach temperatures; the duty follows.",
+    inlets: Ports::exactly(1, "process gas with steam"),
+    outlets: Ports::exactly(1, "reformed gas"),
+    keys: &[
+        KeyDoc {
+            key: "outlet-temperature",
+            value: ValueKind::Temperature,
+            default: None,
+            meaning: "outlet (catalyst exit) temperature",
+        },
+    KeyDoc {
+        key: "pressure-drop",
+        value: ValueKind::PressureDifference,
+        default: Some("0 bar"),
+        meaning: "pressure lost across the unit",
+    },
+        KeyDoc {
+            key: "approach",
+            value: ValueKind::PerReaction(&REFORMER_REACTIONS),
+            default: Some("0 K for each reaction"),
+            meaning: "approach temperature per reaction; a positive one leaves the outlet short of equilibrium",
+        },
+    ],
+    example: "- name: reformer\n  type: reformer\n  from: reformer-feed\n  to: reformed-gas\n  \
+              outlet-temperature: 865 degC\n  pressure-drop: 3 bar\n  approach: {reforming: \
+              10 K, shift: 0 K}",
+    build: build::<Reformer>,
+};
+
+impl UnitKind for Reformer {
+    type Spec = ReformerSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, ReformerSpec>) -> Result<ReformerSpec> {
+        let t = b.required(
+            "outlet-temperature",
+            ValueKind::Temperature,
+            "865 degC",
+            |s, v| s.outlet_temperature_k = v,
+        )?;
+        let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
+        let approaches = b.approaches(&REFORMER_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
+        Ok(ReformerSpec {
+            outlet_temperature_k: t,
+            pressure_drop_pa: drop,
+            approaches: named(&REFORMER_REACTIONS, approaches),
+        })
+    }
+
     /// Check the spec and build the equilibrium stage.
-    pub fn new(db: &SpeciesDb, name: &str, spec: &ReformerSpec) -> Result<Reformer> {
+    fn new(db: &SpeciesDb, name: &str, spec: &ReformerSpec) -> Result<Reformer> {
         let t = spec.outlet_temperature_k;
         if !(t.is_finite() && t > 0.0) {
             return Err(spec_error(
@@ -78,25 +130,12 @@ impl Reformer {
         })
     }
 
-    /// The spec.
-    pub fn spec(&self) -> &ReformerSpec {
+    fn spec(&self) -> &ReformerSpec {
         &self.spec
     }
 
-    /// Solve; `guess`: the stage extents of a previous solve (a warm start).
-    pub fn solve(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-    ) -> Result<UnitResult> {
-        let mut out = UnitResult::default();
-        self.solve_into(db, inlets, guess, &mut UnitScratch::default(), &mut out)?;
-        Ok(out)
-    }
-
     /// Solve into `out` with the work memory of `scratch` (no heap allocation once warm).
-    pub fn solve_into(
+    fn solve_into(
         &self,
         db: &SpeciesDb,
         inlets: &[&Stream],
@@ -197,79 +236,6 @@ impl Reformer {
         self.carbon.report(db, name, outlet, figures, warnings)?;
         stage_approaches(&REFORMER_REACTIONS, &self.stage, approaches);
         Ok(())
-    }
-}
-
-/// The `reformer` unit type.
-pub static TYPE: UnitType = UnitType {
-    name: "reformer",
-    summary: "Steam reformer at a given outlet temperature: the higher hydrocarbons and \
-              oxygenates reformed completely, then reforming and shift at equilibrium with their \
-              approach temperatures; the duty follows.",
-    inlets: Ports::exactly(1, "process gas with steam"),
-    outlets: Ports::exactly(1, "reformed gas"),
-    keys: &[
-        KeyDoc {
-            key: "outlet-temperature",
-            value: ValueKind::Temperature,
-            default: None,
-            meaning: "outlet (catalyst exit) temperature",
-        },
-    KeyDoc {
-        key: "pressure-drop",
-        value: ValueKind::PressureDifference,
-        default: Some("0 bar"),
-        meaning: "pressure lost across the unit",
-    },
-        KeyDoc {
-            key: "approach",
-            value: ValueKind::PerReaction(&REFORMER_REACTIONS),
-            default: Some("0 K for each reaction"),
-            meaning: "approach temperature per reaction; a positive one leaves the outlet short of equilibrium",
-        },
-    ],
-    example: "- name: reformer\n  type: reformer\n  from: reformer-feed\n  to: reformed-gas\n  \
-              outlet-temperature: 865 degC\n  pressure-drop: 3 bar\n  approach: {reforming: \
-              10 K, shift: 0 K}",
-    build: build::<Reformer>,
-};
-
-impl UnitKind for Reformer {
-    type Spec = ReformerSpec;
-
-    fn read(b: &mut UnitBuilder<'_, '_, ReformerSpec>) -> Result<ReformerSpec> {
-        let t = b.required(
-            "outlet-temperature",
-            ValueKind::Temperature,
-            "865 degC",
-            |s, v| s.outlet_temperature_k = v,
-        )?;
-        let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
-        let approaches = b.approaches(&REFORMER_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
-        Ok(ReformerSpec {
-            outlet_temperature_k: t,
-            pressure_drop_pa: drop,
-            approaches: named(&REFORMER_REACTIONS, approaches),
-        })
-    }
-
-    fn new(db: &SpeciesDb, name: &str, spec: &ReformerSpec) -> Result<Reformer> {
-        Reformer::new(db, name, spec)
-    }
-
-    fn spec(&self) -> &ReformerSpec {
-        &self.spec
-    }
-
-    fn solve_into(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-        scratch: &mut UnitScratch,
-        out: &mut UnitResult,
-    ) -> Result<()> {
-        Reformer::solve_into(self, db, inlets, guess, scratch, out)
     }
 }
 

@@ -97,9 +97,96 @@ pub struct Shift {
     stage: EquilibriumStage,
 }
 
-impl Shift {
+/// The catalyst assumed when none is given: copper below an inlet of 260 degC (low-temperature
+/// copper, or medium-temperature copper when the outlet passes the low-temperature limit, so
+/// that a medium-temperature converter raises no alarm meant for a low-temperature charge),
+/// iron-chromium otherwise.
+fn infer_catalyst(t_in: f64, t_out: f64) -> ShiftCatalyst {
+    if t_in >= COPPER_INFERENCE_BELOW_K {
+        ShiftCatalyst::IronChromium
+    } else if t_out > COPPER_MAX_K {
+        ShiftCatalyst::MediumTemperatureCopper
+    } else {
+        ShiftCatalyst::LowTemperatureCopper
+    }
+}
+
+/// The catalysts as written, in the order of [`ShiftCatalyst`]; `copper` is read as
+/// low-temperature copper.
+const CATALYSTS: [&str; 4] = [
+    "iron-chromium",
+    "medium-temperature-copper",
+    "low-temperature-copper",
+    "copper",
+];
+
+/// The `shift` unit type.
+pub static TYPE: UnitType = UnitType {
+    name: "shift",
+    summary: "Shift converter (high-, medium- or low-temperature): shift at equilibrium with its \
+              approach temperature, adiabatic unless an outlet temperature is given; catalyst \
+              temperature and dew-point cautions.",
+    inlets: Ports::exactly(1, "process gas"),
+    outlets: Ports::exactly(1, "shifted gas"),
+    keys: &[
+        KeyDoc {
+            key: "outlet-temperature",
+            value: ValueKind::Temperature,
+            default: Some("adiabatic"),
+            meaning: "outlet temperature of a cooled (isothermal) converter",
+        },
+        KeyDoc {
+            key: "catalyst",
+            value: ValueKind::Choice(&CATALYSTS),
+            default: Some("from the inlet temperature, said in a warning"),
+            meaning: "catalyst, for the temperature cautions (common practice limits)",
+        },
+        KeyDoc {
+            key: "pressure-drop",
+            value: ValueKind::PressureDifference,
+            default: Some("0 bar"),
+            meaning: "pressure lost across the unit",
+        },
+        KeyDoc {
+            key: "approach",
+            value: ValueKind::PerReaction(&SHIFT_REACTIONS),
+            default: Some("0 K for each reaction"),
+            meaning:
+                "approach temperature of the shift; a positive one leaves more CO than equilibrium",
+        },
+    ],
+    example: "- name: hts\n  type: shift\n  from: hts-feed\n  to: hts-exit\n  catalyst: \
+              iron-chromium\n  approach: {shift: 8 K}",
+    build: build::<Shift>,
+};
+
+impl UnitKind for Shift {
+    type Spec = ShiftSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, ShiftSpec>) -> Result<ShiftSpec> {
+        let t = b.number(
+            "outlet-temperature",
+            ValueKind::Temperature,
+            None,
+            |s, v| s.outlet_temperature_k = Some(v),
+        )?;
+        let catalyst = b.choice("catalyst", &CATALYSTS)?.map(|i| match i {
+            0 => ShiftCatalyst::IronChromium,
+            1 => ShiftCatalyst::MediumTemperatureCopper,
+            _ => ShiftCatalyst::LowTemperatureCopper,
+        });
+        let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
+        let approaches = b.approaches(&SHIFT_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
+        Ok(ShiftSpec {
+            outlet_temperature_k: t,
+            pressure_drop_pa: drop,
+            approaches: named(&SHIFT_REACTIONS, approaches),
+            catalyst,
+        })
+    }
+
     /// Check the spec and build the equilibrium stage.
-    pub fn new(db: &SpeciesDb, name: &str, spec: &ShiftSpec) -> Result<Shift> {
+    fn new(db: &SpeciesDb, name: &str, spec: &ShiftSpec) -> Result<Shift> {
         if let Some(t) = spec.outlet_temperature_k {
             if !(t.is_finite() && t > 0.0) {
                 return Err(spec_error(
@@ -121,25 +208,12 @@ impl Shift {
         })
     }
 
-    /// The spec.
-    pub fn spec(&self) -> &ShiftSpec {
+    fn spec(&self) -> &ShiftSpec {
         &self.spec
     }
 
-    /// Solve; `guess`: the stage extent of a previous solve (a warm start).
-    pub fn solve(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-    ) -> Result<UnitResult> {
-        let mut out = UnitResult::default();
-        self.solve_into(db, inlets, guess, &mut UnitScratch::default(), &mut out)?;
-        Ok(out)
-    }
-
     /// Solve into `result` with the work memory of `scratch` (no heap allocation once warm).
-    pub fn solve_into(
+    fn solve_into(
         &self,
         db: &SpeciesDb,
         inlets: &[&Stream],
@@ -289,114 +363,6 @@ impl Shift {
         }
         stage_approaches(&SHIFT_REACTIONS, &self.stage, approaches);
         Ok(())
-    }
-}
-
-/// The catalyst assumed when none is given: copper below an inlet of 260 degC (low-temperature
-/// copper, or medium-temperature copper when the outlet passes the low-temperature limit, so
-/// that a medium-temperature converter raises no alarm meant for a low-temperature charge),
-/// iron-chromium otherwise.
-fn infer_catalyst(t_in: f64, t_out: f64) -> ShiftCatalyst {
-    if t_in >= COPPER_INFERENCE_BELOW_K {
-        ShiftCatalyst::IronChromium
-    } else if t_out > COPPER_MAX_K {
-        ShiftCatalyst::MediumTemperatureCopper
-    } else {
-        ShiftCatalyst::LowTemperatureCopper
-    }
-}
-
-/// The catalysts as written, in the order of [`ShiftCatalyst`]; `copper` is read as
-/// low-temperature copper.
-const CATALYSTS: [&str; 4] = [
-    "iron-chromium",
-    "medium-temperature-copper",
-    "low-temperature-copper",
-    "copper",
-];
-
-/// The `shift` unit type.
-pub static TYPE: UnitType = UnitType {
-    name: "shift",
-    summary: "Shift converter (high-, medium- or low-temperature): shift at equilibrium with its \
-              approach temperature, adiabatic unless an outlet temperature is given; catalyst \
-              temperature and dew-point cautions.",
-    inlets: Ports::exactly(1, "process gas"),
-    outlets: Ports::exactly(1, "shifted gas"),
-    keys: &[
-        KeyDoc {
-            key: "outlet-temperature",
-            value: ValueKind::Temperature,
-            default: Some("adiabatic"),
-            meaning: "outlet temperature of a cooled (isothermal) converter",
-        },
-        KeyDoc {
-            key: "catalyst",
-            value: ValueKind::Choice(&CATALYSTS),
-            default: Some("from the inlet temperature, said in a warning"),
-            meaning: "catalyst, for the temperature cautions (common practice limits)",
-        },
-        KeyDoc {
-            key: "pressure-drop",
-            value: ValueKind::PressureDifference,
-            default: Some("0 bar"),
-            meaning: "pressure lost across the unit",
-        },
-        KeyDoc {
-            key: "approach",
-            value: ValueKind::PerReaction(&SHIFT_REACTIONS),
-            default: Some("0 K for each reaction"),
-            meaning:
-                "approach temperature of the shift; a positive one leaves more CO than equilibrium",
-        },
-    ],
-    example: "- name: hts\n  type: shift\n  from: hts-feed\n  to: hts-exit\n  catalyst: \
-              iron-chromium\n  approach: {shift: 8 K}",
-    build: build::<Shift>,
-};
-
-impl UnitKind for Shift {
-    type Spec = ShiftSpec;
-
-    fn read(b: &mut UnitBuilder<'_, '_, ShiftSpec>) -> Result<ShiftSpec> {
-        let t = b.number(
-            "outlet-temperature",
-            ValueKind::Temperature,
-            None,
-            |s, v| s.outlet_temperature_k = Some(v),
-        )?;
-        let catalyst = b.choice("catalyst", &CATALYSTS)?.map(|i| match i {
-            0 => ShiftCatalyst::IronChromium,
-            1 => ShiftCatalyst::MediumTemperatureCopper,
-            _ => ShiftCatalyst::LowTemperatureCopper,
-        });
-        let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
-        let approaches = b.approaches(&SHIFT_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
-        Ok(ShiftSpec {
-            outlet_temperature_k: t,
-            pressure_drop_pa: drop,
-            approaches: named(&SHIFT_REACTIONS, approaches),
-            catalyst,
-        })
-    }
-
-    fn new(db: &SpeciesDb, name: &str, spec: &ShiftSpec) -> Result<Shift> {
-        Shift::new(db, name, spec)
-    }
-
-    fn spec(&self) -> &ShiftSpec {
-        &self.spec
-    }
-
-    fn solve_into(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-        scratch: &mut UnitScratch,
-        out: &mut UnitResult,
-    ) -> Result<()> {
-        Shift::solve_into(self, db, inlets, guess, scratch, out)
     }
 }
 
