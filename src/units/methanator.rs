@@ -9,15 +9,12 @@
 //! of CO + CO2; a real bed, limited by its kinetics, leaves a few ppm. Use the approach
 //! temperatures to represent a bed short of equilibrium.
 
-use super::chemistry::unconverted_carbon_warnings;
 use super::common::named;
-use super::common::{
-    build_stage, check_pressure_drop, dry_fraction, figure, frozen_warnings, reactor_inlet,
-    resolve_approaches, run_stage_into, stage_approaches, Key,
-};
+use super::common::{dry_fraction, figure, reactor_inlet};
+use super::reactor::ReactorCore;
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
-use super::{FigureKind, Stream, StreamPhase, UnitResult, Warning};
-use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
+use super::{FigureKind, Stream, UnitResult, Warning};
+use crate::equilibrium::{Direction, EnergyMode};
 use crate::error::Result;
 use crate::thermo::SpeciesDb;
 
@@ -44,10 +41,8 @@ pub struct MethanatorSpec {
 /// A methanator ready to solve.
 #[derive(Debug, Clone)]
 pub struct Methanator {
-    name: String,
+    core: ReactorCore,
     spec: MethanatorSpec,
-    key: Key,
-    stage: EquilibriumStage,
 }
 
 /// The `methanator` unit type.
@@ -91,20 +86,16 @@ impl UnitKind for Methanator {
 
     /// Check the spec and build the equilibrium stage.
     fn new(db: &SpeciesDb, name: &str, spec: &MethanatorSpec) -> Result<Methanator> {
-        let approaches = resolve_approaches(name, &spec.approaches, &METHANATOR_REACTIONS)?;
-        check_pressure_drop(name, spec.pressure_drop_pa)?;
-        let stage = build_stage(
-            db,
-            name,
-            &METHANATOR_REACTIONS,
-            &approaches,
-            &[Direction::Backward, Direction::Auto],
-        )?;
         Ok(Methanator {
-            name: name.to_string(),
+            core: ReactorCore::new(
+                db,
+                name,
+                &METHANATOR_REACTIONS,
+                &spec.approaches,
+                &[Direction::Backward, Direction::Auto],
+                spec.pressure_drop_pa,
+            )?,
             spec: spec.clone(),
-            key: Key::new(db, name)?,
-            stage,
         })
     }
 
@@ -121,45 +112,25 @@ impl UnitKind for Methanator {
         scratch: &mut UnitScratch,
         out: &mut UnitResult,
     ) -> Result<()> {
-        let name = &self.name;
-        let key = &self.key;
+        let (name, key) = (&self.core.name, &self.core.key);
         let (inlet, p) = reactor_inlet(db, name, "methanator", inlets, self.spec.pressure_drop_pa)?;
         let t_in = inlet.temperature_k;
-        out.reset(1, db.len());
-        let UnitResult {
-            outlets,
-            approaches,
-            figures,
-            equilibrium,
-            warnings,
-            ..
-        } = out;
-        let stage = equilibrium.get_or_insert_with(Default::default);
-        run_stage_into(
-            &self.stage,
+        self.core.solve_stage(
             db,
-            name,
-            StageInlet {
-                flows: &inlet.flows,
-                temperature_k: t_in,
-                pressure_pa: p,
-            },
+            &inlet.flows,
+            t_in,
+            p,
             EnergyMode::Adiabatic,
             guess,
             &scratch.options,
             &mut scratch.stage,
-            stage,
+            out,
         )?;
-        let t_out = stage.outlet_temperature_k;
-        let outlet = &mut outlets[0];
-        outlet.flows.copy_from_slice(&stage.outlet_flows);
-        outlet.temperature_k = t_out;
-        outlet.pressure_pa = p;
-        outlet.phase = StreamPhase::Vapour;
+        let outlet = &out.outlets[0];
         let out_flows = &outlet.flows;
         let total_out: f64 = out_flows.iter().sum();
         let oxides = out_flows[key.co] + out_flows[key.co2];
-        let rise = t_out - t_in;
+        let rise = outlet.temperature_k - t_in;
         let n_in = inlet.total();
         let (d_co, d_co2) = if n_in > 0.0 {
             (
@@ -170,6 +141,7 @@ impl UnitKind for Methanator {
             (0.0, 0.0)
         };
         let rule = RISE_PER_PERCENT_CO_K * d_co + RISE_PER_PERCENT_CO2_K * d_co2;
+        let figures = &mut out.figures;
         figures.push(figure(
             "co-co2-wet",
             "CO + CO2 at the outlet, wet",
@@ -199,10 +171,8 @@ impl UnitKind for Methanator {
             rule,
             FigureKind::TemperatureDifference,
         ));
-        unconverted_carbon_warnings(db, name, key, &inlet.flows, |_| false, warnings);
-        frozen_warnings(name, &self.stage, stage, warnings);
         if rise > LARGE_RISE_K {
-            warnings.push(
+            out.warnings.push(
                 Warning::new(
                     "methanator-temperature-rise",
                     "temperature rise {value} is above {limit} (common practice: 20-30 K is \
@@ -214,7 +184,7 @@ impl UnitKind for Methanator {
                 .for_unit(name.as_str()),
             );
         }
-        stage_approaches(&METHANATOR_REACTIONS, &self.stage, approaches);
+        self.core.finish(db, &inlet.flows, |_| false, out);
         Ok(())
     }
 }

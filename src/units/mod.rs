@@ -15,6 +15,7 @@ pub mod methanator;
 pub mod mixer;
 pub mod prereformer;
 pub mod purifier;
+mod reactor;
 pub mod reformer;
 pub mod registry;
 pub mod shift;

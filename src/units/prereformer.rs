@@ -8,15 +8,13 @@
 //! that H_out = H_in overall and the unit's duty is zero. The stage's own result
 //! ([`UnitResult::equilibrium`]) therefore shows that internal duty, on the converted basis.
 
-use super::chemistry::{unconverted_carbon_warnings, CarbonCheck, HigherHydrocarbons};
+use super::chemistry::{CarbonCheck, HigherHydrocarbons};
 use super::common::named;
-use super::common::{
-    build_stage, check_pressure_drop, dry_fraction, figure, frozen_warnings, reactor_inlet,
-    resolve_approaches, run_stage_into, stage_approaches, Key,
-};
+use super::common::{dry_fraction, figure, reactor_inlet};
+use super::reactor::ReactorCore;
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
-use super::{FigureKind, Stream, StreamPhase, UnitResult};
-use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
+use super::{FigureKind, Stream, UnitResult};
+use crate::equilibrium::{Direction, EnergyMode};
 use crate::error::{Result, ResultExt};
 use crate::thermo::{mixture, SpeciesDb};
 
@@ -35,10 +33,8 @@ pub struct PrereformerSpec {
 /// A pre-reformer ready to solve.
 #[derive(Debug, Clone)]
 pub struct Prereformer {
-    name: String,
+    core: ReactorCore,
     spec: PrereformerSpec,
-    key: Key,
-    stage: EquilibriumStage,
     higher: HigherHydrocarbons,
     carbon: CarbonCheck,
 }
@@ -84,20 +80,16 @@ impl UnitKind for Prereformer {
 
     /// Check the spec and build the equilibrium stage.
     fn new(db: &SpeciesDb, name: &str, spec: &PrereformerSpec) -> Result<Prereformer> {
-        let approaches = resolve_approaches(name, &spec.approaches, &PREREFORMER_REACTIONS)?;
-        check_pressure_drop(name, spec.pressure_drop_pa)?;
-        let stage = build_stage(
-            db,
-            name,
-            &PREREFORMER_REACTIONS,
-            &approaches,
-            &[Direction::Auto, Direction::Auto],
-        )?;
         Ok(Prereformer {
-            name: name.to_string(),
+            core: ReactorCore::new(
+                db,
+                name,
+                &PREREFORMER_REACTIONS,
+                &spec.approaches,
+                &[Direction::Auto, Direction::Auto],
+                spec.pressure_drop_pa,
+            )?,
             spec: spec.clone(),
-            key: Key::new(db, name)?,
-            stage,
             higher: HigherHydrocarbons::new(db)?,
             carbon: CarbonCheck::new(db)?,
         })
@@ -116,8 +108,7 @@ impl UnitKind for Prereformer {
         scratch: &mut UnitScratch,
         out: &mut UnitResult,
     ) -> Result<()> {
-        let name = &self.name;
-        let key = &self.key;
+        let (name, key) = (&self.core.name, &self.core.key);
         let (inlet, p) =
             reactor_inlet(db, name, "prereformer", inlets, self.spec.pressure_drop_pa)?;
         let t_in = inlet.temperature_k;
@@ -136,58 +127,33 @@ impl UnitKind for Prereformer {
             .context(|| format!("unit '{name}', inlet enthalpy"))?;
         let h_converted = mixture::enthalpy(db, converted, t_in)
             .context(|| format!("unit '{name}', inlet enthalpy"))?;
-        out.reset(1, db.len());
-        let UnitResult {
-            outlets,
-            approaches,
-            figures,
-            equilibrium,
-            warnings,
-            ..
-        } = out;
-        let stage = equilibrium.get_or_insert_with(Default::default);
-        run_stage_into(
-            &self.stage,
-            db,
-            name,
-            StageInlet {
-                flows: converted,
-                temperature_k: t_in,
-                pressure_pa: p,
-            },
-            EnergyMode::FixedDuty {
-                duty_w: h_in - h_converted,
-            },
-            guess,
-            options,
-            stage_ws,
-            stage,
-        )?;
-        let t_out = stage.outlet_temperature_k;
-        let outlet = &mut outlets[0];
-        outlet.flows.copy_from_slice(&stage.outlet_flows);
-        outlet.temperature_k = t_out;
-        outlet.pressure_pa = p;
-        outlet.phase = StreamPhase::Vapour;
-        let out_flows = &outlet.flows;
+        // The complete reforming of the C2+ at the inlet temperature is paid for by the duty
+        // handed to the stage, so that the whole unit stays adiabatic.
+        let mode = EnergyMode::FixedDuty {
+            duty_w: h_in - h_converted,
+        };
+        self.core
+            .solve_stage(db, converted, t_in, p, mode, guess, options, stage_ws, out)?;
+        let outlet = &out.outlets[0];
+        let figures = &mut out.figures;
         figures.push(figure(
             "temperature-change",
             "temperature change",
-            t_out - t_in,
+            outlet.temperature_k - t_in,
             FigureKind::TemperatureDifference,
         ));
         if higher_in > 0.0 {
             figures.push(figure(
                 "higher-hydrocarbon-conversion",
                 "higher-hydrocarbon conversion",
-                1.0 - self.higher.amount(out_flows) / higher_in,
+                1.0 - self.higher.amount(&outlet.flows) / higher_in,
                 FigureKind::Fraction,
             ));
         }
         figures.push(figure(
             "methane-dry",
             "methane, dry",
-            dry_fraction(key, out_flows, key.ch4),
+            dry_fraction(key, &outlet.flows, key.ch4),
             FigureKind::Fraction,
         ));
         if let Some(sc) = key.steam_to_carbon(&inlet.flows) {
@@ -198,17 +164,10 @@ impl UnitKind for Prereformer {
                 FigureKind::Number,
             ));
         }
-        unconverted_carbon_warnings(
-            db,
-            name,
-            key,
-            &inlet.flows,
-            |i| self.higher.converts(i),
-            warnings,
-        );
-        frozen_warnings(name, &self.stage, stage, warnings);
-        self.carbon.report(db, name, outlet, figures, warnings)?;
-        stage_approaches(&PREREFORMER_REACTIONS, &self.stage, approaches);
+        self.carbon
+            .report(db, name, outlet, figures, &mut out.warnings)?;
+        self.core
+            .finish(db, &inlet.flows, |i| self.higher.converts(i), out);
         Ok(())
     }
 }

@@ -11,15 +11,13 @@
 //! thermodynamically possible at the outlet (a screening check: carbon risk is usually highest
 //! part-way down the tubes, which an outlet check does not see).
 
-use super::chemistry::{unconverted_carbon_warnings, CarbonCheck, HigherHydrocarbons};
+use super::chemistry::{CarbonCheck, HigherHydrocarbons};
 use super::common::named;
-use super::common::{
-    build_stage, check_pressure_drop, check_temperature, dry_fraction, figure, frozen_warnings,
-    reactor_inlet, resolve_approaches, run_stage_into, spec_error, stage_approaches, Key,
-};
+use super::common::{check_temperature, dry_fraction, figure, reactor_inlet, spec_error};
+use super::reactor::ReactorCore;
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
-use super::{FigureKind, Stream, StreamPhase, UnitResult};
-use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
+use super::{FigureKind, Stream, UnitResult};
+use crate::equilibrium::{Direction, EnergyMode};
 use crate::error::{Result, ResultExt};
 use crate::thermo::{mixture, SpeciesDb};
 
@@ -40,10 +38,8 @@ pub struct ReformerSpec {
 /// A reformer ready to solve (its equilibrium stage built once).
 #[derive(Debug, Clone)]
 pub struct Reformer {
-    name: String,
+    core: ReactorCore,
     spec: ReformerSpec,
-    key: Key,
-    stage: EquilibriumStage,
     higher: HigherHydrocarbons,
     carbon: CarbonCheck,
 }
@@ -111,20 +107,16 @@ impl UnitKind for Reformer {
                 format!("{t} K must be a positive absolute temperature"),
             ));
         }
-        let approaches = resolve_approaches(name, &spec.approaches, &REFORMER_REACTIONS)?;
-        check_pressure_drop(name, spec.pressure_drop_pa)?;
-        let stage = build_stage(
-            db,
-            name,
-            &REFORMER_REACTIONS,
-            &approaches,
-            &[Direction::Forward, Direction::Auto],
-        )?;
         Ok(Reformer {
-            name: name.to_string(),
+            core: ReactorCore::new(
+                db,
+                name,
+                &REFORMER_REACTIONS,
+                &spec.approaches,
+                &[Direction::Forward, Direction::Auto],
+                spec.pressure_drop_pa,
+            )?,
             spec: spec.clone(),
-            key: Key::new(db, name)?,
-            stage,
             higher: HigherHydrocarbons::new(db)?,
             carbon: CarbonCheck::new(db)?,
         })
@@ -143,8 +135,7 @@ impl UnitKind for Reformer {
         scratch: &mut UnitScratch,
         out: &mut UnitResult,
     ) -> Result<()> {
-        let name = &self.name;
-        let key = &self.key;
+        let (name, key) = (&self.core.name, &self.core.key);
         let (inlet, p) = reactor_inlet(db, name, "reformer", inlets, self.spec.pressure_drop_pa)?;
         let t_out = self.spec.outlet_temperature_k;
         let UnitScratch {
@@ -160,40 +151,16 @@ impl UnitKind for Reformer {
         let h_in = inlet
             .enthalpy_w(db)
             .context(|| format!("unit '{name}', inlet enthalpy"))?;
-        out.reset(1, db.len());
-        let UnitResult {
-            outlets,
-            duty_w,
-            approaches,
-            figures,
-            equilibrium,
-            warnings,
-        } = out;
-        let stage = equilibrium.get_or_insert_with(Default::default);
-        run_stage_into(
-            &self.stage,
-            db,
-            name,
-            StageInlet {
-                flows: converted,
-                temperature_k: inlet.temperature_k,
-                pressure_pa: p,
-            },
-            EnergyMode::FixedTemperature {
-                temperature_k: t_out,
-            },
-            guess,
-            options,
-            stage_ws,
-            stage,
-        )?;
-        let outlet = &mut outlets[0];
-        outlet.flows.copy_from_slice(&stage.outlet_flows);
-        outlet.temperature_k = t_out;
-        outlet.pressure_pa = p;
-        outlet.phase = StreamPhase::Vapour;
+        let mode = EnergyMode::FixedTemperature {
+            temperature_k: t_out,
+        };
+        let t_in = inlet.temperature_k;
+        self.core
+            .solve_stage(db, converted, t_in, p, mode, guess, options, stage_ws, out)?;
+        let outlet = &out.outlets[0];
         let out_flows = &outlet.flows;
-        *duty_w = mixture::enthalpy(db, out_flows, t_out)? - h_in;
+        out.duty_w = mixture::enthalpy(db, out_flows, t_out)? - h_in;
+        let figures = &mut out.figures;
         let ch4_in = inlet.flows[key.ch4];
         if ch4_in > 0.0 {
             figures.push(figure(
@@ -224,17 +191,10 @@ impl UnitKind for Reformer {
                 FigureKind::Number,
             ));
         }
-        unconverted_carbon_warnings(
-            db,
-            name,
-            key,
-            &inlet.flows,
-            |i| self.higher.converts(i),
-            warnings,
-        );
-        frozen_warnings(name, &self.stage, stage, warnings);
-        self.carbon.report(db, name, outlet, figures, warnings)?;
-        stage_approaches(&REFORMER_REACTIONS, &self.stage, approaches);
+        self.carbon
+            .report(db, name, outlet, figures, &mut out.warnings)?;
+        self.core
+            .finish(db, &inlet.flows, |i| self.higher.converts(i), out);
         Ok(())
     }
 }

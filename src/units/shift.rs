@@ -7,16 +7,14 @@
 //! 330-350 degC; low-temperature copper (LTS) below about 250-270 degC; a copper charge is fed at
 //! least about 15-20 K above the water dew point so that no water condenses on it.
 
-use super::chemistry::unconverted_carbon_warnings;
 use super::common::named;
 use super::common::{
-    build_stage, check_pressure_drop, check_temperature, dew_point_k, dry_fraction, figure,
-    frozen_warnings, reactor_inlet, resolve_approaches, run_stage_into, spec_error,
-    stage_approaches, Key,
+    check_temperature, dew_point_k, dry_fraction, figure, reactor_inlet, spec_error,
 };
+use super::reactor::ReactorCore;
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
-use super::{FigureKind, Stream, StreamPhase, UnitResult, Warning};
-use crate::equilibrium::{Direction, EnergyMode, EquilibriumStage, StageInlet};
+use super::{FigureKind, Stream, UnitResult, Warning};
+use crate::equilibrium::{Direction, EnergyMode};
 use crate::error::{Result, ResultExt};
 use crate::quantity::CELSIUS_OFFSET_K;
 use crate::thermo::SpeciesDb;
@@ -91,10 +89,8 @@ pub struct ShiftSpec {
 /// A shift converter ready to solve.
 #[derive(Debug, Clone)]
 pub struct Shift {
-    name: String,
+    core: ReactorCore,
     spec: ShiftSpec,
-    key: Key,
-    stage: EquilibriumStage,
 }
 
 /// The catalyst assumed when none is given: copper below an inlet of 260 degC (low-temperature
@@ -196,15 +192,17 @@ impl UnitKind for Shift {
                 ));
             }
         }
-        let approaches = resolve_approaches(name, &spec.approaches, &SHIFT_REACTIONS)?;
-        check_pressure_drop(name, spec.pressure_drop_pa)?;
-        // The stage finds the direction of a lone reaction from the inlet (Direction::Auto).
-        let stage = build_stage(db, name, &SHIFT_REACTIONS, &approaches, &[Direction::Auto])?;
         Ok(Shift {
-            name: name.to_string(),
+            // The stage finds the direction of a lone reaction from the inlet (Direction::Auto).
+            core: ReactorCore::new(
+                db,
+                name,
+                &SHIFT_REACTIONS,
+                &spec.approaches,
+                &[Direction::Auto],
+                spec.pressure_drop_pa,
+            )?,
             spec: spec.clone(),
-            key: Key::new(db, name)?,
-            stage,
         })
     }
 
@@ -221,8 +219,7 @@ impl UnitKind for Shift {
         scratch: &mut UnitScratch,
         result: &mut UnitResult,
     ) -> Result<()> {
-        let name = &self.name;
-        let key = &self.key;
+        let (name, key) = (&self.core.name, &self.core.key);
         let (inlet, p) = reactor_inlet(db, name, "shift", inlets, self.spec.pressure_drop_pa)?;
         let t_in = inlet.temperature_k;
         let mode = match self.spec.outlet_temperature_k {
@@ -235,38 +232,27 @@ impl UnitKind for Shift {
         let h_in = inlet
             .enthalpy_w(db)
             .context(|| format!("unit '{name}', inlet enthalpy"))?;
-        result.reset(1, db.len());
-        let UnitResult {
-            outlets,
-            duty_w,
-            approaches,
-            figures,
-            equilibrium,
-            warnings,
-        } = result;
-        let stage = equilibrium.get_or_insert_with(Default::default);
-        run_stage_into(
-            &self.stage,
+        self.core.solve_stage(
             db,
-            name,
-            StageInlet {
-                flows: &inlet.flows,
-                temperature_k: t_in,
-                pressure_pa: p,
-            },
+            &inlet.flows,
+            t_in,
+            p,
             mode,
             guess,
             &scratch.options,
             &mut scratch.stage,
-            stage,
+            result,
         )?;
-        let t_out = stage.outlet_temperature_k;
-        let outlet = &mut outlets[0];
-        outlet.flows.copy_from_slice(&stage.outlet_flows);
-        outlet.temperature_k = t_out;
-        outlet.pressure_pa = p;
-        outlet.phase = StreamPhase::Vapour;
-        let out = &outlet.flows;
+        self.core.finish(db, &inlet.flows, |_| false, result);
+        let UnitResult {
+            outlets,
+            duty_w,
+            figures,
+            warnings,
+            ..
+        } = result;
+        let t_out = outlets[0].temperature_k;
+        let out = &outlets[0].flows;
         *duty_w = match mode {
             EnergyMode::Adiabatic => 0.0,
             _ => crate::thermo::mixture::enthalpy(db, out, t_out)? - h_in,
@@ -301,8 +287,6 @@ impl UnitKind for Shift {
                 FigureKind::TemperatureDifference,
             ));
         }
-        unconverted_carbon_warnings(db, name, key, &inlet.flows, |_| false, warnings);
-        frozen_warnings(name, &self.stage, stage, warnings);
         let catalyst = match self.spec.catalyst {
             Some(c) => c,
             None => {
@@ -361,7 +345,6 @@ impl UnitKind for Shift {
                 );
             }
         }
-        stage_approaches(&SHIFT_REACTIONS, &self.stage, approaches);
         Ok(())
     }
 }

@@ -417,59 +417,40 @@ pub struct Heater(pub Thermal);
 #[derive(Debug, Clone)]
 pub struct Cooler(pub Thermal);
 
-impl UnitKind for Heater {
-    type Spec = ThermalSpec;
+/// The unit trait of a heater or cooler: a [`Thermal`] of one kind.
+macro_rules! thermal_unit {
+    ($unit:ident, $kind:expr) => {
+        impl UnitKind for $unit {
+            type Spec = ThermalSpec;
 
-    fn read(b: &mut UnitBuilder<'_, '_, ThermalSpec>) -> Result<ThermalSpec> {
-        read_thermal(b, ThermalKind::Heater)
-    }
+            fn read(b: &mut UnitBuilder<'_, '_, ThermalSpec>) -> Result<ThermalSpec> {
+                read_thermal(b, $kind)
+            }
 
-    fn new(db: &SpeciesDb, name: &str, spec: &ThermalSpec) -> Result<Heater> {
-        Thermal::new(db, name, ThermalKind::Heater, spec).map(Heater)
-    }
+            fn new(db: &SpeciesDb, name: &str, spec: &ThermalSpec) -> Result<$unit> {
+                Thermal::new(db, name, $kind, spec).map($unit)
+            }
 
-    fn spec(&self) -> &ThermalSpec {
-        self.0.spec()
-    }
+            fn spec(&self) -> &ThermalSpec {
+                self.0.spec()
+            }
 
-    fn solve_into(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        _: Option<&[f64]>,
-        _: &mut UnitScratch,
-        out: &mut UnitResult,
-    ) -> Result<()> {
-        self.0.solve_into(db, inlets, out)
-    }
+            fn solve_into(
+                &self,
+                db: &SpeciesDb,
+                inlets: &[&Stream],
+                _: Option<&[f64]>,
+                _: &mut UnitScratch,
+                out: &mut UnitResult,
+            ) -> Result<()> {
+                self.0.solve_into(db, inlets, out)
+            }
+        }
+    };
 }
 
-impl UnitKind for Cooler {
-    type Spec = ThermalSpec;
-
-    fn read(b: &mut UnitBuilder<'_, '_, ThermalSpec>) -> Result<ThermalSpec> {
-        read_thermal(b, ThermalKind::Cooler)
-    }
-
-    fn new(db: &SpeciesDb, name: &str, spec: &ThermalSpec) -> Result<Cooler> {
-        Thermal::new(db, name, ThermalKind::Cooler, spec).map(Cooler)
-    }
-
-    fn spec(&self) -> &ThermalSpec {
-        self.0.spec()
-    }
-
-    fn solve_into(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        _: Option<&[f64]>,
-        _: &mut UnitScratch,
-        out: &mut UnitResult,
-    ) -> Result<()> {
-        self.0.solve_into(db, inlets, out)
-    }
-}
+thermal_unit!(Heater, ThermalKind::Heater);
+thermal_unit!(Cooler, ThermalKind::Cooler);
 
 #[cfg(test)]
 mod tests {
