@@ -664,3 +664,135 @@ fn a_million_random_stages() {
         report.failures.len()
     );
 }
+
+#[test]
+fn approaches_given_per_solve_match_a_stage_built_with_them() {
+    // The same stage solved with approaches given at solve time and a stage built with them
+    // agree to the last bit (one code path); the convention of the design notes (T_eq = T - s dT,
+    // s = +1 for reforming forward, -1 for shift forward) shows in the equilibrium temperatures.
+    let db = db();
+    let inlet = flows(&db, &[("CH4", 1.0), ("H2O", 3.0), ("CO2", 0.01)]);
+    let inlet = StageInlet {
+        flows: &inlet,
+        temperature_k: 800.0,
+        pressure_pa: 25e5,
+    };
+    let mode = EnergyMode::FixedTemperature {
+        temperature_k: 1133.15,
+    };
+    let built = stage(
+        &db,
+        &[
+            ("reforming", 12.0, Direction::Forward),
+            ("shift", 7.0, Direction::Auto),
+        ],
+    );
+    let plain = stage(
+        &db,
+        &[
+            ("reforming", 0.0, Direction::Forward),
+            ("shift", 0.0, Direction::Auto),
+        ],
+    );
+    let expected = built.solve(&db, inlet, mode, None).unwrap();
+    let mut ws = StageWorkspace::new();
+    let mut out = StageResult::default();
+    let settings = SolveSettings {
+        approaches_k: Some(&[12.0, 7.0]),
+        ..SolveSettings::default()
+    };
+    plain
+        .solve_into(&db, inlet, mode, settings, &mut ws, &mut out)
+        .unwrap();
+    assert_eq!(out, expected);
+    assert_eq!(out.equilibrium_temperatures_k, vec![1121.15, 1140.15]);
+    // The stage's own approaches are untouched by a solve that overrides them.
+    let zero = plain.solve(&db, inlet, mode, None).unwrap();
+    assert_eq!(zero.equilibrium_temperatures_k, vec![1133.15, 1133.15]);
+    // Wrong count or a value that is not finite: an error naming the approaches.
+    for bad in [&[1.0][..], &[1.0, f64::NAN][..]] {
+        let settings = SolveSettings {
+            approaches_k: Some(bad),
+            ..SolveSettings::default()
+        };
+        let e = plain
+            .solve_into(&db, inlet, mode, settings, &mut ws, &mut out)
+            .unwrap_err();
+        assert!(e.to_string().contains("approach"), "{e}");
+    }
+}
+
+#[test]
+fn options_and_termination_reasons() {
+    let db = db();
+    let sh = stage(&db, &[("shift", 0.0, Direction::Auto)]);
+    // High-temperature shift from 350 degC (invented gas), adiabatic.
+    let gas = flows(
+        &db,
+        &[
+            ("H2", 0.49),
+            ("CO", 0.105),
+            ("CO2", 0.055),
+            ("CH4", 0.035),
+            ("H2O", 0.31),
+            ("N2", 0.005),
+        ],
+    );
+    let inlet = StageInlet {
+        flows: &gas,
+        temperature_k: 623.15,
+        pressure_pa: 27e5,
+    };
+    let defaults = SolverOptions::default();
+    assert_eq!(
+        defaults.extent_tolerance,
+        crate::equilibrium::extents::RESIDUAL_TOLERANCE
+    );
+    assert_eq!(defaults.energy_tolerance, ENERGY_TOLERANCE);
+    let r = sh
+        .solve_with_options(&db, inlet, EnergyMode::Adiabatic, None, &defaults)
+        .unwrap();
+    assert_eq!(r.termination, StageTermination::Converged);
+    assert!(r.converged() && r.energy_residual <= 1e-10);
+    // An energy tolerance below the round-off floor: the bracket narrows first, and the result
+    // says so instead of claiming convergence.
+    let strict = SolverOptions {
+        energy_tolerance: 1e-300,
+        ..defaults
+    };
+    let r = sh
+        .solve_with_options(&db, inlet, EnergyMode::Adiabatic, None, &strict)
+        .unwrap();
+    assert_eq!(r.termination, StageTermination::ResidualAboveTolerance);
+    assert!(!r.converged());
+    assert_eq!(
+        r.temperature_search.map(|s| s.termination),
+        Some(Termination::BracketNarrowed)
+    );
+    // One extent iteration cannot reach 1e-11 from a cold start: an error that says why.
+    let one = SolverOptions {
+        extent_iteration_limit: 1,
+        ..defaults
+    };
+    let e = sh
+        .solve_with_options(&db, inlet, EnergyMode::Adiabatic, None, &one)
+        .unwrap_err();
+    assert!(e.to_string().contains("extent iteration limit"), "{e}");
+    // Two temperature evaluations are not enough either.
+    let two = SolverOptions {
+        temperature_iteration_limit: 2,
+        ..defaults
+    };
+    let e = sh
+        .solve_with_options(&db, inlet, EnergyMode::Adiabatic, None, &two)
+        .unwrap_err();
+    assert!(e.to_string().contains("limit of 2"), "{e}");
+    // Options that cannot work are refused before solving.
+    let zero = SolverOptions {
+        energy_tolerance: 0.0,
+        ..defaults
+    };
+    assert!(sh
+        .solve_with_options(&db, inlet, EnergyMode::Adiabatic, None, &zero)
+        .is_err());
+}
