@@ -494,6 +494,7 @@ impl EquilibriumStage {
         let ln_p = (inlet.pressure_pa / STANDARD_PRESSURE_PA).ln();
         let (mut ln_q, mut ln_k) = (0.0, 0.0);
         let (mut reactant_absent, mut product_absent) = (false, false);
+        let ln_t = t.ln();
         for (k, &i) in self.species.iter().enumerate() {
             let nu = self.system.nu(0, k);
             let n = inlet.flows[i];
@@ -504,7 +505,7 @@ impl EquilibriumStage {
             } else {
                 product_absent = true;
             }
-            ln_k -= nu * self.nasa[k].g_rt(t);
+            ln_k -= nu * self.nasa[k].g_rt_ln(t, ln_t);
         }
         Some(match (reactant_absent, product_absent) {
             (_, true) => 1.0,
@@ -634,9 +635,10 @@ impl EquilibriumStage {
         // Species values at the stream temperature, shared by reactions without an approach.
         let h_rt = &mut run.h_rt;
         let mut g_rt = [0.0f64; MAX_STAGE_SPECIES];
+        let ln_t = t.ln();
         for k in 0..ns {
             h_rt[k] = self.nasa[k].h_rt(t);
-            g_rt[k] = self.nasa[k].g_rt(t);
+            g_rt[k] = self.nasa[k].g_rt_ln(t, ln_t);
         }
         let h_rt = &run.h_rt;
         for (j, r) in self.reactions.iter().enumerate() {
@@ -666,10 +668,11 @@ impl EquilibriumStage {
             }
             let mut g = 0.0;
             let mut h = 0.0;
+            let ln_t_eq = t_eq.ln();
             for k in 0..ns {
                 let nu = self.system.nu(j, k);
                 if nu != 0.0 {
-                    g += nu * self.nasa[k].g_rt(t_eq);
+                    g += nu * self.nasa[k].g_rt_ln(t_eq, ln_t_eq);
                     h += nu * self.nasa[k].h_rt(t_eq);
                 }
             }

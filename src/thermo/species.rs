@@ -81,8 +81,14 @@ impl Nasa7 {
     /// G/(RT) = H/(RT) - S/R at `t` K and the standard pressure (no range check).
     #[inline]
     pub fn g_rt(&self, t: f64) -> f64 {
+        self.g_rt_ln(t, t.ln())
+    }
+
+    /// G/(RT) at `t` K with `ln_t` = ln(t) given, so that a loop over species at one
+    /// temperature takes the logarithm once (the same value as [`Nasa7::g_rt`], bit for bit).
+    #[inline]
+    pub fn g_rt_ln(&self, t: f64, ln_t: f64) -> f64 {
         let a = self.coefficients(t);
-        let ln_t = t.ln();
         a[0] * (1.0 - ln_t)
             - t * (a[1] / 2.0 + t * (a[2] / 6.0 + t * (a[3] / 12.0 + t * a[4] / 20.0)))
             + a[5] / t
