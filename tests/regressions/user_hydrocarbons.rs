@@ -116,6 +116,16 @@ fn a_carbon_species_no_reaction_converts_is_named_in_a_warning() {
         warnings.contains("HCN") && warnings.contains("unconverted"),
         "warnings: {warnings}"
     );
+    // The warning's value is the species' share of the inlet in %: 0.5 of 572.5 kmol/h.
+    let w = v["warnings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|w| w["code"] == "unconverted-carbon")
+        .expect("an unconverted-carbon warning");
+    let share = w["value"].as_f64().unwrap();
+    assert!((share - 100.0 * 0.5 / 572.5).abs() < 1e-9, "{share}");
+    assert_eq!(w["unit"], "pre");
     // It passes through unchanged.
     let hcn = v["streams"]["out"]["flow_kmol_h"]["HCN"].as_f64().unwrap();
     assert!((hcn - 0.5).abs() < 1e-12, "HCN out {hcn}");
