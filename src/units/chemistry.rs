@@ -232,4 +232,45 @@ mod tests {
             "{e}"
         );
     }
+    #[test]
+    fn carbon_activity_is_unbounded_only_with_the_former_and_without_its_partner() {
+        // a_C = K p_CH4 / p_H2^2 (cracking) and K p_CO^2 / p_CO2 (Boudouard): a former without
+        // its partner makes it unbounded, a partner without its former makes it zero.
+        let db = db();
+        let check = CarbonCheck::new(&db).unwrap();
+        let run = |pairs: &[(&str, f64)]| {
+            let s = crate::units::test_support::gas(&db, pairs, 900.0, 20e5);
+            let (mut figures, mut warnings) = (Vec::new(), Vec::new());
+            check
+                .report(&db, "r", &s, &mut figures, &mut warnings)
+                .unwrap();
+            let keys: Vec<&str> = figures.iter().map(|f| f.key).collect();
+            let unbounded: Vec<String> = warnings
+                .iter()
+                .filter(|w| w.code == "carbon-formation" && w.value.is_none())
+                .map(|w| w.subject.clone().unwrap())
+                .collect();
+            (keys, unbounded)
+        };
+        // Methane without hydrogen, CO without CO2: both unbounded, no figures.
+        let (keys, unbounded) = run(&[("CH4", 1.0), ("CO", 1.0), ("N2", 1.0)]);
+        assert!(keys.is_empty(), "{keys:?}");
+        assert_eq!(unbounded, vec!["methane-cracking", "boudouard"]);
+        // Hydrogen and CO2 without their formers: zero activity, no warning, no figure.
+        let (keys, unbounded) = run(&[("H2", 1.0), ("CO2", 1.0)]);
+        assert!(
+            keys.is_empty() && unbounded.is_empty(),
+            "{keys:?} {unbounded:?}"
+        );
+        // All present: both figures, nothing unbounded.
+        let (keys, unbounded) = run(&[("CH4", 0.1), ("H2", 1.0), ("CO", 0.1), ("CO2", 0.1)]);
+        assert_eq!(
+            keys,
+            vec![
+                "carbon-activity-methane-cracking",
+                "carbon-activity-boudouard"
+            ]
+        );
+        assert!(unbounded.is_empty());
+    }
 }
