@@ -344,6 +344,7 @@ fn knockout_purifier_splitter_and_mixer_solve_warm_without_allocating() {
     // Splitters by fraction (one outlet takes the rest) and by flow, after a two-way split.
     let tee = |split| {
         Splitter::new(
+            &db,
             "tee",
             &SplitterSpec {
                 split,

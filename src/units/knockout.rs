@@ -39,9 +39,46 @@ pub struct Knockout {
     key: Key,
 }
 
-impl Knockout {
+/// The `knockout` unit type.
+pub static TYPE: UnitType = UnitType {
+    name: "knockout",
+    summary: "Knockout drum: the gas cooled to the drum temperature and the water that condenses \
+              there separated (Raoult's law on the IAPWS-IF97 saturation line).",
+    inlets: Ports::exactly(1, "wet gas"),
+    outlets: Ports::exactly(2, "gas, condensate"),
+    keys: &[
+        KeyDoc {
+            key: "temperature",
+            value: ValueKind::Temperature,
+            default: Some("the inlet temperature"),
+            meaning: "drum temperature",
+        },
+        KeyDoc {
+            key: "pressure-drop",
+            value: ValueKind::PressureDifference,
+            default: Some("0 bar"),
+            meaning: "pressure lost across the unit",
+        },
+    ],
+    example: "- name: knockout\n  type: knockout\n  from: cooled-gas\n  to: [raw-hydrogen, \
+              process-condensate]\n  temperature: 40 degC",
+    build: build::<Knockout>,
+};
+
+impl UnitKind for Knockout {
+    type Spec = KnockoutSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, KnockoutSpec>) -> Result<KnockoutSpec> {
+        Ok(KnockoutSpec {
+            temperature_k: b.number("temperature", ValueKind::Temperature, None, |s, v| {
+                s.temperature_k = Some(v)
+            })?,
+            pressure_drop_pa: b.pressure_drop(|s, v| s.pressure_drop_pa = v)?,
+        })
+    }
+
     /// Check the spec and prepare.
-    pub fn new(db: &SpeciesDb, name: &str, spec: &KnockoutSpec) -> Result<Knockout> {
+    fn new(db: &SpeciesDb, name: &str, spec: &KnockoutSpec) -> Result<Knockout> {
         if let Some(t) = spec.temperature_k {
             if !(t.is_finite() && t >= TRIPLE_POINT_K) {
                 return Err(spec_error(
@@ -62,24 +99,18 @@ impl Knockout {
         })
     }
 
-    /// The spec.
-    pub fn spec(&self) -> &KnockoutSpec {
+    fn spec(&self) -> &KnockoutSpec {
         &self.spec
-    }
-
-    /// Cool and separate; outlets [gas, condensate].
-    pub fn solve(&self, db: &SpeciesDb, inlets: &[&Stream]) -> Result<UnitResult> {
-        let mut out = UnitResult::default();
-        self.solve_into(db, inlets, &mut out)?;
-        Ok(out)
     }
 
     /// Cool and separate into `out` (its buffers reused: no heap allocation once they have
     /// their size, but for the warning above the critical temperature).
-    pub fn solve_into(
+    fn solve_into(
         &self,
         db: &SpeciesDb,
         inlets: &[&Stream],
+        _: Option<&[f64]>,
+        _: &mut UnitScratch,
         out: &mut UnitResult,
     ) -> Result<()> {
         let name = &self.name;
@@ -170,64 +201,6 @@ impl Knockout {
     }
 }
 
-/// The `knockout` unit type.
-pub static TYPE: UnitType = UnitType {
-    name: "knockout",
-    summary: "Knockout drum: the gas cooled to the drum temperature and the water that condenses \
-              there separated (Raoult's law on the IAPWS-IF97 saturation line).",
-    inlets: Ports::exactly(1, "wet gas"),
-    outlets: Ports::exactly(2, "gas, condensate"),
-    keys: &[
-        KeyDoc {
-            key: "temperature",
-            value: ValueKind::Temperature,
-            default: Some("the inlet temperature"),
-            meaning: "drum temperature",
-        },
-        KeyDoc {
-            key: "pressure-drop",
-            value: ValueKind::PressureDifference,
-            default: Some("0 bar"),
-            meaning: "pressure lost across the unit",
-        },
-    ],
-    example: "- name: knockout\n  type: knockout\n  from: cooled-gas\n  to: [raw-hydrogen, \
-              process-condensate]\n  temperature: 40 degC",
-    build: build::<Knockout>,
-};
-
-impl UnitKind for Knockout {
-    type Spec = KnockoutSpec;
-
-    fn read(b: &mut UnitBuilder<'_, '_, KnockoutSpec>) -> Result<KnockoutSpec> {
-        Ok(KnockoutSpec {
-            temperature_k: b.number("temperature", ValueKind::Temperature, None, |s, v| {
-                s.temperature_k = Some(v)
-            })?,
-            pressure_drop_pa: b.pressure_drop(|s, v| s.pressure_drop_pa = v)?,
-        })
-    }
-
-    fn new(db: &SpeciesDb, name: &str, spec: &KnockoutSpec) -> Result<Knockout> {
-        Knockout::new(db, name, spec)
-    }
-
-    fn spec(&self) -> &KnockoutSpec {
-        &self.spec
-    }
-
-    fn solve_into(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        _: Option<&[f64]>,
-        _: &mut UnitScratch,
-        out: &mut UnitResult,
-    ) -> Result<()> {
-        Knockout::solve_into(self, db, inlets, out)
-    }
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -253,7 +226,7 @@ mod tests {
             },
         )
         .unwrap();
-        let r = ko.solve(&db, &[&inlet]).unwrap();
+        let r = ko.solve(&db, &[&inlet], None).unwrap();
         assert_balances(&db, &[&inlet], &r);
         let w = db.index_of("H2O").unwrap();
         let g = &r.outlets[0];
@@ -285,7 +258,7 @@ mod tests {
             },
         )
         .unwrap();
-        let r = ko.solve(&db, &[&inlet]).unwrap();
+        let r = ko.solve(&db, &[&inlet], None).unwrap();
         assert_balances(&db, &[&inlet], &r);
         let w = db.index_of("H2O").unwrap();
         let cond = r.outlets[1].flows[w];
@@ -305,7 +278,7 @@ mod tests {
         let db = db();
         let inlet = gas(&db, &[("H2", 1.0), ("H2O", 0.001)], 320.0, 20e5);
         let ko = Knockout::new(&db, "ko", &KnockoutSpec::default()).unwrap();
-        let r = ko.solve(&db, &[&inlet]).unwrap();
+        let r = ko.solve(&db, &[&inlet], None).unwrap();
         assert_balances(&db, &[&inlet], &r);
         assert_eq!(r.outlets[1].total(), 0.0);
         assert_eq!(r.outlets[0].flows, inlet.flows);
@@ -318,7 +291,7 @@ mod tests {
             },
         )
         .unwrap();
-        let e = hot.solve(&db, &[&inlet]).unwrap_err().to_string();
+        let e = hot.solve(&db, &[&inlet], None).unwrap_err().to_string();
         assert!(e.contains("unit 'ko'") && e.contains("cools"), "{e}");
         let frozen = KnockoutSpec {
             temperature_k: Some(260.0),

@@ -39,9 +39,36 @@ pub struct Mixer {
     key: Key,
 }
 
-impl Mixer {
+/// The `mixer` unit type.
+pub static TYPE: UnitType = UnitType {
+    name: "mixer",
+    summary: "Adiabatic mixing of one or more streams (liquid water included); the outlet leaves \
+              at the lowest inlet pressure less the pressure drop, its temperature from the \
+              energy balance.",
+    inlets: Ports::at_least(1, "streams to mix"),
+    outlets: Ports::exactly(1, "mixed stream"),
+    keys: &[KeyDoc {
+        key: "pressure-drop",
+        value: ValueKind::PressureDifference,
+        default: Some("0 bar"),
+        meaning: "pressure lost across the unit",
+    }],
+    example: "- name: feed-mixer\n  type: mixer\n  from: [natural-gas, process-steam]\n  to: \
+              mixed-feed",
+    build: build::<Mixer>,
+};
+
+impl UnitKind for Mixer {
+    type Spec = MixerSpec;
+
+    fn read(b: &mut UnitBuilder<'_, '_, MixerSpec>) -> Result<MixerSpec> {
+        Ok(MixerSpec {
+            pressure_drop_pa: b.pressure_drop(|s, v| s.pressure_drop_pa = v)?,
+        })
+    }
+
     /// Check the spec and prepare.
-    pub fn new(db: &SpeciesDb, name: &str, spec: &MixerSpec) -> Result<Mixer> {
+    fn new(db: &SpeciesDb, name: &str, spec: &MixerSpec) -> Result<Mixer> {
         check_pressure_drop(name, spec.pressure_drop_pa)?;
         Ok(Mixer {
             name: name.to_string(),
@@ -50,23 +77,17 @@ impl Mixer {
         })
     }
 
-    /// The spec.
-    pub fn spec(&self) -> &MixerSpec {
+    fn spec(&self) -> &MixerSpec {
         &self.spec
     }
 
-    /// Mix the inlets.
-    pub fn solve(&self, db: &SpeciesDb, inlets: &[&Stream]) -> Result<UnitResult> {
-        let mut out = UnitResult::default();
-        self.solve_into(db, inlets, &mut out)?;
-        Ok(out)
-    }
-
     /// Mix the inlets into `out` (its buffers reused).
-    pub fn solve_into(
+    fn solve_into(
         &self,
         db: &SpeciesDb,
         inlets: &[&Stream],
+        _: Option<&[f64]>,
+        _: &mut UnitScratch,
         out: &mut UnitResult,
     ) -> Result<()> {
         let name = &self.name;
@@ -187,54 +208,6 @@ impl Mixer {
     }
 }
 
-/// The `mixer` unit type.
-pub static TYPE: UnitType = UnitType {
-    name: "mixer",
-    summary: "Adiabatic mixing of one or more streams (liquid water included); the outlet leaves \
-              at the lowest inlet pressure less the pressure drop, its temperature from the \
-              energy balance.",
-    inlets: Ports::at_least(1, "streams to mix"),
-    outlets: Ports::exactly(1, "mixed stream"),
-    keys: &[KeyDoc {
-        key: "pressure-drop",
-        value: ValueKind::PressureDifference,
-        default: Some("0 bar"),
-        meaning: "pressure lost across the unit",
-    }],
-    example: "- name: feed-mixer\n  type: mixer\n  from: [natural-gas, process-steam]\n  to: \
-              mixed-feed",
-    build: build::<Mixer>,
-};
-
-impl UnitKind for Mixer {
-    type Spec = MixerSpec;
-
-    fn read(b: &mut UnitBuilder<'_, '_, MixerSpec>) -> Result<MixerSpec> {
-        Ok(MixerSpec {
-            pressure_drop_pa: b.pressure_drop(|s, v| s.pressure_drop_pa = v)?,
-        })
-    }
-
-    fn new(db: &SpeciesDb, name: &str, spec: &MixerSpec) -> Result<Mixer> {
-        Mixer::new(db, name, spec)
-    }
-
-    fn spec(&self) -> &MixerSpec {
-        &self.spec
-    }
-
-    fn solve_into(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        _: Option<&[f64]>,
-        _: &mut UnitScratch,
-        out: &mut UnitResult,
-    ) -> Result<()> {
-        Mixer::solve_into(self, db, inlets, out)
-    }
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -247,7 +220,7 @@ mod tests {
         let ng = gas(&db, &[("CH4", 1.0), ("C2H6", 0.05)], 650.0, 30e5);
         let steam = gas(&db, &[("H2O", 3.3)], 660.0, 31e5);
         let m = Mixer::new(&db, "mix", &MixerSpec::default()).unwrap();
-        let r = m.solve(&db, &[&ng, &steam]).unwrap();
+        let r = m.solve(&db, &[&ng, &steam], None).unwrap();
         assert_balances(&db, &[&ng, &steam], &r);
         let out = &r.outlets[0];
         assert!(out.temperature_k > 650.0 && out.temperature_k < 660.0);
@@ -256,7 +229,7 @@ mod tests {
         // Equal temperatures mix to that temperature exactly (ideal gas: no heat of mixing).
         let a = gas(&db, &[("H2", 1.0)], 500.0, 2e5);
         let b = gas(&db, &[("N2", 2.0)], 500.0, 3e5);
-        let r = m.solve(&db, &[&a, &b]).unwrap();
+        let r = m.solve(&db, &[&a, &b], None).unwrap();
         assert!((r.outlets[0].temperature_k - 500.0).abs() < 1e-9);
         assert_balances(&db, &[&a, &b], &r);
     }
@@ -269,7 +242,7 @@ mod tests {
         let hot = gas(&db, &[("N2", 10.0)], 1073.15, 30e5);
         let mut water = gas(&db, &[("H2O", 1.0)], 423.15, 30e5);
         water.phase = StreamPhase::Liquid;
-        let r = m.solve(&db, &[&hot, &water]).unwrap();
+        let r = m.solve(&db, &[&hot, &water], None).unwrap();
         assert_balances(&db, &[&hot, &water], &r);
         let out = &r.outlets[0];
         assert_eq!(out.phase, StreamPhase::Vapour);
@@ -278,7 +251,7 @@ mod tests {
         // latent heat at 423.15 K: IAPWS SR1-86 via PyPI iapws 1.5.5, 2113.900 kJ/kg
         // x 18.015268 g/mol = 38.0826 kJ/mol.
         let steam = gas(&db, &[("H2O", 1.0)], 423.15, 30e5);
-        let r2 = m.solve(&db, &[&hot, &steam]).unwrap();
+        let r2 = m.solve(&db, &[&hot, &steam], None).unwrap();
         let h = |s: &Stream| s.enthalpy_w(&db).unwrap();
         let latent = h(&r2.outlets[0]) - h(out);
         assert!((latent - 38_082.6).abs() < 1.0, "{latent}");
@@ -297,7 +270,7 @@ mod tests {
         };
         // Two liquids: liquid at an enthalpy-weighted temperature (near the mean).
         let (a, b) = (liquid(1.0, 303.15), liquid(1.0, 423.15));
-        let r = m.solve(&db, &[&a, &b]).unwrap();
+        let r = m.solve(&db, &[&a, &b], None).unwrap();
         assert_balances(&db, &[&a, &b], &r);
         assert_eq!(r.outlets[0].phase, StreamPhase::Liquid);
         let t = r.outlets[0].temperature_k;
@@ -305,14 +278,17 @@ mod tests {
         // Superheated steam with a little spray water: steam (a desuperheater).
         let steam = gas(&db, &[("H2O", 10.0)], 723.15, 30e5);
         let spray = liquid(1.0, 423.15);
-        let r = m.solve(&db, &[&steam, &spray]).unwrap();
+        let r = m.solve(&db, &[&steam, &spray], None).unwrap();
         assert_balances(&db, &[&steam, &spray], &r);
         assert_eq!(r.outlets[0].phase, StreamPhase::Vapour);
         // T_s(3 MPa) = 507.008 K (IAPWS-IF97 eq. 31, PyPI iapws 1.5.5).
         assert!(r.outlets[0].temperature_k > 507.0);
         // Equal amounts of steam at 240 degC and water at 150 degC: wet steam, an error.
         let steam = gas(&db, &[("H2O", 1.0)], 513.15, 30e5);
-        let e = m.solve(&db, &[&steam, &spray]).unwrap_err().to_string();
+        let e = m
+            .solve(&db, &[&steam, &spray], None)
+            .unwrap_err()
+            .to_string();
         assert!(e.contains("unit 'mix'") && e.contains("wet steam"), "{e}");
     }
 
@@ -323,7 +299,10 @@ mod tests {
         // Gas at 60 degC with steam that saturates it: all vapour, below the dew point.
         let cold = gas(&db, &[("H2", 1.0)], 333.15, 20e5);
         let steam = gas(&db, &[("H2O", 1.0)], 500.0, 20e5);
-        let e = m.solve(&db, &[&cold, &steam]).unwrap_err().to_string();
+        let e = m
+            .solve(&db, &[&cold, &steam], None)
+            .unwrap_err()
+            .to_string();
         assert!(
             e.contains("unit 'mix'") && e.contains("below its water dew point"),
             "{e}"
@@ -337,9 +316,9 @@ mod tests {
         let mut wet = gas(&db, &[("H2O", 1.0), ("H2", 0.1)], 300.0, 2e5);
         wet.phase = StreamPhase::Liquid;
         let gas = gas(&db, &[("H2", 1.0)], 500.0, 2e5);
-        let e = m.solve(&db, &[&gas, &wet]).unwrap_err().to_string();
+        let e = m.solve(&db, &[&gas, &wet], None).unwrap_err().to_string();
         assert!(e.contains("inlet 2") && e.contains("water only"), "{e}");
-        let e = m.solve(&db, &[]).unwrap_err().to_string();
+        let e = m.solve(&db, &[], None).unwrap_err().to_string();
         assert!(e.contains("unit 'mix'") && e.contains("at least 1"), "{e}");
         let bad = MixerSpec {
             pressure_drop_pa: -1.0,

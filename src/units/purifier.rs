@@ -82,233 +82,6 @@ enum Mode {
     Split(Vec<f64>),
 }
 
-impl Purifier {
-    /// Check the spec and prepare.
-    pub fn new(db: &SpeciesDb, name: &str, spec: &PurifierSpec) -> Result<Purifier> {
-        let key = Key::new(db, name)?;
-        let r = spec.hydrogen_recovery;
-        if !(r > 0.0 && r <= 1.0) {
-            return Err(spec_error(
-                name,
-                "hydrogen-recovery",
-                format!("{r} must be a fraction above 0 and at most 1"),
-            ));
-        }
-        let p_tail = spec.tail_gas_pressure_pa;
-        if !(p_tail.is_finite() && p_tail > 0.0) {
-            return Err(spec_error(
-                name,
-                "tail-gas-pressure",
-                format!("{p_tail} Pa must be a positive absolute pressure"),
-            ));
-        }
-        check_pressure_drop(name, spec.pressure_drop_pa)?;
-        let mode = match &spec.product {
-            PurifierProduct::Purity(x) => {
-                if !(*x > 0.0 && *x <= 1.0) {
-                    return Err(spec_error(
-                        name,
-                        "purity",
-                        format!("{x} must be a mole fraction above 0 and at most 1"),
-                    ));
-                }
-                Mode::Purity(*x, weights(db, name, key.h2, &spec.impurity_weights)?)
-            }
-            PurifierProduct::ImpuritySplit(pairs) => {
-                if !spec.impurity_weights.is_empty() {
-                    return Err(spec_error(
-                        name,
-                        "impurity-weights",
-                        "go with a product `purity`; with an `impurity-split` each fraction is \
-                         given already",
-                    ));
-                }
-                let mut f = vec![0.0; db.len()];
-                for (species, v) in pairs {
-                    let i =
-                        db.require(species, &format!(" in the impurity split of unit '{name}'"))?;
-                    if i == key.h2 {
-                        return Err(spec_error(
-                            name,
-                            "impurity-split",
-                            "H2 is not an impurity; set its recovery with hydrogen-recovery",
-                        ));
-                    }
-                    if !(*v >= 0.0 && *v <= 1.0) {
-                        return Err(spec_error(
-                            name,
-                            "impurity-split",
-                            format!("{species}: {v} must be a fraction 0..1"),
-                        ));
-                    }
-                    f[i] = *v;
-                }
-                Mode::Split(f)
-            }
-        };
-        Ok(Purifier {
-            name: name.to_string(),
-            spec: spec.clone(),
-            key,
-            mode,
-        })
-    }
-
-    /// The spec.
-    pub fn spec(&self) -> &PurifierSpec {
-        &self.spec
-    }
-
-    /// Purify; outlets [product, tail gas].
-    pub fn solve(&self, db: &SpeciesDb, inlets: &[&Stream]) -> Result<UnitResult> {
-        let mut out = UnitResult::default();
-        self.solve_into(db, inlets, &mut UnitScratch::default(), &mut out)?;
-        Ok(out)
-    }
-
-    /// Purify into `out` (its buffers and `scratch` reused: no heap allocation once they have
-    /// their size); outlets [product, tail gas].
-    pub fn solve_into(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        scratch: &mut UnitScratch,
-        out: &mut UnitResult,
-    ) -> Result<()> {
-        let name = &self.name;
-        let h2 = self.key.h2;
-        check_inlets(db, name, "purifier", inlets, 1, Some(1))?;
-        require_vapour(db, name, inlets)?;
-        let inlet = inlets[0];
-        let p_product = outlet_pressure(name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
-        let p_tail = self.spec.tail_gas_pressure_pa;
-        if p_tail > inlet.pressure_pa {
-            return Err(spec_error(
-                name,
-                "tail-gas-pressure",
-                format!(
-                    "{:.4} bar is above the feed pressure {:.4} bar; a purifier's tail gas \
-                     leaves at low pressure",
-                    p_tail / 1e5,
-                    inlet.pressure_pa / 1e5
-                ),
-            ));
-        }
-        let h2_feed = inlet.flows[h2];
-        if h2_feed <= 0.0 {
-            return Err(spec_error(name, "inlet", "carries no hydrogen to purify"));
-        }
-        let h2_product = self.spec.hydrogen_recovery * h2_feed;
-        out.reset(2, db.len());
-        out.equilibrium = None;
-        let product = &mut out.outlets[0].flows;
-        product[h2] = h2_product;
-        match &self.mode {
-            Mode::Purity(x, w) => {
-                let impurities: f64 = inlet.total() - h2_feed;
-                let wanted = h2_product * (1.0 - x) / x;
-                if wanted > impurities * (1.0 + 1e-12) {
-                    return Err(spec_error(
-                        name,
-                        "purity",
-                        format!(
-                            "{x} cannot be met: at a recovery of {} the product would need \
-                             {wanted:.6} mol/s of impurities, the feed has only {impurities:.6}; \
-                             raise the purity (or the feed's hydrogen fraction is above it)",
-                            self.spec.hydrogen_recovery
-                        ),
-                    ));
-                }
-                if wanted > 0.0 {
-                    let shares = &mut scratch.flows[0];
-                    if !weighted_shares(&inlet.flows, w, wanted, shares) {
-                        let reachable: f64 = inlet
-                            .flows
-                            .iter()
-                            .zip(w)
-                            .filter(|(_, w)| **w > 0.0)
-                            .map(|(n, _)| n)
-                            .sum();
-                        return Err(spec_error(
-                            name,
-                            "purity",
-                            format!(
-                                "{x} cannot be met: the product would need {wanted:.6} mol/s of \
-                                 impurities, but those that reach it (a weight above zero) \
-                                 amount to {reachable:.6} mol/s in the feed; raise the purity or \
-                                 give `impurity-weights` for the others"
-                            ),
-                        ));
-                    }
-                    for (i, f) in shares.iter().enumerate() {
-                        if i != h2 {
-                            product[i] = inlet.flows[i] * f;
-                        }
-                    }
-                }
-            }
-            Mode::Split(f) => {
-                for (i, n) in inlet.flows.iter().enumerate() {
-                    if i != h2 {
-                        product[i] = n * f[i];
-                    }
-                }
-            }
-        }
-        let (first, second) = out.outlets.split_at_mut(1);
-        let (product, tail) = (&mut first[0], &mut second[0]);
-        for ((t, n), p) in tail.flows.iter_mut().zip(&inlet.flows).zip(&product.flows) {
-            *t = (n - p).max(0.0);
-        }
-        product.temperature_k = inlet.temperature_k;
-        product.pressure_pa = p_product;
-        product.phase = StreamPhase::Vapour;
-        tail.temperature_k = inlet.temperature_k;
-        tail.pressure_pa = p_tail;
-        tail.phase = StreamPhase::Vapour;
-        let (product, tail) = (&out.outlets[0], &out.outlets[1]);
-        out.figures.extend([
-            figure(
-                "hydrogen-recovery",
-                "hydrogen recovery",
-                product.flows[h2] / h2_feed,
-                FigureKind::Fraction,
-            ),
-            figure(
-                "product-purity",
-                "product purity (H2)",
-                product.mole_fraction(h2),
-                FigureKind::Fraction,
-            ),
-            figure(
-                "product-flow",
-                "product",
-                product.total(),
-                FigureKind::MolarFlow,
-            ),
-            figure(
-                "hydrogen-product",
-                "hydrogen in the product",
-                product.flows[h2],
-                FigureKind::MolarFlow,
-            ),
-            figure(
-                "tail-gas-flow",
-                "tail gas",
-                tail.total(),
-                FigureKind::MolarFlow,
-            ),
-            figure(
-                "tail-gas-h2",
-                "H2 in the tail gas",
-                tail.mole_fraction(h2),
-                FigureKind::Fraction,
-            ),
-        ]);
-        Ok(())
-    }
-}
-
 /// The weight of every database species: the defaults, then the overrides (checked), H2 zero.
 fn weights(db: &SpeciesDb, unit: &str, h2: usize, overrides: &[(String, f64)]) -> Result<Vec<f64>> {
     let mut w = vec![0.0; db.len()];
@@ -540,14 +313,83 @@ impl UnitKind for Purifier {
         })
     }
 
+    /// Check the spec and prepare.
     fn new(db: &SpeciesDb, name: &str, spec: &PurifierSpec) -> Result<Purifier> {
-        Purifier::new(db, name, spec)
+        let key = Key::new(db, name)?;
+        let r = spec.hydrogen_recovery;
+        if !(r > 0.0 && r <= 1.0) {
+            return Err(spec_error(
+                name,
+                "hydrogen-recovery",
+                format!("{r} must be a fraction above 0 and at most 1"),
+            ));
+        }
+        let p_tail = spec.tail_gas_pressure_pa;
+        if !(p_tail.is_finite() && p_tail > 0.0) {
+            return Err(spec_error(
+                name,
+                "tail-gas-pressure",
+                format!("{p_tail} Pa must be a positive absolute pressure"),
+            ));
+        }
+        check_pressure_drop(name, spec.pressure_drop_pa)?;
+        let mode = match &spec.product {
+            PurifierProduct::Purity(x) => {
+                if !(*x > 0.0 && *x <= 1.0) {
+                    return Err(spec_error(
+                        name,
+                        "purity",
+                        format!("{x} must be a mole fraction above 0 and at most 1"),
+                    ));
+                }
+                Mode::Purity(*x, weights(db, name, key.h2, &spec.impurity_weights)?)
+            }
+            PurifierProduct::ImpuritySplit(pairs) => {
+                if !spec.impurity_weights.is_empty() {
+                    return Err(spec_error(
+                        name,
+                        "impurity-weights",
+                        "go with a product `purity`; with an `impurity-split` each fraction is \
+                         given already",
+                    ));
+                }
+                let mut f = vec![0.0; db.len()];
+                for (species, v) in pairs {
+                    let i =
+                        db.require(species, &format!(" in the impurity split of unit '{name}'"))?;
+                    if i == key.h2 {
+                        return Err(spec_error(
+                            name,
+                            "impurity-split",
+                            "H2 is not an impurity; set its recovery with hydrogen-recovery",
+                        ));
+                    }
+                    if !(*v >= 0.0 && *v <= 1.0) {
+                        return Err(spec_error(
+                            name,
+                            "impurity-split",
+                            format!("{species}: {v} must be a fraction 0..1"),
+                        ));
+                    }
+                    f[i] = *v;
+                }
+                Mode::Split(f)
+            }
+        };
+        Ok(Purifier {
+            name: name.to_string(),
+            spec: spec.clone(),
+            key,
+            mode,
+        })
     }
 
     fn spec(&self) -> &PurifierSpec {
         &self.spec
     }
 
+    /// Purify into `out` (its buffers and `scratch` reused: no heap allocation once they have
+    /// their size); outlets [product, tail gas].
     fn solve_into(
         &self,
         db: &SpeciesDb,
@@ -556,7 +398,137 @@ impl UnitKind for Purifier {
         scratch: &mut UnitScratch,
         out: &mut UnitResult,
     ) -> Result<()> {
-        Purifier::solve_into(self, db, inlets, scratch, out)
+        let name = &self.name;
+        let h2 = self.key.h2;
+        check_inlets(db, name, "purifier", inlets, 1, Some(1))?;
+        require_vapour(db, name, inlets)?;
+        let inlet = inlets[0];
+        let p_product = outlet_pressure(name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
+        let p_tail = self.spec.tail_gas_pressure_pa;
+        if p_tail > inlet.pressure_pa {
+            return Err(spec_error(
+                name,
+                "tail-gas-pressure",
+                format!(
+                    "{:.4} bar is above the feed pressure {:.4} bar; a purifier's tail gas \
+                     leaves at low pressure",
+                    p_tail / 1e5,
+                    inlet.pressure_pa / 1e5
+                ),
+            ));
+        }
+        let h2_feed = inlet.flows[h2];
+        if h2_feed <= 0.0 {
+            return Err(spec_error(name, "inlet", "carries no hydrogen to purify"));
+        }
+        let h2_product = self.spec.hydrogen_recovery * h2_feed;
+        out.reset(2, db.len());
+        out.equilibrium = None;
+        let product = &mut out.outlets[0].flows;
+        product[h2] = h2_product;
+        match &self.mode {
+            Mode::Purity(x, w) => {
+                let impurities: f64 = inlet.total() - h2_feed;
+                let wanted = h2_product * (1.0 - x) / x;
+                if wanted > impurities * (1.0 + 1e-12) {
+                    return Err(spec_error(
+                        name,
+                        "purity",
+                        format!(
+                            "{x} cannot be met: at a recovery of {} the product would need \
+                             {wanted:.6} mol/s of impurities, the feed has only {impurities:.6}; \
+                             raise the purity (or the feed's hydrogen fraction is above it)",
+                            self.spec.hydrogen_recovery
+                        ),
+                    ));
+                }
+                if wanted > 0.0 {
+                    let shares = &mut scratch.flows[0];
+                    if !weighted_shares(&inlet.flows, w, wanted, shares) {
+                        let reachable: f64 = inlet
+                            .flows
+                            .iter()
+                            .zip(w)
+                            .filter(|(_, w)| **w > 0.0)
+                            .map(|(n, _)| n)
+                            .sum();
+                        return Err(spec_error(
+                            name,
+                            "purity",
+                            format!(
+                                "{x} cannot be met: the product would need {wanted:.6} mol/s of \
+                                 impurities, but those that reach it (a weight above zero) \
+                                 amount to {reachable:.6} mol/s in the feed; raise the purity or \
+                                 give `impurity-weights` for the others"
+                            ),
+                        ));
+                    }
+                    for (i, f) in shares.iter().enumerate() {
+                        if i != h2 {
+                            product[i] = inlet.flows[i] * f;
+                        }
+                    }
+                }
+            }
+            Mode::Split(f) => {
+                for (i, n) in inlet.flows.iter().enumerate() {
+                    if i != h2 {
+                        product[i] = n * f[i];
+                    }
+                }
+            }
+        }
+        let (first, second) = out.outlets.split_at_mut(1);
+        let (product, tail) = (&mut first[0], &mut second[0]);
+        for ((t, n), p) in tail.flows.iter_mut().zip(&inlet.flows).zip(&product.flows) {
+            *t = (n - p).max(0.0);
+        }
+        product.temperature_k = inlet.temperature_k;
+        product.pressure_pa = p_product;
+        product.phase = StreamPhase::Vapour;
+        tail.temperature_k = inlet.temperature_k;
+        tail.pressure_pa = p_tail;
+        tail.phase = StreamPhase::Vapour;
+        let (product, tail) = (&out.outlets[0], &out.outlets[1]);
+        out.figures.extend([
+            figure(
+                "hydrogen-recovery",
+                "hydrogen recovery",
+                product.flows[h2] / h2_feed,
+                FigureKind::Fraction,
+            ),
+            figure(
+                "product-purity",
+                "product purity (H2)",
+                product.mole_fraction(h2),
+                FigureKind::Fraction,
+            ),
+            figure(
+                "product-flow",
+                "product",
+                product.total(),
+                FigureKind::MolarFlow,
+            ),
+            figure(
+                "hydrogen-product",
+                "hydrogen in the product",
+                product.flows[h2],
+                FigureKind::MolarFlow,
+            ),
+            figure(
+                "tail-gas-flow",
+                "tail gas",
+                tail.total(),
+                FigureKind::MolarFlow,
+            ),
+            figure(
+                "tail-gas-h2",
+                "H2 in the tail gas",
+                tail.mole_fraction(h2),
+                FigureKind::Fraction,
+            ),
+        ]);
+        Ok(())
     }
 }
 
@@ -597,7 +569,7 @@ mod tests {
         let f = feed(&db);
         let r = Purifier::new(&db, "psa", &spec(PurifierProduct::Purity(0.9999)))
             .unwrap()
-            .solve(&db, &[&f])
+            .solve(&db, &[&f], None)
             .unwrap();
         assert_balances(&db, &[&f], &r);
         assert!((fig(&r, "hydrogen-recovery") - 0.88).abs() < 1e-15);
@@ -619,7 +591,7 @@ mod tests {
         // Pure product.
         let r = Purifier::new(&db, "psa", &spec(PurifierProduct::Purity(1.0)))
             .unwrap()
-            .solve(&db, &[&f])
+            .solve(&db, &[&f], None)
             .unwrap();
         assert_balances(&db, &[&f], &r);
         assert_eq!(fig(&r, "product-purity"), 1.0);
@@ -634,7 +606,7 @@ mod tests {
         // 0.01 of N2 all goes (its share would exceed one), CO and CH4 share the rest 0.1 : 0.02.
         let r = Purifier::new(&db, "psa", &spec(PurifierProduct::Purity(0.95)))
             .unwrap()
-            .solve(&db, &[&f])
+            .solve(&db, &[&f], None)
             .unwrap();
         assert_balances(&db, &[&f], &r);
         let p = &r.outlets[0];
@@ -649,7 +621,7 @@ mod tests {
         with_co2.impurity_weights = vec![("CO2".into(), 1.0)];
         let r = Purifier::new(&db, "psa", &with_co2)
             .unwrap()
-            .solve(&db, &[&f])
+            .solve(&db, &[&f], None)
             .unwrap();
         let p = &r.outlets[0];
         assert!((p.flows[by("CO2")] / p.flows[by("N2")] - 17.0).abs() < 1e-9);
@@ -657,7 +629,7 @@ mod tests {
         let held = gas(&db, &[("H2", 0.75), ("CO2", 0.25)], 313.15, 25e5);
         let e = Purifier::new(&db, "psa", &spec(PurifierProduct::Purity(0.999)))
             .unwrap()
-            .solve(&db, &[&held])
+            .solve(&db, &[&held], None)
             .unwrap_err()
             .to_string();
         assert!(e.contains("impurity-weights"), "{e}");
@@ -676,7 +648,7 @@ mod tests {
         let split = PurifierProduct::ImpuritySplit(vec![("N2".into(), 0.1)]);
         let r = Purifier::new(&db, "psa", &spec(split))
             .unwrap()
-            .solve(&db, &[&f])
+            .solve(&db, &[&f], None)
             .unwrap();
         assert_balances(&db, &[&f], &r);
         let n2 = db.index_of("N2").unwrap();
@@ -685,7 +657,7 @@ mod tests {
         assert!((fig(&r, "product-purity") - purity).abs() < 1e-14);
         // A purity below what the feed's impurities allow at this recovery is impossible.
         let low = Purifier::new(&db, "psa", &spec(PurifierProduct::Purity(0.5))).unwrap();
-        let e = low.solve(&db, &[&f]).unwrap_err().to_string();
+        let e = low.solve(&db, &[&f], None).unwrap_err().to_string();
         assert!(
             e.contains("unit 'psa'") && e.contains("cannot be met"),
             "{e}"
@@ -696,6 +668,6 @@ mod tests {
         let mut high_tail = spec(PurifierProduct::Purity(0.999));
         high_tail.tail_gas_pressure_pa = 30e5;
         let p = Purifier::new(&db, "psa", &high_tail).unwrap();
-        assert!(p.solve(&db, &[&f]).is_err());
+        assert!(p.solve(&db, &[&f], None).is_err());
     }
 }

@@ -37,77 +37,6 @@ pub struct Splitter {
 }
 
 impl Splitter {
-    /// Check the spec and prepare.
-    pub fn new(name: &str, spec: &SplitterSpec) -> Result<Splitter> {
-        let (entries, what) = match &spec.split {
-            Split::Fractions(v) => (v, "fraction"),
-            Split::Flows(v) => (v, "flow"),
-        };
-        if entries.len() < 2 {
-            return Err(spec_error(
-                name,
-                "split",
-                format!(
-                    "a splitter needs at least 2 outlets, {} given",
-                    entries.len()
-                ),
-            ));
-        }
-        if entries.iter().filter(|e| e.is_none()).count() > 1 {
-            return Err(spec_error(
-                name,
-                "split",
-                "only one outlet may take the rest",
-            ));
-        }
-        for (k, e) in entries.iter().enumerate() {
-            if let Some(v) = e {
-                let ok = v.is_finite() && *v >= 0.0 && (what == "flow" || *v <= 1.0);
-                if !ok {
-                    return Err(spec_error(
-                        name,
-                        "split",
-                        format!(
-                            "outlet {}: {what} {v} must be {}",
-                            k + 1,
-                            if what == "flow" {
-                                "finite and not negative (mol/s)"
-                            } else {
-                                "between 0 and 1"
-                            }
-                        ),
-                    ));
-                }
-            }
-        }
-        if let Split::Fractions(v) = &spec.split {
-            let sum: f64 = v.iter().flatten().sum();
-            let rest = v.iter().any(|e| e.is_none());
-            if (!rest && (sum - 1.0).abs() > SPLIT_SUM_TOLERANCE)
-                || (rest && sum > 1.0 + SPLIT_SUM_TOLERANCE)
-            {
-                return Err(spec_error(
-                    name,
-                    "split",
-                    format!(
-                        "fractions sum to {sum}; they must sum to 1 (or leave one outlet to take \
-                         the rest)"
-                    ),
-                ));
-            }
-        }
-        check_pressure_drop(name, spec.pressure_drop_pa)?;
-        Ok(Splitter {
-            name: name.to_string(),
-            spec: spec.clone(),
-        })
-    }
-
-    /// The spec.
-    pub fn spec(&self) -> &SplitterSpec {
-        &self.spec
-    }
-
     /// Number of outlets.
     pub fn outlet_count(&self) -> usize {
         match &self.spec.split {
@@ -160,57 +89,6 @@ impl Splitter {
             for x in f.iter_mut() {
                 *x /= sum;
             }
-        }
-        Ok(())
-    }
-
-    /// Split the inlet.
-    pub fn solve(&self, db: &SpeciesDb, inlets: &[&Stream]) -> Result<UnitResult> {
-        let mut out = UnitResult::default();
-        self.solve_into(db, inlets, &mut UnitScratch::default(), &mut out)?;
-        Ok(out)
-    }
-
-    /// Split the inlet into `out` (its buffers and `scratch` reused: no heap allocation once
-    /// they have their size).
-    pub fn solve_into(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        scratch: &mut UnitScratch,
-        out: &mut UnitResult,
-    ) -> Result<()> {
-        check_inlets(db, &self.name, "splitter", inlets, 1, Some(1))?;
-        let inlet = inlets[0];
-        let p = outlet_pressure(&self.name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
-        let f = &mut scratch.flows[0];
-        self.fractions_into(inlet.total(), f)?;
-        let last = f.len() - 1;
-        out.reset(f.len(), db.len());
-        out.equilibrium = None;
-        // The last outlet starts as the whole inlet and gives up each part in turn, so that it
-        // takes what is left and the balance closes to rounding.
-        let (parts, rest) = out.outlets.split_at_mut(last);
-        let remaining = &mut rest[0].flows;
-        remaining.copy_from_slice(&inlet.flows);
-        for (outlet, x) in parts.iter_mut().zip(f.iter()) {
-            for ((o, n), r) in outlet
-                .flows
-                .iter_mut()
-                .zip(&inlet.flows)
-                .zip(remaining.iter_mut())
-            {
-                *o = n * x;
-                *r -= *o;
-            }
-        }
-        for r in remaining.iter_mut() {
-            *r = r.max(0.0);
-        }
-        for outlet in &mut out.outlets {
-            outlet.temperature_k = inlet.temperature_k;
-            outlet.pressure_pa = p;
-            outlet.phase = inlet.phase;
         }
         Ok(())
     }
@@ -300,14 +178,78 @@ impl UnitKind for Splitter {
         })
     }
 
+    /// Check the spec and prepare.
     fn new(_: &SpeciesDb, name: &str, spec: &SplitterSpec) -> Result<Splitter> {
-        Splitter::new(name, spec)
+        let (entries, what) = match &spec.split {
+            Split::Fractions(v) => (v, "fraction"),
+            Split::Flows(v) => (v, "flow"),
+        };
+        if entries.len() < 2 {
+            return Err(spec_error(
+                name,
+                "split",
+                format!(
+                    "a splitter needs at least 2 outlets, {} given",
+                    entries.len()
+                ),
+            ));
+        }
+        if entries.iter().filter(|e| e.is_none()).count() > 1 {
+            return Err(spec_error(
+                name,
+                "split",
+                "only one outlet may take the rest",
+            ));
+        }
+        for (k, e) in entries.iter().enumerate() {
+            if let Some(v) = e {
+                let ok = v.is_finite() && *v >= 0.0 && (what == "flow" || *v <= 1.0);
+                if !ok {
+                    return Err(spec_error(
+                        name,
+                        "split",
+                        format!(
+                            "outlet {}: {what} {v} must be {}",
+                            k + 1,
+                            if what == "flow" {
+                                "finite and not negative (mol/s)"
+                            } else {
+                                "between 0 and 1"
+                            }
+                        ),
+                    ));
+                }
+            }
+        }
+        if let Split::Fractions(v) = &spec.split {
+            let sum: f64 = v.iter().flatten().sum();
+            let rest = v.iter().any(|e| e.is_none());
+            if (!rest && (sum - 1.0).abs() > SPLIT_SUM_TOLERANCE)
+                || (rest && sum > 1.0 + SPLIT_SUM_TOLERANCE)
+            {
+                return Err(spec_error(
+                    name,
+                    "split",
+                    format!(
+                        "fractions sum to {sum}; they must sum to 1 (or leave one outlet to take \
+                         the rest)"
+                    ),
+                ));
+            }
+        }
+        check_pressure_drop(name, spec.pressure_drop_pa)?;
+        Ok(Splitter {
+            name: name.to_string(),
+            spec: spec.clone(),
+        })
     }
 
     fn spec(&self) -> &SplitterSpec {
         &self.spec
     }
 
+    /// Split the inlet into `out` (its buffers and `scratch` reused: no heap allocation once
+    /// they have their size).
     fn solve_into(
         &self,
         db: &SpeciesDb,
@@ -316,7 +258,39 @@ impl UnitKind for Splitter {
         scratch: &mut UnitScratch,
         out: &mut UnitResult,
     ) -> Result<()> {
-        Splitter::solve_into(self, db, inlets, scratch, out)
+        check_inlets(db, &self.name, "splitter", inlets, 1, Some(1))?;
+        let inlet = inlets[0];
+        let p = outlet_pressure(&self.name, inlet.pressure_pa, self.spec.pressure_drop_pa)?;
+        let f = &mut scratch.flows[0];
+        self.fractions_into(inlet.total(), f)?;
+        let last = f.len() - 1;
+        out.reset(f.len(), db.len());
+        out.equilibrium = None;
+        // The last outlet starts as the whole inlet and gives up each part in turn, so that it
+        // takes what is left and the balance closes to rounding.
+        let (parts, rest) = out.outlets.split_at_mut(last);
+        let remaining = &mut rest[0].flows;
+        remaining.copy_from_slice(&inlet.flows);
+        for (outlet, x) in parts.iter_mut().zip(f.iter()) {
+            for ((o, n), r) in outlet
+                .flows
+                .iter_mut()
+                .zip(&inlet.flows)
+                .zip(remaining.iter_mut())
+            {
+                *o = n * x;
+                *r -= *o;
+            }
+        }
+        for r in remaining.iter_mut() {
+            *r = r.max(0.0);
+        }
+        for outlet in &mut out.outlets {
+            outlet.temperature_k = inlet.temperature_k;
+            outlet.pressure_pa = p;
+            outlet.phase = inlet.phase;
+        }
+        Ok(())
     }
 }
 
@@ -333,9 +307,9 @@ mod tests {
             split: Split::Fractions(vec![Some(0.25), None]),
             pressure_drop_pa: 0.0,
         };
-        let r = Splitter::new("tee", &spec)
+        let r = Splitter::new(&db, "tee", &spec)
             .unwrap()
-            .solve(&db, &[&s])
+            .solve(&db, &[&s], None)
             .unwrap();
         assert_balances(&db, &[&s], &r);
         assert!((r.outlets[0].total() - 1.0).abs() < 1e-15);
@@ -345,9 +319,9 @@ mod tests {
             split: Split::Flows(vec![Some(1.0), Some(2.0), Some(1.0)]),
             pressure_drop_pa: 0.1e5,
         };
-        let r = Splitter::new("tee", &spec)
+        let r = Splitter::new(&db, "tee", &spec)
             .unwrap()
-            .solve(&db, &[&s])
+            .solve(&db, &[&s], None)
             .unwrap();
         assert_balances(&db, &[&s], &r);
         assert!((r.outlets[1].total() - 2.0).abs() < 1e-15);
@@ -369,12 +343,14 @@ mod tests {
             Split::Fractions(vec![Some(-0.1), None]),
             Split::Flows(vec![Some(f64::NAN), None]),
         ] {
-            let e = Splitter::new("tee", &bad(split)).unwrap_err().to_string();
+            let e = Splitter::new(&db, "tee", &bad(split))
+                .unwrap_err()
+                .to_string();
             assert!(e.contains("unit 'tee'"), "{e}");
         }
-        let sp = Splitter::new("tee", &bad(Split::Flows(vec![Some(1.0), Some(1.0)]))).unwrap();
-        assert!(sp.solve(&db, &[&s]).is_err());
-        let sp = Splitter::new("tee", &bad(Split::Flows(vec![Some(4.0), None]))).unwrap();
-        assert!(sp.solve(&db, &[&s]).is_err());
+        let sp = Splitter::new(&db, "tee", &bad(Split::Flows(vec![Some(1.0), Some(1.0)]))).unwrap();
+        assert!(sp.solve(&db, &[&s], None).is_err());
+        let sp = Splitter::new(&db, "tee", &bad(Split::Flows(vec![Some(4.0), None]))).unwrap();
+        assert!(sp.solve(&db, &[&s], None).is_err());
     }
 }

@@ -1,7 +1,7 @@
 //! Findings of a code review, each with a test that fails without its fix.
 
 use syntrain::thermo::SpeciesDb;
-use syntrain::units::{Split, Splitter, SplitterSpec, Stream};
+use syntrain::units::{Split, Splitter, SplitterSpec, Stream, UnitKind};
 
 /// The splitter marked the outlet that takes the rest with NaN inside its fractions, a marker
 /// that a NaN from a caller could be mistaken for; it now keeps `None` for that outlet
@@ -17,7 +17,7 @@ fn splitter_rest_outlet_takes_what_is_left_and_nan_is_refused() {
         split,
         pressure_drop_pa: 0.0,
     };
-    let solve = |spec: SplitterSpec| Splitter::new("tee", &spec)?.solve(&db, &[&inlet]);
+    let solve = |spec: SplitterSpec| Splitter::new(&db, "tee", &spec)?.solve(&db, &[&inlet], None);
     let r = solve(spec(Split::Fractions(vec![Some(0.25), None, Some(0.5)]))).unwrap();
     let totals: Vec<f64> = r.outlets.iter().map(|s| s.total()).collect();
     assert_eq!(totals, vec![0.75, 0.75, 1.5]);
