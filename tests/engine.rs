@@ -217,16 +217,18 @@ fn a_changed_input_equals_a_file_edited_by_hand() {
 }
 
 #[test]
-fn a_changed_splitter_and_mixer_input_equals_an_edited_file() {
-    // The splitter and mixer are not in the demo: a small file of our own.
+fn a_changed_splitter_mixer_and_methanator_input_equals_an_edited_file() {
+    // The splitter, mixer and methanator are not in the demo: a small file of our own.
     let db = db();
     let text = "title: split and mix (invented)
 feeds:
   a: {temperature: 300 degC, pressure: 20 bar, flows: {H2: 100 kmol/h, N2: 10 kmol/h}}
   b: {temperature: 200 degC, pressure: 21 bar, flows: {CH4: 50 kmol/h}}
+  c: {temperature: 300 degC, pressure: 25 bar, flows: {H2: 740 kmol/h, CO: 3 kmol/h, CO2: 2 kmol/h, CH4: 30 kmol/h, N2: 5 kmol/h, H2O: 3 kmol/h}}
 units:
   - {name: tee, type: splitter, from: a, to: [one, two], fractions: {one: 0.3}}
   - {name: mix, type: mixer, from: [one, b], to: mixed, pressure-drop: 0.1 bar}
+  - {name: meth, type: methanator, from: c, to: methanated, approach: {reforming: 10 K}}
 ";
     let fs = Flowsheet::from_yaml_str("t", text, &db).unwrap();
     for (path, value, from, to) in [
@@ -245,6 +247,11 @@ units:
             .unwrap()
             .solve(&db)
             .unwrap();
+        let base = fs.solve(&db).unwrap();
+        let moved = a.streams.iter().zip(&base.streams).any(|(x, y)| {
+            x.stream.flows != y.stream.flows || x.stream.pressure_pa != y.stream.pressure_pa
+        });
+        assert!(moved, "{path}: changing it changed nothing");
         for (x, y) in a.streams.iter().zip(&b.streams) {
             assert!(
                 close(x.stream.temperature_k, y.stream.temperature_k, 1e-12),
