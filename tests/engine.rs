@@ -435,3 +435,66 @@ fn solver_options_come_from_the_file_and_are_checked() {
         "{e}"
     );
 }
+
+#[test]
+fn a_workspace_warm_starts_from_its_previous_solution() {
+    let db = db();
+    let fs = Flowsheet::from_file(&root().join("flowsheets/demo-train.yaml"), &db).unwrap();
+    let p = fs.parameters();
+    let mut ws = fs.workspace(&db);
+    let iterations = |r: &syntrain::flowsheet::FlowsheetResult| -> usize {
+        r.units
+            .iter()
+            .filter_map(|u| u.result.equilibrium.as_ref())
+            .map(|e| e.iterations)
+            .sum()
+    };
+    let cold = iterations(fs.solve_in(&db, &p, &mut ws).unwrap());
+    let warm = iterations(fs.solve_in(&db, &p, &mut ws).unwrap());
+    // Started from its own answer, every stage needs fewer Newton steps.
+    assert!(warm < cold, "warm {warm}, cold {cold}");
+    ws.forget();
+    assert_eq!(iterations(fs.solve_in(&db, &p, &mut ws).unwrap()), cold);
+}
+
+#[test]
+fn feed_inputs_are_checked_and_a_mass_total_converts_with_the_mean_molar_mass() {
+    let db = db();
+    let text = "title: feeds (invented)
+feeds:
+  steam: {temperature: 400 degC, pressure: 30 bar, total: 36 t/h, mole-fractions: {H2O: 1}}
+  gas: {temperature: 380 degC, pressure: 30 bar, flows: {CH4: 100 kmol/h, N2: 5 kmol/h}}
+units:
+  - {name: mix, type: mixer, from: [steam, gas], to: mixed}
+";
+    let fs = Flowsheet::from_yaml_str("f", text, &db).unwrap();
+    // 36 t/h of water at 18.015 kg/kmol (IUPAC 2013 atomic weights, H 1.008, O 15.999).
+    let steam = fs.feeds()[0].stream.total() * 3.6;
+    assert!((steam - 36_000.0 / 18.015).abs() < 1e-9, "{steam}");
+    let slot = |path: &str| fs.input(path).unwrap().0;
+    let solve = |path: &str, v: f64| {
+        let mut p = fs.parameters();
+        p[slot(path)] = v;
+        fs.solve_with(&db, &p, None)
+    };
+    // A zero species flow is allowed, a negative one or a NaN is not; temperature and
+    // pressure must be positive.
+    assert!(solve("feeds.gas.flows.CH4", 0.0).is_ok());
+    for (path, v) in [
+        ("feeds.gas.flows.CH4", -1.0),
+        ("feeds.gas.flows.CH4", f64::NAN),
+        ("feeds.gas.temperature", 0.0),
+        ("feeds.gas.pressure", -1e5),
+        ("feeds.steam.total", 0.0),
+    ] {
+        let e = solve(path, v).unwrap_err().to_string();
+        assert!(e.contains(path.rsplit_once('.').unwrap().0), "{path}: {e}");
+    }
+    // A changed total scales the composition: half the steam.
+    let half = solve(
+        "feeds.steam.total",
+        fs.inputs()[slot("feeds.steam.total")].default / 2.0,
+    )
+    .unwrap();
+    assert!((half.streams[0].stream.total() * 3.6 - steam / 2.0).abs() < 1e-9);
+}
