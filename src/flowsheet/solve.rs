@@ -518,6 +518,30 @@ mod tests {
         );
         let table = ElementTable::new(&db);
         assert!(element_balance(&table, &[feed.clone(), same]).unwrap() == 0.0);
+        // Below the tolerance the residual is reported as it is: 1e-10 more CH4 is 1e-10 more
+        // carbon relative to the carbon fed (and the same for hydrogen).
+        let little = stream(
+            &db,
+            "b",
+            StreamSource::Unit("u".into()),
+            None,
+            &[("CH4", 1.0 + 1e-10)],
+        );
+        let r = element_balance(&table, &[feed.clone(), little]).unwrap();
+        assert!((r - 1e-10).abs() < 1e-15, "{r:e}");
+        // An element present only in the product (argon, none fed) is measured against
+        // 1e-12 of all the atoms fed (5 per CH4): 1e-13 mol of Ar is 0.02 relative.
+        let trace = stream(
+            &db,
+            "b",
+            StreamSource::Unit("u".into()),
+            None,
+            &[("CH4", 1.0), ("Ar", 1e-13)],
+        );
+        let e = element_balance(&table, &[feed.clone(), trace])
+            .unwrap_err()
+            .to_string();
+        assert!(e.contains("element Ar is off by 2.000e-2"), "{e}");
         // 1e-8 relative too much carbon and hydrogen in the product.
         let more = stream(
             &db,
@@ -548,8 +572,14 @@ mod tests {
         );
         hot.stream.temperature_k = 700.0;
         let dh = hot.stream.enthalpy_w(&db).unwrap() - feed.stream.enthalpy_w(&db).unwrap();
+        let h_feed = feed.stream.enthalpy_w(&db).unwrap();
         let streams = [feed, hot];
         assert!(energy_balance(&db, &streams, &[unit(dh)]).unwrap() < 1e-12);
+        // Below the tolerance the residual is reported: |dH - duty| over the larger of the feed
+        // enthalpy magnitude and the duties.
+        let r = energy_balance(&db, &streams, &[unit(dh * (1.0 + 1e-9))]).unwrap();
+        let expected = (dh * 1e-9).abs() / h_feed.abs().max(dh.abs());
+        assert!((r / expected - 1.0).abs() < 1e-3, "{r:e} vs {expected:e}");
         let e = energy_balance(&db, &streams, &[unit(dh * 0.99)])
             .unwrap_err()
             .to_string();

@@ -287,11 +287,6 @@ impl<'a, 'b, S: 'static> UnitBuilder<'a, 'b, S> {
         self.input.db
     }
 
-    /// The unit's name.
-    pub fn name(&self) -> &'a str {
-        self.input.name
-    }
-
     /// The unit's outlet stream names.
     pub fn outlets(&self) -> &'a [String] {
         self.input.outlets
@@ -693,4 +688,58 @@ pub fn build<U: UnitKind>(input: &mut BuildInput<'_>) -> Result<Box<dyn Unit>> {
         unit: U::new(db, name, &spec)?,
         setters,
     }))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn ports_say_how_many() {
+        assert_eq!(Ports::exactly(1, "").count_text(), "exactly 1");
+        assert_eq!(Ports::at_least(2, "").count_text(), "at least 2");
+        let range = Ports {
+            min: 1,
+            max: Some(3),
+            meaning: "",
+        };
+        assert_eq!(range.count_text(), "1 to 3");
+        assert!(range.allows(3) && !range.allows(4) && !range.allows(0));
+        assert!(Ports::at_least(2, "").allows(50));
+    }
+
+    #[test]
+    fn value_kinds_describe_themselves_and_read_as_their_quantity() {
+        assert_eq!(
+            ValueKind::Temperature.describe(),
+            "temperature (degC, K, degF)"
+        );
+        assert_eq!(ValueKind::Choice(&["a", "b"]).describe(), "one of: a, b");
+        assert!(ValueKind::PerReaction(&["shift"])
+            .describe()
+            .contains("shift"));
+        let kinds = [
+            (ValueKind::Temperature, FigureKind::Temperature),
+            (
+                ValueKind::TemperatureDifference,
+                FigureKind::TemperatureDifference,
+            ),
+            (
+                ValueKind::PerReaction(&[]),
+                FigureKind::TemperatureDifference,
+            ),
+            (ValueKind::Pressure, FigureKind::Pressure),
+            (ValueKind::PressureDifference, FigureKind::Pressure),
+            (ValueKind::MolarFlow, FigureKind::MolarFlow),
+            (ValueKind::Fraction, FigureKind::Fraction),
+            (ValueKind::PerSpecies, FigureKind::Fraction),
+            (ValueKind::Duty, FigureKind::Number),
+        ];
+        for (v, f) in kinds {
+            assert_eq!(v.figure_kind(), f, "{v:?}");
+        }
+        assert_eq!(EntryValue::Scalar("1".into()).kind(), "a single value");
+        assert_eq!(EntryValue::List(vec![]).kind(), "a list");
+        assert_eq!(EntryValue::Map(vec![]).kind(), "a mapping");
+    }
 }
