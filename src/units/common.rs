@@ -526,15 +526,6 @@ pub(crate) fn stage_approaches(
     );
 }
 
-/// (reaction name, approach) pairs in the order of `reactions`.
-pub(crate) fn named(reactions: &[&str], approaches: Vec<f64>) -> Vec<(String, f64)> {
-    reactions
-        .iter()
-        .zip(approaches)
-        .map(|(n, a)| (n.to_string(), a))
-        .collect()
-}
-
 /// A figure.
 pub(crate) fn figure(
     key: &'static str,

@@ -9,7 +9,6 @@
 //! of CO + CO2; a real bed, limited by its kinetics, leaves a few ppm. Use the approach
 //! temperatures to represent a bed short of equilibrium.
 
-use super::common::named;
 use super::common::{dry_fraction, figure, reactor_inlet};
 use super::reactor::ReactorCore;
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
@@ -80,7 +79,7 @@ impl UnitKind for Methanator {
         let approaches = b.approaches(&METHANATOR_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
         Ok(MethanatorSpec {
             pressure_drop_pa: drop,
-            approaches: named(&METHANATOR_REACTIONS, approaches),
+            approaches,
         })
     }
 

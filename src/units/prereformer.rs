@@ -9,7 +9,6 @@
 //! ([`UnitResult::equilibrium`]) therefore shows that internal duty, on the converted basis.
 
 use super::chemistry::{CarbonCheck, HigherHydrocarbons};
-use super::common::named;
 use super::common::{dry_fraction, figure, reactor_inlet};
 use super::reactor::ReactorCore;
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
@@ -74,7 +73,7 @@ impl UnitKind for Prereformer {
         let approaches = b.approaches(&PREREFORMER_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
         Ok(PrereformerSpec {
             pressure_drop_pa: drop,
-            approaches: named(&PREREFORMER_REACTIONS, approaches),
+            approaches,
         })
     }
 

@@ -12,7 +12,6 @@
 //! part-way down the tubes, which an outlet check does not see).
 
 use super::chemistry::{CarbonCheck, HigherHydrocarbons};
-use super::common::named;
 use super::common::{check_temperature, dry_fraction, figure, reactor_inlet, spec_error};
 use super::reactor::ReactorCore;
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
@@ -93,7 +92,7 @@ impl UnitKind for Reformer {
         Ok(ReformerSpec {
             outlet_temperature_k: t,
             pressure_drop_pa: drop,
-            approaches: named(&REFORMER_REACTIONS, approaches),
+            approaches,
         })
     }
 

@@ -7,7 +7,6 @@
 //! 330-350 degC; low-temperature copper (LTS) below about 250-270 degC; a copper charge is fed at
 //! least about 15-20 K above the water dew point so that no water condenses on it.
 
-use super::common::named;
 use super::common::{
     check_temperature, dew_point_k, dry_fraction, figure, reactor_inlet, spec_error,
 };
@@ -176,7 +175,7 @@ impl UnitKind for Shift {
         Ok(ShiftSpec {
             outlet_temperature_k: t,
             pressure_drop_pa: drop,
-            approaches: named(&SHIFT_REACTIONS, approaches),
+            approaches,
             catalyst,
         })
     }

@@ -443,13 +443,14 @@ impl<'a, 'b, S: 'static> UnitBuilder<'a, 'b, S> {
         Ok(Some(out))
     }
 
-    /// The approach temperature of each of `reactions` under `approach`, zero where not given;
-    /// each registered as `units.NAME.approach.REACTION`. Unknown reactions are refused.
+    /// The approach temperature of each of `reactions` under `approach`, zero where not given,
+    /// as (reaction, K) pairs in the order of `reactions`; each registered as
+    /// `units.NAME.approach.REACTION`. Unknown reactions are refused.
     pub fn approaches(
         &mut self,
         reactions: &'static [&'static str],
         set: fn(&mut S, usize, f64),
-    ) -> Result<Vec<f64>> {
+    ) -> Result<Vec<(String, f64)>> {
         let given = self
             .map("approach", ValueKind::PerReaction(reactions))?
             .unwrap_or_default();
@@ -474,7 +475,7 @@ impl<'a, 'b, S: 'static> UnitBuilder<'a, 'b, S> {
                 ValueKind::TemperatureDifference,
                 move |s, v| set(s, j, v),
             );
-            out.push(value);
+            out.push((reaction.to_string(), value));
         }
         Ok(out)
     }
