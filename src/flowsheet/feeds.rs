@@ -19,7 +19,7 @@ use crate::error::{Error, Result};
 use crate::quantity::{kelvin_to_degc, Flow};
 use crate::thermo::{water, Phase, SpeciesDb};
 use crate::units::stream::water_phase;
-use crate::units::unit::{Param, ParamTable};
+use crate::units::unit::{Param, ParamTable, ValueKind};
 use crate::units::{FigureKind, Stream, Warning};
 
 /// Tolerance on the sum of mole fractions.
@@ -86,14 +86,14 @@ impl Feed {
             temperature: params.add(
                 format!("feeds.{n}.temperature"),
                 s.temperature_k,
-                FigureKind::Temperature,
+                ValueKind::Temperature,
             ),
             pressure: params.add(
                 format!("feeds.{n}.pressure"),
                 s.pressure_pa,
-                FigureKind::Pressure,
+                ValueKind::Pressure,
             ),
-            total: params.add(format!("feeds.{n}.total"), s.total(), FigureKind::MolarFlow),
+            total: params.add(format!("feeds.{n}.total"), s.total(), ValueKind::MolarFlow),
             flows: s
                 .flows
                 .iter()
@@ -101,7 +101,7 @@ impl Feed {
                 .filter(|(_, f)| **f > 0.0)
                 .map(|(i, f)| {
                     let path = format!("feeds.{n}.flows.{}", db.by_index(i).name);
-                    (i, params.add(path, *f, FigureKind::MolarFlow))
+                    (i, params.add(path, *f, ValueKind::MolarFlow))
                 })
                 .collect(),
         }

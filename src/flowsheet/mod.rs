@@ -27,6 +27,7 @@ use std::path::Path;
 pub use feeds::Feed;
 pub use feeds::FeedInputs;
 pub use graph::FlowGraph;
+pub use paths::{ResultPath, ResultSlot};
 pub use result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Summary};
 pub use solve::{Workspace, ELEMENT_BALANCE_TOLERANCE, ENERGY_BALANCE_TOLERANCE};
 pub use spec::FlowsheetUnit;

@@ -17,82 +17,219 @@ use crate::error::{Error, Result};
 use crate::quantity::{mol_s_to_kmol_h, mol_s_to_nm3_h, pa_to_bar, w_to_kw};
 use crate::thermo::SpeciesDb;
 
-impl FlowsheetResult {
-    /// Every result path of this solution with its value (in the unit its name says; figures in
-    /// report units), in report order: streams, units, summary.
-    pub fn result_values(&self, db: &SpeciesDb) -> Vec<(String, f64)> {
-        let mut out = Vec::new();
-        let water = db.index_of("H2O");
-        for s in &self.streams {
-            let (n, st) = (&s.name, &s.stream);
-            out.push((format!("streams.{n}.temperature_K"), st.temperature_k));
-            out.push((
-                format!("streams.{n}.pressure_bar"),
-                pa_to_bar(st.pressure_pa),
-            ));
-            for (i, f) in st.flows.iter().enumerate() {
-                let species = &db.by_index(i).name;
-                out.push((
-                    format!("streams.{n}.flow_kmol_h.{species}"),
-                    mol_s_to_kmol_h(*f),
-                ));
+/// Where a result path reads from in a [`FlowsheetResult`] of its flowsheet: indices fixed by
+/// the flowsheet's layout, so reading a value is a few array lookups (no text, no allocation).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum ResultSlot {
+    /// `streams.NAME.temperature_K`
+    Temperature { stream: usize },
+    /// `streams.NAME.pressure_bar`
+    Pressure { stream: usize },
+    /// `streams.NAME.flow_kmol_h.SPECIES`
+    Flow { stream: usize, species: usize },
+    /// `streams.NAME.dry_mol_pct.SPECIES`
+    DryPercent { stream: usize, species: usize },
+    /// `units.NAME.duty_kW`
+    Duty { unit: usize },
+    /// `units.NAME.outlet_temperature_K`
+    OutletTemperature { unit: usize },
+    /// `units.NAME.approach_K.REACTION`
+    Approach { unit: usize, index: usize },
+    /// `units.NAME.figures.KEY` (report units); the key is checked on every read.
+    Figure {
+        unit: usize,
+        index: usize,
+        key: &'static str,
+    },
+    /// `summary.hydrogen_product_kmol_h`
+    HydrogenKmolH,
+    /// `summary.hydrogen_product_Nm3_h`
+    HydrogenNm3H,
+    /// `summary.methane_slip_percent_dry.UNIT`
+    MethaneSlip { index: usize },
+    /// `summary.co_slip_percent_dry.UNIT`
+    CoSlip { index: usize },
+    /// `summary.steam_to_carbon.UNIT`
+    SteamToCarbon { index: usize },
+    /// `summary.heating_duty_kW`
+    HeatingDuty,
+    /// `summary.cooling_duty_kW`
+    CoolingDuty,
+}
+
+/// A result path resolved once against a result of its flowsheet; [`ResultPath::get`] reads it
+/// from any other result of the same flowsheet.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ResultPath {
+    /// The path as written (`streams.lts-exit.dry_mol_pct.CO`).
+    pub path: String,
+    /// Where it reads from.
+    pub slot: ResultSlot,
+}
+
+impl ResultPath {
+    /// The value in the unit its name says (figures in report units); `None` when the result
+    /// does not hold it (a figure a unit did not publish in this solve).
+    pub fn get(&self, db: &SpeciesDb, r: &FlowsheetResult) -> Option<f64> {
+        let stream = |i: usize| r.streams.get(i).map(|s| &s.stream);
+        let unit = |i: usize| r.units.get(i).map(|u| &u.result);
+        let s = &r.summary;
+        let pct = |list: &[(String, f64)], i: usize, scale: f64| list.get(i).map(|e| e.1 * scale);
+        match self.slot {
+            ResultSlot::Temperature { stream: i } => stream(i).map(|s| s.temperature_k),
+            ResultSlot::Pressure { stream: i } => stream(i).map(|s| pa_to_bar(s.pressure_pa)),
+            ResultSlot::Flow { stream: i, species } => stream(i)
+                .and_then(|s| s.flows.get(species))
+                .map(|n| mol_s_to_kmol_h(*n)),
+            ResultSlot::DryPercent { stream: i, species } => {
+                stream(i).map(|s| 100.0 * s.dry_mole_fraction(db, species))
             }
-            for i in 0..st.flows.len() {
-                if Some(i) != water {
-                    let species = &db.by_index(i).name;
-                    let x = 100.0 * st.dry_mole_fraction(db, i);
-                    out.push((format!("streams.{n}.dry_mol_pct.{species}"), x));
-                }
+            ResultSlot::Duty { unit: u } => unit(u).map(|r| w_to_kw(r.duty_w)),
+            ResultSlot::OutletTemperature { unit: u } => {
+                unit(u).and_then(|r| r.outlets.first()).map(|o| o.temperature_k)
+            }
+            ResultSlot::Approach { unit: u, index } => {
+                unit(u).and_then(|r| r.approaches.get(index)).map(|a| a.1)
+            }
+            ResultSlot::Figure {
+                unit: u,
+                index,
+                key,
+            } => unit(u).and_then(|r| {
+                let at = |f: &&crate::units::Figure| f.key == key;
+                r.figures
+                    .get(index)
+                    .filter(at)
+                    .or_else(|| r.figures.iter().find(at))
+                    .map(|f| f.kind.to_report(f.value))
+            }),
+            ResultSlot::HydrogenKmolH => s.hydrogen_product_mol_s.map(mol_s_to_kmol_h),
+            ResultSlot::HydrogenNm3H => s.hydrogen_product_mol_s.map(mol_s_to_nm3_h),
+            ResultSlot::MethaneSlip { index } => pct(&s.methane_slip_dry, index, 100.0),
+            ResultSlot::CoSlip { index } => pct(&s.co_slip_dry, index, 100.0),
+            ResultSlot::SteamToCarbon { index } => pct(&s.steam_to_carbon, index, 1.0),
+            ResultSlot::HeatingDuty => Some(w_to_kw(s.heating_duty_w)),
+            ResultSlot::CoolingDuty => Some(w_to_kw(s.cooling_duty_w)),
+        }
+    }
+}
+
+impl FlowsheetResult {
+    /// Every result path of this solution, in report order: streams (temperature, pressure,
+    /// flow of every species of the database, dry mol % of every species but water), units
+    /// (duty, outlet temperature, approaches, figures), summary.
+    pub fn result_paths(&self, db: &SpeciesDb) -> Vec<ResultPath> {
+        let mut out = Vec::new();
+        let mut push = |path: String, slot: ResultSlot| out.push(ResultPath { path, slot });
+        let water = db.water();
+        for (i, s) in self.streams.iter().enumerate() {
+            let n = &s.name;
+            push(
+                format!("streams.{n}.temperature_K"),
+                ResultSlot::Temperature { stream: i },
+            );
+            push(
+                format!("streams.{n}.pressure_bar"),
+                ResultSlot::Pressure { stream: i },
+            );
+            for k in 0..s.stream.flows.len() {
+                let species = &db.by_index(k).name;
+                push(
+                    format!("streams.{n}.flow_kmol_h.{species}"),
+                    ResultSlot::Flow {
+                        stream: i,
+                        species: k,
+                    },
+                );
+            }
+            for k in (0..s.stream.flows.len()).filter(|k| Some(*k) != water) {
+                let species = &db.by_index(k).name;
+                push(
+                    format!("streams.{n}.dry_mol_pct.{species}"),
+                    ResultSlot::DryPercent {
+                        stream: i,
+                        species: k,
+                    },
+                );
             }
         }
-        for u in &self.units {
-            let (n, r) = (&u.name, &u.result);
-            out.push((format!("units.{n}.duty_kW"), w_to_kw(r.duty_w)));
-            if let Some(first) = r.outlets.first() {
-                out.push((
+        for (u, solved) in self.units.iter().enumerate() {
+            let (n, r) = (&solved.name, &solved.result);
+            push(format!("units.{n}.duty_kW"), ResultSlot::Duty { unit: u });
+            if !r.outlets.is_empty() {
+                push(
                     format!("units.{n}.outlet_temperature_K"),
-                    first.temperature_k,
-                ));
+                    ResultSlot::OutletTemperature { unit: u },
+                );
             }
-            for (reaction, a) in &r.approaches {
-                out.push((format!("units.{n}.approach_K.{reaction}"), *a));
+            for (index, (reaction, _)) in r.approaches.iter().enumerate() {
+                push(
+                    format!("units.{n}.approach_K.{reaction}"),
+                    ResultSlot::Approach { unit: u, index },
+                );
             }
-            for f in &r.figures {
-                out.push((
+            for (index, f) in r.figures.iter().enumerate() {
+                push(
                     format!("units.{n}.figures.{}", f.key),
-                    f.kind.to_report(f.value),
-                ));
+                    ResultSlot::Figure {
+                        unit: u,
+                        index,
+                        key: f.key,
+                    },
+                );
             }
         }
         let s = &self.summary;
-        if let Some(h2) = s.hydrogen_product_mol_s {
-            out.push((
+        if s.hydrogen_product_mol_s.is_some() {
+            push(
                 "summary.hydrogen_product_kmol_h".into(),
-                mol_s_to_kmol_h(h2),
-            ));
-            out.push(("summary.hydrogen_product_Nm3_h".into(), mol_s_to_nm3_h(h2)));
+                ResultSlot::HydrogenKmolH,
+            );
+            push(
+                "summary.hydrogen_product_Nm3_h".into(),
+                ResultSlot::HydrogenNm3H,
+            );
         }
-        for (list, key, scale) in [
-            (&s.methane_slip_dry, "methane_slip_percent_dry", 100.0),
-            (&s.co_slip_dry, "co_slip_percent_dry", 100.0),
-            (&s.steam_to_carbon, "steam_to_carbon", 1.0),
-        ] {
-            for (unit, v) in list {
-                out.push((format!("summary.{key}.{unit}"), v * scale));
-            }
+        for (index, (unit, _)) in s.methane_slip_dry.iter().enumerate() {
+            push(
+                format!("summary.methane_slip_percent_dry.{unit}"),
+                ResultSlot::MethaneSlip { index },
+            );
         }
-        out.push(("summary.heating_duty_kW".into(), w_to_kw(s.heating_duty_w)));
-        out.push(("summary.cooling_duty_kW".into(), w_to_kw(s.cooling_duty_w)));
+        for (index, (unit, _)) in s.co_slip_dry.iter().enumerate() {
+            push(
+                format!("summary.co_slip_percent_dry.{unit}"),
+                ResultSlot::CoSlip { index },
+            );
+        }
+        for (index, (unit, _)) in s.steam_to_carbon.iter().enumerate() {
+            push(
+                format!("summary.steam_to_carbon.{unit}"),
+                ResultSlot::SteamToCarbon { index },
+            );
+        }
+        push("summary.heating_duty_kW".into(), ResultSlot::HeatingDuty);
+        push("summary.cooling_duty_kW".into(), ResultSlot::CoolingDuty);
         out
     }
 
-    /// The value of one result path; an unknown path is an error listing the nearest valid ones.
-    pub fn value(&self, db: &SpeciesDb, path: &str) -> Result<f64> {
-        let all = self.result_values(db);
-        if let Some((_, v)) = all.iter().find(|(p, _)| p == path) {
-            return Ok(*v);
+    /// Every result path of this solution with its value (in the unit its name says; figures in
+    /// report units), in report order: streams, units, summary.
+    pub fn result_values(&self, db: &SpeciesDb) -> Vec<(String, f64)> {
+        self.result_paths(db)
+            .into_iter()
+            .filter_map(|p| p.get(db, self).map(|v| (p.path, v)))
+            .collect()
+    }
+
+    /// Resolve a result path against this result (its flowsheet's layout); an unknown path is
+    /// an error listing the nearest valid ones.
+    pub fn resolve(&self, db: &SpeciesDb, path: &str) -> Result<ResultPath> {
+        let all = self.result_paths(db);
+        if let Some(p) = all.iter().find(|p| p.path == path) {
+            return Ok(p.clone());
         }
-        let known: Vec<&str> = all.iter().map(|(p, _)| p.as_str()).collect();
+        let known: Vec<&str> = all.iter().map(|p| p.path.as_str()).collect();
         Err(Error::InvalidValue {
             field: "result path".into(),
             value: path.to_string(),
@@ -100,6 +237,16 @@ impl FlowsheetResult {
                 "no such result; the nearest are: {}",
                 nearest(path, &known, 5).join(", ")
             ),
+        })
+    }
+
+    /// The value of one result path; an unknown path is an error listing the nearest valid ones.
+    pub fn value(&self, db: &SpeciesDb, path: &str) -> Result<f64> {
+        let resolved = self.resolve(db, path)?;
+        resolved.get(db, self).ok_or_else(|| Error::InvalidValue {
+            field: "result path".into(),
+            value: path.to_string(),
+            reason: "this result holds no value there".into(),
         })
     }
 }

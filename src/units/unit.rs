@@ -97,8 +97,64 @@ impl ValueKind {
         }
     }
 
+    /// Read a value of this kind written with its unit ("820 degC", "10 K", "3105 kmol/h",
+    /// "88 %") to SI. `field` names it in errors. Kinds that are not one number are refused.
+    pub fn parse(&self, field: &str, text: &str) -> Result<f64> {
+        match self {
+            ValueKind::Temperature => quantity::parse_temperature(field, text),
+            ValueKind::TemperatureDifference | ValueKind::PerReaction(_) => {
+                quantity::parse_temperature_difference(field, text)
+            }
+            ValueKind::Pressure => quantity::parse_pressure(field, text),
+            ValueKind::PressureDifference => quantity::parse_pressure_difference(field, text),
+            ValueKind::Duty => quantity::parse_duty(field, text),
+            ValueKind::MolarFlow => match quantity::parse_flow(field, text)? {
+                Flow::Molar(n) => Ok(n),
+                Flow::Mass(_) => Err(Error::InvalidValue {
+                    field: field.to_string(),
+                    value: text.to_string(),
+                    reason: "give a molar flow (kmol/h, mol/s, Nm3/h), not a mass flow".into(),
+                }),
+            },
+            ValueKind::Fraction | ValueKind::PerSpecies => quantity::parse_fraction(field, text),
+            ValueKind::Choice(_) | ValueKind::PerOutlet => Err(Error::InvalidValue {
+                field: field.to_string(),
+                value: text.to_string(),
+                reason: "this key is not a number".into(),
+            }),
+        }
+    }
+
+    /// The unit a value of this kind was written in (`"820 degC"` -> degC), as a linear map
+    /// from SI, so that values can be shown back in the unit the user chose. Found by reading
+    /// 0 and 1 of that unit through [`ValueKind::parse`], so it holds for every unit the parser
+    /// knows (offsets such as degC, barg and degF included).
+    pub fn written_unit(&self, field: &str, text: &str) -> Result<WrittenUnit> {
+        self.parse(field, text)?;
+        let trimmed = text.trim();
+        let end = trimmed
+            .find(|c: char| !(c.is_ascii_digit() || matches!(c, '+' | '-' | '.' | 'e' | 'E')))
+            .unwrap_or(trimmed.len());
+        let name = trimmed[end..].trim().to_string();
+        // A fraction written as a bare number, or 0 and 1 outside a kind's range (absolute zero),
+        // are read at two other points of the same unit.
+        let at = |x: f64| self.parse(field, &format!("{x} {name}"));
+        let (a, b) = match (at(0.0), at(1.0)) {
+            (Ok(a), Ok(b)) => (a, b - a),
+            _ => {
+                let (lo, hi) = (at(1000.0)?, at(2000.0)?);
+                (2.0 * lo - hi, (hi - lo) / 1000.0)
+            }
+        };
+        Ok(WrittenUnit {
+            name,
+            offset: a,
+            scale: b,
+        })
+    }
+
     /// The kind of quantity a parameter of this kind holds.
-    fn figure_kind(&self) -> FigureKind {
+    pub fn figure_kind(&self) -> FigureKind {
         match self {
             ValueKind::Temperature => FigureKind::Temperature,
             ValueKind::TemperatureDifference | ValueKind::PerReaction(_) => {
@@ -109,6 +165,24 @@ impl ValueKind {
             ValueKind::Fraction | ValueKind::PerSpecies => FigureKind::Fraction,
             _ => FigureKind::Number,
         }
+    }
+}
+
+/// The unit a value was written in, as a linear map from SI: `si = offset + scale * value`.
+#[derive(Debug, Clone, PartialEq)]
+pub struct WrittenUnit {
+    /// The unit as written ("degC", "K", "kmol/h"; empty for a bare number).
+    pub name: String,
+    /// SI value of zero in this unit.
+    pub offset: f64,
+    /// SI size of one of this unit.
+    pub scale: f64,
+}
+
+impl WrittenUnit {
+    /// A value in SI expressed in this unit.
+    pub fn from_si(&self, si: f64) -> f64 {
+        (si - self.offset) / self.scale
     }
 }
 
@@ -209,6 +283,8 @@ pub struct ParamInfo {
     pub default: f64,
     /// How it reads.
     pub kind: FigureKind,
+    /// How it is written (the units a value may be given in).
+    pub value: ValueKind,
 }
 
 /// Every numeric input of a flowsheet, by slot.
@@ -219,11 +295,12 @@ pub struct ParamTable {
 
 impl ParamTable {
     /// Register an input and return its slot.
-    pub fn add(&mut self, path: String, default: f64, kind: FigureKind) -> Param {
+    pub fn add(&mut self, path: String, default: f64, value: ValueKind) -> Param {
         self.params.push(ParamInfo {
             path,
             default,
-            kind,
+            kind: value.figure_kind(),
+            value,
         });
         Param(self.params.len() - 1)
     }
@@ -326,24 +403,11 @@ impl<'a, 'b, S: 'static> UnitBuilder<'a, 'b, S> {
 
     /// Parse a scalar of a numeric kind to SI.
     fn parse(&self, field: &str, kind: ValueKind, text: &str) -> Result<f64> {
-        let r = match kind {
-            ValueKind::Temperature => quantity::parse_temperature(field, text),
-            ValueKind::TemperatureDifference | ValueKind::PerReaction(_) => {
-                quantity::parse_temperature_difference(field, text)
-            }
-            ValueKind::Pressure => quantity::parse_pressure(field, text),
-            ValueKind::PressureDifference => quantity::parse_pressure_difference(field, text),
-            ValueKind::Duty => quantity::parse_duty(field, text),
-            ValueKind::MolarFlow => match quantity::parse_flow(field, text)? {
-                Flow::Molar(n) => Ok(n),
-                Flow::Mass(_) => Err(self.error(field, "give a molar flow (kmol/h, Nm3/h)")),
-            },
-            ValueKind::Fraction | ValueKind::PerSpecies => quantity::parse_fraction(field, text),
-            ValueKind::Choice(_) | ValueKind::PerOutlet => {
-                return Err(self.error(field, "is not a number"))
-            }
-        };
-        r.map_err(|e| self.error(field, quantity_reason(e)))
+        if matches!(kind, ValueKind::Choice(_) | ValueKind::PerOutlet) {
+            return Err(self.error(field, "is not a number"));
+        }
+        kind.parse(field, text)
+            .map_err(|e| self.error(field, quantity_reason(e)))
     }
 
     /// Register a numeric input `units.NAME.SUBPATH` with its value and setter.
@@ -355,7 +419,7 @@ impl<'a, 'b, S: 'static> UnitBuilder<'a, 'b, S> {
         set: impl Fn(&mut S, f64) + Send + Sync + 'static,
     ) -> Param {
         let path = format!("units.{}.{subpath}", self.input.name);
-        let p = self.input.params.add(path, value, kind.figure_kind());
+        let p = self.input.params.add(path, value, kind);
         self.setters.push((p, Box::new(set)));
         p
     }
@@ -694,6 +758,33 @@ pub fn build<U: UnitKind>(input: &mut BuildInput<'_>) -> Result<Box<dyn Unit>> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn written_units_map_si_back() {
+        let cases = [
+            // 0 degC = 273.15 K (ITS-90 definition of the Celsius scale)
+            (ValueKind::Temperature, "820 degC", "degC", 1093.15, 820.0),
+            (ValueKind::Temperature, "1100 K", "K", 1100.0, 1100.0),
+            // degF: T/K = (T/degF + 459.67) * 5/9 (definition)
+            (ValueKind::Temperature, "100 degF", "degF", 310.927_777_777_777_8, 100.0),
+            (ValueKind::TemperatureDifference, "10 K", "K", 10.0, 10.0),
+            // 1 bar = 1e5 Pa; gauge referred to 1 atm = 101 325 Pa (definitions)
+            (ValueKind::Pressure, "30 bar", "bar", 30e5, 30.0),
+            (ValueKind::Pressure, "24 barg", "barg", 25.01325e5, 24.0),
+            (ValueKind::MolarFlow, "3600 kmol/h", "kmol/h", 1000.0, 3600.0),
+            (ValueKind::Fraction, "88 %", "%", 0.88, 88.0),
+            (ValueKind::Fraction, "0.88", "", 0.88, 0.88),
+            (ValueKind::Duty, "2 MW", "MW", 2e6, 2.0),
+        ];
+        for (kind, text, name, si, back) in cases {
+            let unit = kind.written_unit("x", text).unwrap();
+            assert_eq!(unit.name, name, "{text}");
+            assert!((kind.parse("x", text).unwrap() - si).abs() < 1e-9 * si.abs().max(1.0));
+            assert!((unit.from_si(si) - back).abs() < 1e-9 * back.abs().max(1.0), "{text}");
+        }
+        assert!(ValueKind::MolarFlow.parse("x", "10 t/h").is_err());
+        assert!(ValueKind::Choice(&["a"]).written_unit("x", "1").is_err());
+    }
 
     #[test]
     fn ports_say_how_many() {
