@@ -10,6 +10,8 @@ use std::process::ExitCode;
 
 use clap::{Parser, Subcommand, ValueEnum};
 
+mod cli;
+
 use syntrain::flowsheet::Flowsheet;
 use syntrain::report;
 use syntrain::report::species as species_report;
@@ -83,6 +85,10 @@ enum Command {
         #[arg(long, short = 'o', value_name = "PATH")]
         output: Option<PathBuf>,
     },
+    /// Solve a flowsheet for many cases (a grid of --vary values, a cases file, or random
+    /// draws) and write one CSV row per case, in case order.
+    #[command(after_help = CAUTION, after_long_help = CAUTION)]
+    Sweep(Box<cli::sweep::SweepArgs>),
     /// List the unit types a flowsheet can use, with their inlets, outlets and keys, or show one.
     #[command(name = "unit-types", after_help = CAUTION, after_long_help = CAUTION)]
     UnitTypes {
@@ -109,6 +115,9 @@ enum Command {
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
+    if let Command::Sweep(args) = cli.command {
+        return sweep(cli.species_file, *args);
+    }
     match run(cli) {
         Ok(text) => print_stdout(&text),
         Err(err) => {
@@ -147,6 +156,23 @@ fn database(file: Option<&PathBuf>) -> syntrain::Result<SpeciesDb> {
     }
 }
 
+/// `sweep` streams its rows itself and ends with its own exit code.
+fn sweep(species_file: Option<PathBuf>, args: cli::sweep::SweepArgs) -> ExitCode {
+    let ran = database(species_file.as_ref())
+        .and_then(|db| cli::sweep::run(args, &db, species_file.as_deref()));
+    match ran {
+        Ok(cli::sweep::Ending::Done) => ExitCode::SUCCESS,
+        Ok(cli::sweep::Ending::Incomplete(message)) => {
+            report_error(&format!("error: {message}"));
+            ExitCode::FAILURE
+        }
+        Err(err) => {
+            report_error(&syntrain::report::error_chain(&err));
+            ExitCode::FAILURE
+        }
+    }
+}
+
 fn run(cli: Cli) -> syntrain::Result<String> {
     let db = database(cli.species_file.as_ref())?;
     match cli.command {
@@ -170,6 +196,7 @@ fn run(cli: Cli) -> syntrain::Result<String> {
                 None => Ok(text),
             }
         }
+        Command::Sweep(_) => Ok(String::new()),
         Command::UnitTypes { name, format } => match format {
             SpeciesFormat::Table => syntrain::report::unit_types::table(name.as_deref()),
             SpeciesFormat::Json => syntrain::report::unit_types::json(name.as_deref()),

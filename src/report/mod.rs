@@ -8,12 +8,13 @@ pub mod markdown;
 pub mod output;
 pub mod solve_table;
 pub mod species;
+pub mod spread;
 pub mod tables;
 #[cfg(test)]
 mod test_fixture;
 pub mod unit_types;
 
-pub use output::write_output;
+pub use output::{create_streaming, write_output};
 
 use crate::error::{Error, Result};
 use crate::flowsheet::result::FlowsheetResult;

@@ -49,6 +49,32 @@ pub fn write_output(path: &Path, text: &str, inputs: &[&Path]) -> Result<()> {
     }
 }
 
+/// Open `path` to write a long report into as it is made (a sweep's rows), so that what was
+/// written survives an interruption: an input of the run is refused, links are followed, a
+/// folder is refused, a regular file is created or emptied, a FIFO or device written into.
+pub fn create_streaming(path: &Path, inputs: &[&Path]) -> Result<std::fs::File> {
+    refuse_inputs(path, inputs)?;
+    let target = resolve_links(path)?;
+    if std::fs::metadata(&target).is_ok_and(|m| m.is_dir()) {
+        return Err(io_error(
+            path,
+            std::io::ErrorKind::InvalidInput,
+            "this is a folder; give a file name such as 'sweep.csv'",
+        ));
+    }
+    let is_regular = std::fs::metadata(&target).map_or(true, |m| m.is_file());
+    let mut options = std::fs::OpenOptions::new();
+    options.write(true);
+    if is_regular {
+        options.create(true).truncate(true);
+    }
+    options.open(&target).map_err(|source| Error::Io {
+        action: "writing",
+        path: path.to_path_buf(),
+        source,
+    })
+}
+
 fn io_error(path: &Path, kind: std::io::ErrorKind, message: &str) -> Error {
     Error::Io {
         action: "writing",

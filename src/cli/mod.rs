@@ -1,0 +1,4 @@
+//! Command-line glue that is more than one call into the library: the study commands' progress
+//! bar, Ctrl-C handling and output streams.
+
+pub mod sweep;
