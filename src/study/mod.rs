@@ -18,5 +18,6 @@ pub mod columns;
 pub mod distribution;
 pub mod percentiles;
 pub mod plot;
+pub mod row;
 pub mod sweep;
 pub mod vary;

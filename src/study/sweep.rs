@@ -4,9 +4,8 @@
 //! Row: the inputs as shown (in the unit each was written in), `status` (`ok`, or why the case
 //! failed: a failed case is written, never dropped), `warnings` (the distinct warning codes of
 //! the case in order of appearance, `;`-separated), then one column per result path, headed by
-//! the path. Numbers are written in full precision (the shortest text that reads back to the
-//! same binary number, by the Ryu algorithm, Adams 2018); a value a case does not have is an
-//! empty cell.
+//! the path. Numbers carry 12 significant digits (see [`super::row`]); a value a case does not
+//! have is an empty cell. Lines end in a line feed.
 //!
 //! Parallel and repeatable: the case list is cut into fixed blocks of [`BLOCK`] cases, counted
 //! from case 0 of the whole list. Blocks run in parallel on all cores (rayon); within a block
@@ -28,6 +27,7 @@ use std::sync::mpsc::sync_channel;
 use rayon::prelude::*;
 
 use super::cases::CaseList;
+use super::row::{CachedNumber, RowWriter};
 use super::vary::InputTarget;
 use crate::error::{Error, Result};
 use crate::flowsheet::{Flowsheet, FlowsheetResult, ResultPath, Workspace};
@@ -144,7 +144,9 @@ struct ThreadState {
     shown: Vec<f64>,
     si: Vec<f64>,
     codes: Vec<&'static str>,
-    number: ryu::Buffer,
+    joined: String,
+    /// The text of each result column's last value.
+    cache: Vec<CachedNumber>,
 }
 
 impl<'a> Sweep<'a> {
@@ -226,7 +228,9 @@ impl<'a> Sweep<'a> {
             cases: end - start,
             ..SweepOutcome::default()
         };
-        let mut writer = csv::WriterBuilder::new().from_writer(out);
+        let mut writer = csv::WriterBuilder::new()
+            .terminator(csv::Terminator::Any(b'\n'))
+            .from_writer(out);
         writer.write_record(self.header()).map_err(csv_error)?;
         writer.flush().map_err(io_error)?;
         let (first_block, end_block) = (start / BLOCK, end.div_ceil(BLOCK));
@@ -300,7 +304,8 @@ impl<'a> Sweep<'a> {
             shown: vec![0.0; n],
             si: vec![0.0; n],
             codes: Vec::new(),
-            number: ryu::Buffer::new(),
+            joined: String::new(),
+            cache: vec![CachedNumber::default(); self.columns.len()],
         }
     }
 
@@ -323,9 +328,9 @@ impl<'a> Sweep<'a> {
             warned: 0,
             kept: Kept::default(),
         };
-        let mut csv = csv::WriterBuilder::new().from_writer(Vec::with_capacity(
-            (hi - lo) as usize * (self.columns.len() + 8) * 20,
-        ));
+        let mut row = RowWriter::new();
+        row.bytes
+            .reserve((hi - lo) as usize * (self.columns.len() + 8) * 14);
         st.ws.forget();
         for i in first..hi {
             self.cases.case(i, &mut st.shown, &mut st.si);
@@ -340,16 +345,15 @@ impl<'a> Sweep<'a> {
                 ws,
                 shown,
                 codes,
-                number,
+                joined,
+                cache,
                 ..
             } = st;
             let solved = solved.as_ref().map(|()| ws.result());
-            // A block's rows are written into memory; an error here cannot happen short of
-            // running out of memory, and would show as a short row count.
-            let _ = self.write_row(&mut csv, shown, solved, codes, number, &mut out);
+            self.write_row(&mut row, shown, solved, codes, joined, cache, &mut out);
             out.rows += 1;
         }
-        out.bytes = csv.into_inner().unwrap_or_default();
+        out.bytes = row.bytes;
         out
     }
 
@@ -374,22 +378,24 @@ impl<'a> Sweep<'a> {
         self.flowsheet.solve_in(self.db, &st.params, &mut st.ws)
     }
 
+    #[allow(clippy::too_many_arguments)]
     fn write_row(
         &self,
-        csv: &mut csv::Writer<Vec<u8>>,
+        row: &mut RowWriter,
         shown: &[f64],
         solved: std::result::Result<&FlowsheetResult, &Error>,
         codes: &mut Vec<&'static str>,
-        number: &mut ryu::Buffer,
+        joined: &mut String,
+        cache: &mut [CachedNumber],
         out: &mut BlockOut,
-    ) -> csv::Result<()> {
+    ) {
         for v in shown {
-            csv.write_field(format_number(number, *v))?;
+            row.number(*v);
         }
         out.kept.inputs.extend_from_slice(shown);
         match solved {
             Ok(result) => {
-                csv.write_field("ok")?;
+                row.text("ok");
                 codes.clear();
                 for w in &result.warnings {
                     if !codes.contains(&w.code) {
@@ -399,10 +405,17 @@ impl<'a> Sweep<'a> {
                 if !codes.is_empty() {
                     out.warned += 1;
                 }
-                csv.write_field(codes.join(";"))?;
-                for c in &self.columns {
+                joined.clear();
+                for (i, code) in codes.iter().enumerate() {
+                    if i > 0 {
+                        joined.push(';');
+                    }
+                    joined.push_str(code);
+                }
+                row.text(joined);
+                for (c, cached) in self.columns.iter().zip(cache.iter_mut()) {
                     let v = c.get(self.db, result).unwrap_or(f64::NAN);
-                    csv.write_field(format_number(number, v))?;
+                    row.cached_number(v, cached);
                 }
                 for k in &self.keep {
                     out.kept
@@ -412,26 +425,17 @@ impl<'a> Sweep<'a> {
             }
             Err(e) => {
                 out.failed += 1;
-                csv.write_field(one_line(e))?;
-                csv.write_field("")?;
+                row.text(&one_line(e));
+                row.text("");
                 for _ in &self.columns {
-                    csv.write_field("")?;
+                    row.number(f64::NAN);
                 }
                 out.kept
                     .results
                     .extend(std::iter::repeat_n(f64::NAN, self.keep.len()));
             }
         }
-        csv.write_record(None::<&[u8]>)
-    }
-}
-
-/// A finite number in its shortest exact form; nothing for a value that is not finite.
-fn format_number(buffer: &mut ryu::Buffer, v: f64) -> &str {
-    if v.is_finite() {
-        buffer.format_finite(v)
-    } else {
-        ""
+        row.end();
     }
 }
 

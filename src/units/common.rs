@@ -461,13 +461,14 @@ pub(crate) fn run_stage_into(
     inlet: crate::equilibrium::StageInlet<'_>,
     mode: crate::equilibrium::EnergyMode,
     guess: Option<&[f64]>,
+    approaches_k: Option<&[f64]>,
     options: &crate::equilibrium::SolverOptions,
     ws: &mut crate::equilibrium::StageWorkspace,
     r: &mut StageResult,
 ) -> Result<()> {
     let settings = crate::equilibrium::SolveSettings {
         guess,
-        approaches_k: None,
+        approaches_k,
         options: *options,
     };
     stage
@@ -515,6 +516,7 @@ pub(crate) fn frozen_warnings(
 pub(crate) fn stage_approaches(
     reactions: &'static [&'static str],
     stage: &EquilibriumStage,
+    approaches_k: Option<&[f64]>,
     out: &mut Vec<(&'static str, f64)>,
 ) {
     out.clear();
@@ -522,7 +524,8 @@ pub(crate) fn stage_approaches(
         reactions
             .iter()
             .zip(stage.reactions())
-            .map(|(name, r)| (*name, r.approach_k)),
+            .enumerate()
+            .map(|(j, (name, r))| (*name, approaches_k.map_or(r.approach_k, |a| a[j]))),
     );
 }
 

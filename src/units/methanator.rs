@@ -111,8 +111,41 @@ impl UnitKind for Methanator {
         scratch: &mut UnitScratch,
         out: &mut UnitResult,
     ) -> Result<()> {
+        self.run(db, &self.spec, None, inlets, guess, scratch, out)
+    }
+
+    /// Solve with changed numbers: checked as a build checks them, solved on the stage built.
+    fn solve_spec_into(
+        &self,
+        db: &SpeciesDb,
+        _name: &str,
+        spec: &MethanatorSpec,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        let approaches = self.core.check(&spec.approaches, spec.pressure_drop_pa)?;
+        self.run(db, spec, Some(&approaches), inlets, guess, scratch, out)
+    }
+}
+
+impl Methanator {
+    /// Solve with the numbers of `spec` and the approaches `approaches_k` (stage order; `None`:
+    /// those the stage was built with).
+    #[allow(clippy::too_many_arguments)]
+    fn run(
+        &self,
+        db: &SpeciesDb,
+        spec: &MethanatorSpec,
+        approaches_k: Option<&[f64]>,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
         let (name, key) = (&self.core.name, &self.core.key);
-        let (inlet, p) = reactor_inlet(db, name, "methanator", inlets, self.spec.pressure_drop_pa)?;
+        let (inlet, p) = reactor_inlet(db, name, "methanator", inlets, spec.pressure_drop_pa)?;
         let t_in = inlet.temperature_k;
         self.core.solve_stage(
             db,
@@ -121,6 +154,7 @@ impl UnitKind for Methanator {
             p,
             EnergyMode::Adiabatic,
             guess,
+            approaches_k,
             &scratch.options,
             &mut scratch.stage,
             out,
@@ -183,7 +217,8 @@ impl UnitKind for Methanator {
                 .for_unit(name.as_str()),
             );
         }
-        self.core.finish(db, &inlet.flows, |_| false, out);
+        self.core
+            .finish(db, &inlet.flows, |_| false, approaches_k, out);
         Ok(())
     }
 }

@@ -107,9 +107,41 @@ impl UnitKind for Prereformer {
         scratch: &mut UnitScratch,
         out: &mut UnitResult,
     ) -> Result<()> {
+        self.run(db, &self.spec, None, inlets, guess, scratch, out)
+    }
+
+    /// Solve with changed numbers: checked as a build checks them, solved on the stage built.
+    fn solve_spec_into(
+        &self,
+        db: &SpeciesDb,
+        _name: &str,
+        spec: &PrereformerSpec,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        let approaches = self.core.check(&spec.approaches, spec.pressure_drop_pa)?;
+        self.run(db, spec, Some(&approaches), inlets, guess, scratch, out)
+    }
+}
+
+impl Prereformer {
+    /// Solve with the numbers of `spec` and the approaches `approaches_k` (stage order; `None`:
+    /// those the stage was built with).
+    #[allow(clippy::too_many_arguments)]
+    fn run(
+        &self,
+        db: &SpeciesDb,
+        spec: &PrereformerSpec,
+        approaches_k: Option<&[f64]>,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
         let (name, key) = (&self.core.name, &self.core.key);
-        let (inlet, p) =
-            reactor_inlet(db, name, "prereformer", inlets, self.spec.pressure_drop_pa)?;
+        let (inlet, p) = reactor_inlet(db, name, "prereformer", inlets, spec.pressure_drop_pa)?;
         let t_in = inlet.temperature_k;
         let higher_in = self.higher.amount(&inlet.flows);
         let UnitScratch {
@@ -131,8 +163,18 @@ impl UnitKind for Prereformer {
         let mode = EnergyMode::FixedDuty {
             duty_w: h_in - h_converted,
         };
-        self.core
-            .solve_stage(db, converted, t_in, p, mode, guess, options, stage_ws, out)?;
+        self.core.solve_stage(
+            db,
+            converted,
+            t_in,
+            p,
+            mode,
+            guess,
+            approaches_k,
+            options,
+            stage_ws,
+            out,
+        )?;
         let outlet = &out.outlets[0];
         let figures = &mut out.figures;
         figures.push(figure(
@@ -165,8 +207,13 @@ impl UnitKind for Prereformer {
         }
         self.carbon
             .report(db, name, outlet, figures, &mut out.warnings)?;
-        self.core
-            .finish(db, &inlet.flows, |i| self.higher.converts(i), out);
+        self.core.finish(
+            db,
+            &inlet.flows,
+            |i| self.higher.converts(i),
+            approaches_k,
+            out,
+        );
         Ok(())
     }
 }

@@ -50,9 +50,19 @@ impl ReactorCore {
         })
     }
 
+    /// Check the numbers of a specification this core was built from, changed by a study:
+    /// the approaches (by reaction name) and the pressure drop, as [`ReactorCore::new`] checks
+    /// them; the approaches in stage order.
+    pub fn check(&self, approaches: &[(String, f64)], pressure_drop_pa: f64) -> Result<Vec<f64>> {
+        let resolved = resolve_approaches(&self.name, approaches, self.reactions)?;
+        check_pressure_drop(&self.name, pressure_drop_pa)?;
+        Ok(resolved)
+    }
+
     /// Start `out` (one outlet), solve the stage for `flows` entering at `inlet_temperature_k`
     /// and `pressure_pa` into `out.equilibrium`, and write the outlet from it (vapour at the
-    /// stage's outlet temperature and `pressure_pa`).
+    /// stage's outlet temperature and `pressure_pa`). `approaches_k`: the approaches of this
+    /// solve in stage order (`None`: those the stage was built with).
     #[allow(clippy::too_many_arguments)]
     pub fn solve_stage(
         &self,
@@ -62,6 +72,7 @@ impl ReactorCore {
         pressure_pa: f64,
         mode: EnergyMode,
         guess: Option<&[f64]>,
+        approaches_k: Option<&[f64]>,
         options: &SolverOptions,
         ws: &mut StageWorkspace,
         out: &mut UnitResult,
@@ -80,6 +91,7 @@ impl ReactorCore {
             inlet,
             mode,
             guess,
+            approaches_k,
             options,
             ws,
             stage,
@@ -94,12 +106,14 @@ impl ReactorCore {
 
     /// The warnings and approaches every reactor reports: carbon-bearing species of the inlet
     /// that none of its reactions converts (`converts` says which the unit converts before its
-    /// stage), reactions that could not proceed, and the approach of each reaction.
+    /// stage), reactions that could not proceed, and the approach of each reaction (those of
+    /// `approaches_k` where given, as in [`ReactorCore::solve_stage`]).
     pub fn finish(
         &self,
         db: &SpeciesDb,
         inlet_flows: &[f64],
         converts: impl Fn(usize) -> bool,
+        approaches_k: Option<&[f64]>,
         out: &mut UnitResult,
     ) {
         let name = &self.name;
@@ -114,6 +128,11 @@ impl ReactorCore {
         if let Some(stage) = &out.equilibrium {
             frozen_warnings(name, &self.stage, stage, &mut out.warnings);
         }
-        stage_approaches(self.reactions, &self.stage, &mut out.approaches);
+        stage_approaches(
+            self.reactions,
+            &self.stage,
+            approaches_k,
+            &mut out.approaches,
+        );
     }
 }

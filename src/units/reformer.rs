@@ -98,14 +98,7 @@ impl UnitKind for Reformer {
 
     /// Check the spec and build the equilibrium stage.
     fn new(db: &SpeciesDb, name: &str, spec: &ReformerSpec) -> Result<Reformer> {
-        let t = spec.outlet_temperature_k;
-        if !(t.is_finite() && t > 0.0) {
-            return Err(spec_error(
-                name,
-                "outlet-temperature",
-                format!("{t} K must be a positive absolute temperature"),
-            ));
-        }
+        check_numbers(name, spec)?;
         Ok(Reformer {
             core: ReactorCore::new(
                 db,
@@ -134,9 +127,43 @@ impl UnitKind for Reformer {
         scratch: &mut UnitScratch,
         out: &mut UnitResult,
     ) -> Result<()> {
+        self.run(db, &self.spec, None, inlets, guess, scratch, out)
+    }
+
+    /// Solve with changed numbers: checked as a build checks them, solved on the stage built.
+    fn solve_spec_into(
+        &self,
+        db: &SpeciesDb,
+        name: &str,
+        spec: &ReformerSpec,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        check_numbers(name, spec)?;
+        let approaches = self.core.check(&spec.approaches, spec.pressure_drop_pa)?;
+        self.run(db, spec, Some(&approaches), inlets, guess, scratch, out)
+    }
+}
+
+impl Reformer {
+    /// Solve with the numbers of `spec` and the approaches `approaches_k` (stage order; `None`:
+    /// those the stage was built with).
+    #[allow(clippy::too_many_arguments)]
+    fn run(
+        &self,
+        db: &SpeciesDb,
+        spec: &ReformerSpec,
+        approaches_k: Option<&[f64]>,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
         let (name, key) = (&self.core.name, &self.core.key);
-        let (inlet, p) = reactor_inlet(db, name, "reformer", inlets, self.spec.pressure_drop_pa)?;
-        let t_out = self.spec.outlet_temperature_k;
+        let (inlet, p) = reactor_inlet(db, name, "reformer", inlets, spec.pressure_drop_pa)?;
+        let t_out = spec.outlet_temperature_k;
         let UnitScratch {
             flows,
             stage: stage_ws,
@@ -154,8 +181,18 @@ impl UnitKind for Reformer {
             temperature_k: t_out,
         };
         let t_in = inlet.temperature_k;
-        self.core
-            .solve_stage(db, converted, t_in, p, mode, guess, options, stage_ws, out)?;
+        self.core.solve_stage(
+            db,
+            converted,
+            t_in,
+            p,
+            mode,
+            guess,
+            approaches_k,
+            options,
+            stage_ws,
+            out,
+        )?;
         let outlet = &out.outlets[0];
         let out_flows = &outlet.flows;
         out.duty_w = mixture::enthalpy(db, out_flows, t_out)? - h_in;
@@ -192,10 +229,28 @@ impl UnitKind for Reformer {
         }
         self.carbon
             .report(db, name, outlet, figures, &mut out.warnings)?;
-        self.core
-            .finish(db, &inlet.flows, |i| self.higher.converts(i), out);
+        self.core.finish(
+            db,
+            &inlet.flows,
+            |i| self.higher.converts(i),
+            approaches_k,
+            out,
+        );
         Ok(())
     }
+}
+
+/// The checks of a reformer's numbers besides the approaches and pressure drop.
+fn check_numbers(name: &str, spec: &ReformerSpec) -> Result<()> {
+    let t = spec.outlet_temperature_k;
+    if !(t.is_finite() && t > 0.0) {
+        return Err(spec_error(
+            name,
+            "outlet-temperature",
+            format!("{t} K must be a positive absolute temperature"),
+        ));
+    }
+    Ok(())
 }
 
 #[cfg(test)]

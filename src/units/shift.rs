@@ -182,15 +182,7 @@ impl UnitKind for Shift {
 
     /// Check the spec and build the equilibrium stage.
     fn new(db: &SpeciesDb, name: &str, spec: &ShiftSpec) -> Result<Shift> {
-        if let Some(t) = spec.outlet_temperature_k {
-            if !(t.is_finite() && t > 0.0) {
-                return Err(spec_error(
-                    name,
-                    "outlet-temperature",
-                    format!("{t} K must be a positive absolute temperature"),
-                ));
-            }
-        }
+        check_numbers(name, spec)?;
         Ok(Shift {
             // The stage finds the direction of a lone reaction from the inlet (Direction::Auto).
             core: ReactorCore::new(
@@ -218,10 +210,44 @@ impl UnitKind for Shift {
         scratch: &mut UnitScratch,
         result: &mut UnitResult,
     ) -> Result<()> {
+        self.run(db, &self.spec, None, inlets, guess, scratch, result)
+    }
+
+    /// Solve with changed numbers: checked as a build checks them, solved on the stage built.
+    fn solve_spec_into(
+        &self,
+        db: &SpeciesDb,
+        name: &str,
+        spec: &ShiftSpec,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        result: &mut UnitResult,
+    ) -> Result<()> {
+        check_numbers(name, spec)?;
+        let approaches = self.core.check(&spec.approaches, spec.pressure_drop_pa)?;
+        self.run(db, spec, Some(&approaches), inlets, guess, scratch, result)
+    }
+}
+
+impl Shift {
+    /// Solve with the numbers of `spec` and the approaches `approaches_k` (stage order; `None`:
+    /// those the stage was built with).
+    #[allow(clippy::too_many_arguments)]
+    fn run(
+        &self,
+        db: &SpeciesDb,
+        spec: &ShiftSpec,
+        approaches_k: Option<&[f64]>,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        result: &mut UnitResult,
+    ) -> Result<()> {
         let (name, key) = (&self.core.name, &self.core.key);
-        let (inlet, p) = reactor_inlet(db, name, "shift", inlets, self.spec.pressure_drop_pa)?;
+        let (inlet, p) = reactor_inlet(db, name, "shift", inlets, spec.pressure_drop_pa)?;
         let t_in = inlet.temperature_k;
-        let mode = match self.spec.outlet_temperature_k {
+        let mode = match spec.outlet_temperature_k {
             Some(t) => {
                 check_temperature(db, name, "outlet-temperature", &inlet.flows, t)?;
                 EnergyMode::FixedTemperature { temperature_k: t }
@@ -238,11 +264,13 @@ impl UnitKind for Shift {
             p,
             mode,
             guess,
+            approaches_k,
             &scratch.options,
             &mut scratch.stage,
             result,
         )?;
-        self.core.finish(db, &inlet.flows, |_| false, result);
+        self.core
+            .finish(db, &inlet.flows, |_| false, approaches_k, result);
         let UnitResult {
             outlets,
             duty_w,
@@ -286,7 +314,7 @@ impl UnitKind for Shift {
                 FigureKind::TemperatureDifference,
             ));
         }
-        let catalyst = match self.spec.catalyst {
+        let catalyst = match spec.catalyst {
             Some(c) => c,
             None => {
                 let c = infer_catalyst(t_in, t_out);
@@ -346,6 +374,20 @@ impl UnitKind for Shift {
         }
         Ok(())
     }
+}
+
+/// The checks of a shift converter's numbers besides the approaches and pressure drop.
+fn check_numbers(name: &str, spec: &ShiftSpec) -> Result<()> {
+    if let Some(t) = spec.outlet_temperature_k {
+        if !(t.is_finite() && t > 0.0) {
+            return Err(spec_error(
+                name,
+                "outlet-temperature",
+                format!("{t} K must be a positive absolute temperature"),
+            ));
+        }
+    }
+    Ok(())
 }
 
 #[cfg(test)]

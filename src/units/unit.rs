@@ -636,6 +636,24 @@ pub trait UnitKind: Send + Sync + fmt::Debug + Sized + 'static {
         out: &mut UnitResult,
     ) -> Result<()>;
 
+    /// Solve with the numbers of `spec` in place of those the unit was built with (a study's
+    /// changed inputs; the same keys). The default builds the unit anew from `spec`, so every
+    /// check of [`UnitKind::new`] runs; a unit whose build is costly (an equilibrium stage)
+    /// overrides it to run the same checks on the numbers and solve with what it built.
+    #[allow(clippy::too_many_arguments)]
+    fn solve_spec_into(
+        &self,
+        db: &SpeciesDb,
+        name: &str,
+        spec: &Self::Spec,
+        inlets: &[&Stream],
+        guess: Option<&[f64]>,
+        scratch: &mut UnitScratch,
+        out: &mut UnitResult,
+    ) -> Result<()> {
+        Self::new(db, name, spec)?.solve_into(db, inlets, guess, scratch, out)
+    }
+
     /// Solve into a new result.
     fn solve(
         &self,
@@ -725,8 +743,8 @@ impl<U: UnitKind> Unit for Compiled<U> {
         scratch: &mut UnitScratch,
         out: &mut UnitResult,
     ) -> Result<()> {
-        // Bit-for-bit the values it was built with: solve it as it is. Otherwise build it again
-        // from its specification with the new values, so that every check runs on them.
+        // Bit-for-bit the values it was built with: solve it as it is. Otherwise solve it with
+        // its specification carrying the new values (checked as a build checks them).
         let same = self
             .setters
             .iter()
@@ -738,7 +756,8 @@ impl<U: UnitKind> Unit for Compiled<U> {
         for (p, set) in &self.setters {
             set(&mut spec, cx.params[p.0]);
         }
-        U::new(cx.db, cx.name, &spec)?.solve_into(cx.db, inlets, guess, scratch, out)
+        self.unit
+            .solve_spec_into(cx.db, cx.name, &spec, inlets, guess, scratch, out)
     }
 }
 
