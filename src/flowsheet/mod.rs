@@ -8,6 +8,12 @@
 //! within 1e-9 and the energy balance within 1e-6 (relative); a flowsheet that does not close
 //! is an error, never a result.
 //!
+//! Design targets ([`targets`]): the file's `targets:` (and any built in code) adjust one input
+//! each so that one result meets a value, by Brent's method around the whole solve; several are
+//! met in file order, each with the others held, in rounds until all hold at once (at most
+//! [`targets::ROUND_LIMIT`]). [`Flowsheet::solve`] and [`Flowsheet::solve_with`] meet the
+//! file's targets; [`Flowsheet::solve_targets_in`] is the path for many cases.
+//!
 //! Results are screening-level engineering estimates. Hot hydrogen and carbon monoxide at
 //! pressure are flammable and toxic: follow local codes and licensed engineering practice.
 
