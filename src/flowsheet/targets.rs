@@ -540,8 +540,8 @@ impl Flowsheet {
         ws: &'w mut Workspace,
         outcomes: &mut Vec<TargetOutcome>,
     ) -> Result<&'w FlowsheetResult> {
+        outcomes.clear();
         if self.targets.is_empty() && extra.is_empty() {
-            outcomes.clear();
             return self.solve_in(db, params, ws);
         }
         let targets: Vec<&Target> = self.targets.iter().chain(extra).collect();
@@ -576,7 +576,6 @@ impl Flowsheet {
             }
             return Err(e);
         }
-        outcomes.clear();
         for (t, n) in targets.iter().zip(&solves) {
             let value = read(db, resolved(t)?, ws.result())?;
             outcomes.push(TargetOutcome {
@@ -908,4 +907,84 @@ fn significant(value: f64, digits: usize) -> String {
     }
     let decimals = (digits as i32 - 1 - magnitude).max(0) as usize;
     format!("{value:.decimals$}")
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    const DEMO: &str = include_str!("../../flowsheets/targets-demo.yaml");
+
+    fn outcome(input: &str, value: f64) -> TargetOutcome {
+        TargetOutcome {
+            input: input.into(),
+            result: "r".into(),
+            equals: 1.0,
+            value,
+            met: true,
+            input_value: 2.0,
+            iterations: 3,
+            input_kind: FigureKind::Temperature,
+            tolerance: 1e-4,
+        }
+    }
+
+    #[test]
+    fn outcomes_are_copied_whole_and_truncated() {
+        let mut dst = vec![outcome("a", 0.0), outcome("b", 0.0), outcome("c", 0.0)];
+        let src = [outcome("x", 1.5), outcome("y", 2.5)];
+        copy_outcomes(&mut dst, &src);
+        assert_eq!(dst, src);
+        let mut grow = vec![outcome("a", 0.0)];
+        copy_outcomes(&mut grow, &src);
+        assert_eq!(grow, src);
+    }
+
+    #[test]
+    fn numbers_in_messages_keep_six_significant_digits() {
+        assert_eq!(significant(1140.556789, 6), "1140.56");
+        assert_eq!(significant(3.292241, 6), "3.29224");
+        assert_eq!(significant(0.0456, 3), "0.0456");
+        assert_eq!(significant(2.5e-6, 3), "2.50e-6");
+        assert_eq!(significant(0.0, 3), "0");
+    }
+
+    #[test]
+    fn the_file_targets_are_read_in_si_and_targets_in_code_are_checked() {
+        let db = SpeciesDb::embedded().unwrap();
+        let fs = Flowsheet::from_yaml_str("demo.yaml", DEMO, &db).unwrap();
+        let t = fs.targets();
+        assert_eq!(t.len(), 3);
+        // ISO 80000-5: 830 degC = 1103.15 K; 2500 kmol/h = 694.44 mol/s.
+        assert!((t[0].lower() - 1103.15).abs() < 1e-9);
+        assert!((t[2].upper() - 4000.0 / 3.6).abs() < 1e-9);
+        assert_eq!(t[0].tolerance(), 1e-4);
+        assert_eq!(t[1].equals(), 0.4);
+        assert_eq!(t[2].input_kind(), FigureKind::MolarFlow);
+        assert_eq!(t[0].slot(), fs.input(t[0].vary()).unwrap());
+        let vary = "units.reformer.outlet-temperature";
+        let so = "summary.methane_slip_percent_dry.reformer";
+        assert!(fs.target(vary, 1100.0, 1000.0, so, 4.5, 1e-4).is_err());
+        assert!(fs.target(vary, 1000.0, 1100.0, so, 4.5, 0.0).is_err());
+        assert!(fs.target(vary, 1000.0, 1100.0, so, f64::NAN, 1e-4).is_err());
+        assert!(fs.target(vary, f64::NAN, 1100.0, so, 4.5, 1e-4).is_err());
+        let e = fs
+            .target("units.reformer.outlet", 1000.0, 1100.0, so, 4.5, 1e-4)
+            .unwrap_err()
+            .to_string();
+        assert!(e.contains("units.reformer.outlet-temperature"), "{e}");
+        assert!(fs.target(vary, 1000.0, 1100.0, so, 4.5, 1e-4).is_ok());
+    }
+
+    #[test]
+    fn a_between_that_is_not_two_scalars_is_refused_at_its_place() {
+        let db = SpeciesDb::embedded().unwrap();
+        let text = DEMO.replace("[830 degC, 920 degC]", "[830 degC, {a: 1}]");
+        let e = Flowsheet::from_yaml_str("demo.yaml", &text, &db)
+            .unwrap_err()
+            .to_string();
+        let line = text[..text.find("{a: 1}").unwrap()].matches('\n').count() + 1;
+        assert!(e.starts_with(&format!("demo.yaml:{line}:")), "{e}");
+        assert!(e.contains("one value with its unit"), "{e}");
+    }
 }

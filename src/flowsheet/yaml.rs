@@ -8,6 +8,10 @@
 //! first only to learn each unit's `name`, so that paths in messages name units by name
 //! (`units.reformer.outlet-temperature`) rather than by position. Errors in the keys of a type
 //! are found when the unit is built; the flowsheet layer gives them their position.
+//!
+//! Besides `title`, `solver`, `feeds` and `units` a file may hold `targets` (design targets,
+//! [`TargetModel`]; their paths and bounds are checked in [`super::targets`]) and
+//! `steam-feed` (the feed a steam-to-carbon target scales).
 
 use std::fmt;
 
