@@ -149,8 +149,8 @@ fn a_lower_methane_slip_needs_a_hotter_reformer() {
     };
     let (t5, t45, t4, t3) = (found(5.0), found(4.5), found(4.0), found(3.0));
     assert!(t5 < t45 && t45 < t4 && t4 < t3, "{t5} {t45} {t4} {t3}");
-    // Several kelvin per half percent of slip, not a rounding effect (common practice: some
-    // 10-20 K per percent of slip near 4-5 %).
+    // Several kelvin per half percent of slip, not a rounding effect (some
+    // 10-20 K per percent of slip near 4-5 %, from memory).
     assert!(t4 - t45 > 3.0 && t4 - t45 < 30.0, "{}", t4 - t45);
 }
 
