@@ -8,6 +8,12 @@
 //! within 1e-9 and the energy balance within 1e-6 (relative); a flowsheet that does not close
 //! is an error, never a result.
 //!
+//! Design targets ([`targets`]): the file's `targets:` (and any built in code) adjust one input
+//! each so that one result meets a value, by Brent's method around the whole solve; several are
+//! met in file order, each with the others held, in rounds until all hold at once (at most
+//! [`targets::ROUND_LIMIT`]). [`Flowsheet::solve`] and [`Flowsheet::solve_with`] meet the
+//! file's targets; [`Flowsheet::solve_targets_in`] is the path for many cases.
+//!
 //! Results are screening-level engineering estimates. Hot hydrogen and carbon monoxide at
 //! pressure are flammable and toxic: follow local codes and licensed engineering practice.
 
@@ -19,6 +25,7 @@ pub mod paths;
 pub mod result;
 mod solve;
 pub mod spec;
+pub mod targets;
 pub mod values;
 pub mod yaml;
 
@@ -31,6 +38,7 @@ pub use paths::{ResultPath, ResultSlot};
 pub use result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Summary};
 pub use solve::{Workspace, ELEMENT_BALANCE_TOLERANCE, ENERGY_BALANCE_TOLERANCE};
 pub use spec::FlowsheetUnit;
+pub use targets::{Target, TargetOutcome};
 
 use crate::equilibrium::SolverOptions;
 use crate::error::{Error, Result};
@@ -59,6 +67,10 @@ pub struct Flowsheet {
     elements: solve::ElementTable,
     /// Tolerances and iteration limits of the equilibrium stages (`solver:`).
     options: SolverOptions,
+    /// The file's design targets, in file order.
+    targets: Vec<Target>,
+    /// The file's `steam-feed`.
+    steam_feed: Option<String>,
 }
 
 /// Where a unit's inlets and outlets sit among the streams of a result.
@@ -172,7 +184,7 @@ impl Flowsheet {
         let title = model.title.unwrap_or_else(|| origin.to_string());
         let defaults = params.defaults();
         let layout = layout(&feeds, &units, &graph);
-        Ok(Flowsheet {
+        let mut flowsheet = Flowsheet {
             title,
             origin: origin.to_string(),
             feeds,
@@ -184,13 +196,18 @@ impl Flowsheet {
             layout,
             elements: solve::ElementTable::new(db),
             options: model.solver,
-        })
+            targets: Vec::new(),
+            steam_feed: model.steam_feed.clone(),
+        };
+        targets::check_steam_feed(&flowsheet, origin, text, model.steam_feed.as_deref())?;
+        flowsheet.targets = targets::from_file(&flowsheet, origin, text, &model.targets)?;
+        Ok(flowsheet)
     }
 
-    /// Solve every unit in order with the values of the file, check the balances and collect
-    /// the result.
+    /// Solve every unit in order with the values of the file, meeting the file's targets
+    /// ([`targets`]), check the balances and collect the result.
     pub fn solve(&self, db: &SpeciesDb) -> Result<FlowsheetResult> {
-        solve::solve(self, db, &self.defaults, None)
+        self.solve_with(db, &self.defaults, None)
     }
 
     /// Per-thread work memory for [`Flowsheet::solve_in`].
@@ -213,13 +230,21 @@ impl Flowsheet {
     /// Solve with the parameter vector `params` (one value per input, by slot: start from
     /// [`Flowsheet::parameters`] and set the slots [`Flowsheet::input`] gives). `previous`: a
     /// result of this flowsheet to warm-start the equilibrium stages from (a neighbouring case).
+    /// The file's targets are met starting from `params` ([`Flowsheet::solve_targets_in`]).
     pub fn solve_with(
         &self,
         db: &SpeciesDb,
         params: &[f64],
         previous: Option<&FlowsheetResult>,
     ) -> Result<FlowsheetResult> {
-        solve::solve(self, db, params, previous)
+        if self.targets.is_empty() {
+            return solve::solve(self, db, params, previous);
+        }
+        let mut ws = solve::warm_workspace(self, db, previous);
+        let mut params = params.to_vec();
+        let mut outcomes = Vec::with_capacity(self.targets.len());
+        self.solve_targets_in(db, &mut params, &[], &mut ws, &mut outcomes)?;
+        Ok(ws.into_result())
     }
 
     /// The parameter vector of the file: every numeric input by slot, SI.

@@ -77,4 +77,7 @@ pub struct FlowsheetResult {
     /// |H| over the feeds, formation enthalpies included) or the sum of |duty|, whichever is
     /// larger.
     pub energy_balance_residual: f64,
+    /// The design targets this solve met (file targets first, then those added in code); empty
+    /// without targets.
+    pub targets: Vec<super::targets::TargetOutcome>,
 }

@@ -11,6 +11,7 @@
 //! figures the units publish.
 
 use super::result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Summary};
+use super::targets::TargetOutcome;
 use super::Flowsheet;
 use crate::error::{Error, Result};
 use crate::thermo::{mixture, water, SpeciesDb};
@@ -77,6 +78,16 @@ impl Workspace {
     pub fn forget(&mut self) {
         self.warm.iter_mut().for_each(|w| *w = false);
     }
+
+    /// The last result written, owned.
+    pub fn into_result(self) -> FlowsheetResult {
+        self.result
+    }
+
+    /// Record the outcomes of the targets met by the last solve (their entries reused).
+    pub(crate) fn set_targets(&mut self, outcomes: &[TargetOutcome]) {
+        super::targets::copy_outcomes(&mut self.result.targets, outcomes);
+    }
 }
 
 /// A workspace laid out for `fs`: one stream per feed and unit outlet (solve order), one unit
@@ -125,6 +136,7 @@ pub(crate) fn workspace(fs: &Flowsheet, db: &SpeciesDb) -> Workspace {
             warnings: Vec::new(),
             element_balance_residual: 0.0,
             energy_balance_residual: 0.0,
+            targets: Vec::new(),
         },
         scratch: (0..fs.units.len())
             .map(|_| UnitScratch::default())
@@ -161,6 +173,7 @@ pub(crate) fn solve_in<'w>(
         warm,
     } = ws;
     result.warnings.clear();
+    result.targets.clear();
     for (k, (feed, inputs)) in fs.feeds.iter().zip(&fs.feed_inputs).enumerate() {
         feed.stream_into(db, inputs, params, defaults, &mut result.streams[k].stream)?;
         if result.streams[k].destination.is_none() {
@@ -267,6 +280,17 @@ pub(crate) fn solve(
     params: &[f64],
     previous: Option<&FlowsheetResult>,
 ) -> Result<FlowsheetResult> {
+    let mut ws = warm_workspace(fs, db, previous);
+    solve_in(fs, db, params, &mut ws)?;
+    Ok(ws.result)
+}
+
+/// A fresh workspace of `fs` whose equilibrium units start from `previous` where it has them.
+pub(crate) fn warm_workspace(
+    fs: &Flowsheet,
+    db: &SpeciesDb,
+    previous: Option<&FlowsheetResult>,
+) -> Workspace {
     let mut ws = workspace(fs, db);
     if let Some(p) = previous {
         for (k, solved) in ws.result.units.iter_mut().enumerate() {
@@ -278,8 +302,7 @@ pub(crate) fn solve(
             }
         }
     }
-    solve_in(fs, db, params, &mut ws)?;
-    Ok(ws.result)
+    ws
 }
 
 /// A unit outlet must be what its phase says: vapour at or above its water dew point, liquid

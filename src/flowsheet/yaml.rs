@@ -8,6 +8,10 @@
 //! first only to learn each unit's `name`, so that paths in messages name units by name
 //! (`units.reformer.outlet-temperature`) rather than by position. Errors in the keys of a type
 //! are found when the unit is built; the flowsheet layer gives them their position.
+//!
+//! Besides `title`, `solver`, `feeds` and `units` a file may hold `targets` (design targets,
+//! [`TargetModel`]; their paths and bounds are checked in [`super::targets`]) and
+//! `steam-feed` (the feed a steam-to-carbon target scales).
 
 use std::fmt;
 
@@ -35,6 +39,38 @@ pub struct FileModel {
     pub feeds: OrderedMap<FeedModel>,
     /// Units, in file order.
     pub units: Vec<UnitModel>,
+    /// Design targets, in file order (`targets:`; empty without).
+    pub targets: Vec<TargetModel>,
+    /// The feed a steam-to-carbon target scales (`steam-feed:`).
+    pub steam_feed: Option<String>,
+}
+
+/// A design target as written: vary one input between two values so that one result equals a
+/// number (see [`super::targets`]). Paths and bounds are checked when the flowsheet is built.
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct TargetModel {
+    /// Input path to vary (`units.reformer.outlet-temperature`).
+    pub vary: String,
+    /// Lower and upper value of the input, with units (`[800 degC, 950 degC]`).
+    pub between: Vec<Value>,
+    /// Result path to meet (`streams.reformed-gas.dry_mol_pct.CH4`).
+    pub so_that: String,
+    /// The value the result must reach, in the result path's own unit.
+    pub equals: f64,
+    /// How close, in the result's unit (default 1e-4).
+    #[serde(default)]
+    pub tolerance: Option<f64>,
+}
+
+/// A plain YAML scalar as text (`800 degC`, `0.3`); `None` for a list or mapping.
+pub fn scalar_text(v: &Value) -> Option<String> {
+    match v {
+        Value::String(s) => Some(s.clone()),
+        Value::Number(n) => Some(n.to_string()),
+        Value::Tagged(t) => scalar_text(&t.value),
+        _ => None,
+    }
 }
 
 /// A feed stream as written.
@@ -188,7 +224,7 @@ fn yaml_error(origin: &str, err: &serde_norway::Error, previews: &[Preview]) -> 
     }
 }
 
-const FILE_KEYS: &[&str] = &["title", "solver", "feeds", "units"];
+const FILE_KEYS: &[&str] = &["title", "solver", "feeds", "units", "targets", "steam-feed"];
 
 /// The `solver:` key: tolerances and iteration limits of the equilibrium stages, each optional
 /// (the defaults of [`SolverOptions`]).
@@ -254,7 +290,7 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
     type Value = FileModel;
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
-        f.write_str("a flowsheet with the keys title, solver, feeds and units")
+        f.write_str("a flowsheet with the keys title, solver, feeds, units, targets and steam-feed")
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> std::result::Result<FileModel, A::Error> {
@@ -262,6 +298,8 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
         let mut feeds: Option<OrderedMap<FeedModel>> = None;
         let mut units: Option<Vec<UnitModel>> = None;
         let mut solver: Option<SolverOptions> = None;
+        let mut targets: Option<Vec<TargetModel>> = None;
+        let mut steam_feed: Option<String> = None;
         while let Some(key) = map.next_key::<String>()? {
             match key.as_str() {
                 "solver" if solver.is_none() => {
@@ -280,7 +318,9 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
                         previews: self.previews,
                     })?)
                 }
-                "title" | "solver" | "feeds" | "units" => {
+                "targets" if targets.is_none() => targets = Some(map.next_value()?),
+                "steam-feed" if steam_feed.is_none() => steam_feed = Some(map.next_value()?),
+                "title" | "solver" | "feeds" | "units" | "targets" | "steam-feed" => {
                     return Err(de::Error::custom(format!("duplicate key `{key}`")))
                 }
                 other => return Err(de::Error::unknown_field(other, FILE_KEYS)),
@@ -298,6 +338,8 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
             solver: solver.unwrap_or_default(),
             feeds,
             units,
+            targets: targets.unwrap_or_default(),
+            steam_feed,
         })
     }
 }

@@ -16,6 +16,9 @@
 //! - `<species>_mol_pct_wet` for the same species
 //! - `<species>_mol_pct_dry` for the same species less water
 //!
+//! The stream table only: design targets are not in it (the streams are those of the final solve,
+//! with the targets met); `--format json` lists them.
+//!
 //! Numbers are written in full precision (the shortest text that reads back to the same value);
 //! a value that is not finite is left empty.
 

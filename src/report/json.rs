@@ -7,6 +7,12 @@
 //! - `warnings`: [{`unit`, `code`, `message`, `value`, `limit`}]: value and limit in report units
 //!   (degC for temperatures, K for differences, % for fractions), null where not applicable;
 //!   `unit` is null for a warning about the flowsheet as a whole
+//! - `targets`: [{`input`, `result`, `value`, `met`, `input_value`, `iterations`}], one per
+//!   design target in the order they were met (file order), empty without targets: `input` the
+//!   input path varied, `result` the result path met, `value` the value reached in the result
+//!   path's own unit, `met` a boolean, `input_value` the input found in the report unit of its
+//!   kind (degC, K, bar abs, kmol/h, %), `iterations` the flowsheet solves it took; beside them
+//!   `input_unit` (the name of that report unit), `equals` and `tolerance` (result's unit)
 //!
 //! Beside them:
 //! - top level: `title`, `summary`, `balances`, `cautions` (a result exists only when every unit
@@ -33,6 +39,7 @@ use serde_json::{json, Map, Value};
 use super::tables::{figure_value, phase_name, present_species, source_name};
 use crate::error::{Result, ResultExt};
 use crate::flowsheet::result::{FlowsheetResult, SolvedStream};
+use crate::flowsheet::TargetOutcome;
 use crate::quantity::{
     kelvin_to_degc, kg_s_to_kg_h, mol_s_to_kmol_h, mol_s_to_nm3_h, pa_to_bar, w_to_kw,
 };
@@ -118,6 +125,7 @@ pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
     top.insert("streams".into(), Value::Object(streams));
     top.insert("units".into(), Value::Object(units));
     top.insert("summary".into(), summary);
+    top.insert("targets".into(), targets(&result.targets));
     top.insert(
         "balances".into(),
         json!({
@@ -128,6 +136,27 @@ pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
     top.insert("warnings".into(), warnings(&result.warnings));
     top.insert("cautions".into(), json!(super::CAUTIONS));
     Ok(Value::Object(top))
+}
+
+/// Design targets as objects (see the module docs).
+fn targets(list: &[TargetOutcome]) -> Value {
+    Value::Array(
+        list.iter()
+            .map(|t| {
+                json!({
+                    "input": t.input,
+                    "input_value": number(t.input_kind.to_report(t.input_value)),
+                    "input_unit": t.input_kind.report_unit(),
+                    "result": t.result,
+                    "value": number(t.value),
+                    "equals": number(t.equals),
+                    "tolerance": number(t.tolerance),
+                    "met": t.met,
+                    "iterations": t.iterations,
+                })
+            })
+            .collect(),
+    )
 }
 
 /// Warnings as objects `{unit, code, message, value, limit}`; value and limit in report units
@@ -246,6 +275,17 @@ mod tests {
             assert_eq!(v["warnings"].as_array().unwrap().len(), 1);
             assert!(v["cautions"].as_str().unwrap().contains("local codes"));
             assert!(v["summary"]["hydrogen_product_kmol_h"].as_f64().unwrap() > 1000.0);
+            // The fixture's target: 1143.15 K is 870 degC (ISO 80000-5).
+            let t = &v["targets"][0];
+            assert_eq!(t["input"], "units.reformer.outlet-temperature");
+            assert_eq!(t["result"], "streams.reformed.dry_mol_pct.CH4");
+            assert!((t["input_value"].as_f64().unwrap() - 870.0).abs() < 1e-9);
+            assert_eq!(t["input_unit"], "degC");
+            assert_eq!(t["value"], 4.50003);
+            assert_eq!(t["equals"], 4.5);
+            assert_eq!(t["tolerance"], 1e-4);
+            assert_eq!(t["met"], true);
+            assert_eq!(t["iterations"], 7);
         });
     }
 

@@ -32,6 +32,9 @@ pub fn layout(report: &SolveReport) -> String {
         out.push_str(&table_markdown(table));
     }
     out.push_str(&table_markdown(&report.summary));
+    if let Some(table) = &report.targets {
+        out.push_str(&table_markdown(table));
+    }
     out.push_str("## Warnings\n\n");
     if report.warnings.is_empty() {
         out.push_str("None.\n");
@@ -109,6 +112,8 @@ mod tests {
             assert!(text.starts_with("# Test train, invented\n"));
             assert!(text.contains("## Units\n"));
             assert!(text.contains("## Summary\n"));
+            assert!(text.contains("## Targets\n"));
+            assert!(text.contains("| **target 1: met, 7 flowsheet solves** |"));
             assert!(text.contains("| **mol % wet** |"));
             assert!(text.contains("> Screening results only."));
             // Every table line of a block has as many cells as its header.

@@ -44,6 +44,10 @@ pub fn layout(report: &SolveReport) -> String {
     }
     out.push_str(&table_text(&report.summary));
     out.push('\n');
+    if let Some(table) = &report.targets {
+        out.push_str(&table_text(table));
+        out.push('\n');
+    }
     out.push_str("Warnings\n");
     if report.warnings.is_empty() {
         out.push_str("  none\n");
@@ -144,6 +148,12 @@ mod tests {
                 "Equilibrium convergence",
                 "Summary",
                 "steam-to-carbon ratio, reformer inlet",
+                "Targets",
+                "target 1: met, 7 flowsheet solves",
+                "units.reformer.outlet-temperature",
+                "870.000 degC",
+                "streams.reformed.dry_mol_pct.CH4",
+                "4.50003",
                 "Warnings",
                 "near the catalyst limit",
                 "Cautions",

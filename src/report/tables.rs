@@ -102,6 +102,8 @@ pub struct SolveReport {
     pub equilibrium: Option<Table>,
     /// Plant summary and balance checks.
     pub summary: Table,
+    /// The design targets met (None without targets).
+    pub targets: Option<Table>,
     /// Warnings of the units and the flowsheet, as text.
     pub warnings: Vec<String>,
     /// The cautions printed with every result.
@@ -119,6 +121,7 @@ pub fn build(db: &SpeciesDb, result: &FlowsheetResult) -> Result<SolveReport> {
         figures: figure_table(result),
         equilibrium: equilibrium_table(result),
         summary: summary_table(db, result),
+        targets: target_table(result),
         warnings: result.warnings.iter().map(|w| w.to_string()).collect(),
         cautions: super::CAUTIONS.to_string(),
     })
@@ -523,6 +526,52 @@ fn purifier_product(db: &SpeciesDb, result: &FlowsheetResult) -> Option<Product>
         total,
         purity: hydrogen / total,
     })
+}
+
+/// The design targets: for each, a row with the input path and the value found (report units)
+/// and a row with the result path, the value reached, the goal and its tolerance (the result
+/// path's own unit), under a heading with the flowsheet solves it took.
+fn target_table(result: &FlowsheetResult) -> Option<Table> {
+    use Align::{Left, Right};
+    if result.targets.is_empty() {
+        return None;
+    }
+    let mut table = Table::new(
+        "Targets",
+        &["", "path", "value", "goal", "tolerance"],
+        &[Left, Left, Right, Right, Right],
+    );
+    for (k, t) in result.targets.iter().enumerate() {
+        let status = if t.met { "met" } else { "NOT met" };
+        table.rows.push(Row::Group(format!(
+            "target {}: {status}, {} flowsheet solves",
+            k + 1,
+            t.iterations
+        )));
+        let unit = t.input_kind.report_unit();
+        let found = significant(t.input_kind.to_report(t.input_value), 6);
+        table.push(vec![
+            "vary".into(),
+            t.input.clone(),
+            if unit.is_empty() {
+                found
+            } else {
+                format!("{found} {unit}")
+            },
+            String::new(),
+            String::new(),
+        ]);
+        // Enough decimals to show the tolerance and one digit more.
+        let decimals = (-t.tolerance.log10()).ceil().clamp(0.0, 12.0) as usize + 1;
+        table.push(vec![
+            "so that".into(),
+            t.result.clone(),
+            fixed(t.value, decimals),
+            format!("{}", t.equals),
+            format!("{:e}", t.tolerance),
+        ]);
+    }
+    Some(table)
 }
 
 fn summary_table(db: &SpeciesDb, result: &FlowsheetResult) -> Table {

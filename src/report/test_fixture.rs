@@ -310,5 +310,17 @@ pub fn fixture(db: &SpeciesDb) -> FlowsheetResult {
         .for_unit("hts")],
         element_balance_residual: 1.0e-13,
         energy_balance_residual: 2.0e-12,
+        // Invented: a reformer outlet temperature found for a methane slip of 4.5 % dry.
+        targets: vec![crate::flowsheet::TargetOutcome {
+            input: "units.reformer.outlet-temperature".into(),
+            result: "streams.reformed.dry_mol_pct.CH4".into(),
+            equals: 4.5,
+            value: 4.50003,
+            met: true,
+            input_value: 1143.15,
+            iterations: 7,
+            input_kind: crate::units::FigureKind::Temperature,
+            tolerance: 1e-4,
+        }],
     }
 }
