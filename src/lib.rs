@@ -23,6 +23,7 @@ pub mod flowsheet;
 pub mod quantity;
 pub mod reaction;
 pub mod report;
+pub mod study;
 pub mod thermo;
 pub mod units;
 

@@ -83,6 +83,10 @@ enum Command {
         #[arg(long, short = 'o', value_name = "PATH")]
         output: Option<PathBuf>,
     },
+    /// Compare revamp options with a base side by side: hydrogen made, slips, temperatures,
+    /// duties, and each option's change. An option is a flowsheet or an overlay of one.
+    #[command(after_help = CAUTION, after_long_help = CAUTION)]
+    Compare(CompareArgs),
     /// List the unit types a flowsheet can use, with their inlets, outlets and keys, or show one.
     #[command(name = "unit-types", after_help = CAUTION, after_long_help = CAUTION)]
     UnitTypes {
@@ -105,6 +109,21 @@ enum Command {
         #[arg(long, value_enum, default_value = "table")]
         format: SpeciesFormat,
     },
+}
+
+/// Arguments of `compare`.
+#[derive(clap::Args)]
+struct CompareArgs {
+    /// The base flowsheet, then one or more options (flowsheets or overlays with `base:`).
+    #[arg(required = true, num_args = 2.., value_name = "FILE")]
+    files: Vec<PathBuf>,
+    /// Output format.
+    #[arg(long, value_enum, default_value = "table")]
+    format: SolveFormat,
+    /// Write the report to this file instead of standard output (as `solve --output`); no
+    /// input of the run (base, options and the bases they pull in) is overwritten.
+    #[arg(long, short = 'o', value_name = "PATH")]
+    output: Option<PathBuf>,
 }
 
 fn main() -> ExitCode {
@@ -162,6 +181,23 @@ fn run(cli: Cli) -> syntrain::Result<String> {
             match output {
                 Some(path) => {
                     let mut inputs: Vec<&Path> = vec![&file];
+                    inputs.extend(cli.species_file.as_deref());
+                    report::write_output(&path, &text, &inputs)?;
+                    report_error(&format!("wrote {}", path.display()));
+                    Ok(String::new())
+                }
+                None => Ok(text),
+            }
+        }
+        Command::Compare(args) => {
+            let solved = syntrain::study::compare::solve_all(&db, &args.files)?;
+            let text = report::compare::render(&solved, args.format.into())?;
+            match args.output {
+                Some(path) => {
+                    let mut inputs: Vec<&Path> = solved
+                        .iter()
+                        .flat_map(|s| s.case.files.iter().map(PathBuf::as_path))
+                        .collect();
                     inputs.extend(cli.species_file.as_deref());
                     report::write_output(&path, &text, &inputs)?;
                     report_error(&format!("wrote {}", path.display()));
