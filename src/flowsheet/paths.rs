@@ -91,9 +91,9 @@ impl ResultPath {
                 stream(i).map(|s| 100.0 * s.dry_mole_fraction(db, species))
             }
             ResultSlot::Duty { unit: u } => unit(u).map(|r| w_to_kw(r.duty_w)),
-            ResultSlot::OutletTemperature { unit: u } => {
-                unit(u).and_then(|r| r.outlets.first()).map(|o| o.temperature_k)
-            }
+            ResultSlot::OutletTemperature { unit: u } => unit(u)
+                .and_then(|r| r.outlets.first())
+                .map(|o| o.temperature_k),
             ResultSlot::Approach { unit: u, index } => {
                 unit(u).and_then(|r| r.approaches.get(index)).map(|a| a.1)
             }

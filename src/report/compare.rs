@@ -80,7 +80,10 @@ fn diff(base: &Value, option: &Value) -> (Value, Value) {
     let empty = Map::new();
     match (base, option) {
         (Value::Number(b), Value::Number(o)) => {
-            let (b, o) = (b.as_f64().unwrap_or(f64::NAN), o.as_f64().unwrap_or(f64::NAN));
+            let (b, o) = (
+                b.as_f64().unwrap_or(f64::NAN),
+                o.as_f64().unwrap_or(f64::NAN),
+            );
             let change = o - b;
             let pct = if b != 0.0 {
                 number(100.0 * change / b)
@@ -188,11 +191,26 @@ fn rows(solved: &[Solved]) -> Vec<(String, Vec<Option<f64>>)> {
 fn label(path: &str) -> (String, &'static str, usize) {
     let tail = |prefix: &str| path.strip_prefix(prefix).map(str::to_string);
     let fixed_labels: [(&str, &str, &'static str, usize); 7] = [
-        ("summary.hydrogen_product_kmol_h", "hydrogen product", "kmol/h", 2),
-        ("summary.hydrogen_product_Nm3_h", "hydrogen product", "Nm3/h", 0),
+        (
+            "summary.hydrogen_product_kmol_h",
+            "hydrogen product",
+            "kmol/h",
+            2,
+        ),
+        (
+            "summary.hydrogen_product_Nm3_h",
+            "hydrogen product",
+            "Nm3/h",
+            0,
+        ),
         ("summary.hydrogen_made_kmol_h", "hydrogen made", "kmol/h", 2),
         ("summary.hydrogen_made_Nm3_h", "hydrogen made", "Nm3/h", 0),
-        ("summary.hydrogen_per_carbon_fed", "H2 made per carbon fed", "mol/mol", 4),
+        (
+            "summary.hydrogen_per_carbon_fed",
+            "H2 made per carbon fed",
+            "mol/mol",
+            4,
+        ),
         ("summary.heating_duty_kW", "heating duties, sum", "kW", 1),
         ("summary.cooling_duty_kW", "cooling duties, sum", "kW", 1),
     ];
@@ -283,7 +301,11 @@ fn legend(solved: &[Solved]) -> Vec<String> {
             } else {
                 format!("option {k}")
             };
-            format!("{which}: {} ({})", s.case.name, s.case.file.display())
+            format!(
+                "{which}: {}\n    file: {}",
+                s.case.name,
+                s.case.file.display()
+            )
         })
         .collect()
 }
@@ -307,7 +329,8 @@ fn text(solved: &[Solved]) -> String {
 fn markdown(solved: &[Solved]) -> String {
     let mut out = String::from("# Comparison of options\n\n");
     for line in legend(solved) {
-        out.push_str(&format!("- {}\n", line.replace('|', "\\|")));
+        let line = line.replace('|', "\\|").replace("\n    file:", ", file:");
+        out.push_str(&format!("- {line}\n"));
     }
     out.push('\n');
     out.push_str(&table_markdown(&table(solved)));
@@ -330,7 +353,10 @@ fn csv(solved: &[Solved]) -> Result<String> {
         header.push(format!("change %: {}", s.case.name));
     }
     w.write_record(&header).map_err(io)?;
-    let cell = |v: Option<f64>| v.filter(|x| x.is_finite()).map_or(String::new(), |x| x.to_string());
+    let cell = |v: Option<f64>| {
+        v.filter(|x| x.is_finite())
+            .map_or(String::new(), |x| x.to_string())
+    };
     for (path, values) in rows(solved) {
         let (_, unit, _) = label(&path);
         let mut record = vec![path.clone(), unit.to_string()];
@@ -354,4 +380,42 @@ fn csv(solved: &[Solved]) -> Result<String> {
         value: String::new(),
         reason: e.to_string(),
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn differences_are_key_by_key_and_null_where_a_side_lacks_a_number() {
+        let base = json!({"a": 2.0, "b": {"x": 0.0, "gone": 1.0}, "n": null});
+        let option = json!({"a": 2.5, "b": {"x": 4.0, "new": 1.0}, "n": 3.0});
+        let (c, p) = diff(&base, &option);
+        assert_eq!(
+            c,
+            json!({"a": 0.5, "b": {"x": 4.0, "gone": null, "new": null}, "n": null})
+        );
+        assert_eq!(
+            p,
+            json!({"a": 25.0, "b": {"x": null, "gone": null, "new": null}, "n": null})
+        );
+        // A unit only the option has: an object of nulls, not a made-up change.
+        let (c, _) = diff(&json!({}), &json!({"mts": {"duty_kW": 0.0}}));
+        assert_eq!(c, json!({"mts": {"duty_kW": null}}));
+    }
+
+    #[test]
+    fn labels_and_units_of_figure_paths() {
+        assert_eq!(
+            label("summary.co_slip_percent_dry.lts"),
+            ("CO slip, lts".to_string(), "mol % dry", 3)
+        );
+        assert_eq!(
+            label("units.hts.outlet_temperature_degC"),
+            ("hts, outlet".to_string(), "degC", 1)
+        );
+        assert_eq!(label("summary.hydrogen_made_Nm3_h").1, "Nm3/h");
+        assert_eq!(signed(1.25, 1), "+1.2");
+        assert_eq!(signed(-1.0, 1), "-1.0");
+    }
 }

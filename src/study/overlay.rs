@@ -382,7 +382,9 @@ fn remove_units(merged: &mut Merged, list: &Value, file: &str, text: &str) -> Re
     for (i, item) in items.iter().enumerate() {
         let position = locate(text, &[Step::Key("remove-units"), Step::Index(i)]);
         let name = item.as_str().unwrap_or_default();
-        let units = units_mut(&mut merged.doc).map(std::mem::take).unwrap_or_default();
+        let units = units_mut(&mut merged.doc)
+            .map(std::mem::take)
+            .unwrap_or_default();
         let Some(at) = units.iter().position(|u| unit_name(u) == Some(name)) else {
             let known: Vec<&str> = units.iter().filter_map(unit_name).collect();
             let message = format!(
@@ -457,13 +459,17 @@ fn add_units(
                 "an added unit needs `from` and `to` stream names".into(),
             ));
         }
-        let mut units = units_mut(&mut merged.doc).map(std::mem::take).unwrap_or_default();
+        let mut units = units_mut(&mut merged.doc)
+            .map(std::mem::take)
+            .unwrap_or_default();
         if units.iter().any(|u| unit_name(u) == Some(name.as_str())) {
             return Err(error_at(
                 file,
                 at("name"),
                 &format!("units.{name}"),
-                format!("the base already has a unit named '{name}'; give the added unit another name"),
+                format!(
+                    "the base already has a unit named '{name}'; give the added unit another name"
+                ),
             ));
         }
         let mut first_consumer: Option<usize> = None;
@@ -514,9 +520,7 @@ impl Merged {
         });
         let Some(o) = origin else {
             return match err {
-                Error::Input {
-                    input, message, ..
-                } => error_at(overlay, None, &input, message),
+                Error::Input { input, message, .. } => error_at(overlay, None, &input, message),
                 Error::Yaml { message, .. } => Error::Yaml {
                     path: overlay.to_string(),
                     position: None,
@@ -545,5 +549,148 @@ impl Merged {
         }
         .or_else(|| locate(&source.text, &entry));
         error_at(&source.file, position, &input, message)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    const BASE: &str = "\
+title: Small train, invented
+feeds:
+  gas:
+    temperature: 350 degC
+    pressure: 25 bar
+    total: 1000 kmol/h
+    mole-fractions: {H2: 0.48, CO: 0.09, CO2: 0.06, CH4: 0.03, H2O: 0.34}
+units:
+  - name: hts
+    type: shift
+    from: gas
+    to: hts-exit
+    catalyst: iron-chromium
+    approach: {shift: 8 K}
+  - name: cooler
+    type: cooler
+    from: hts-exit
+    to: cooled
+    outlet-temperature: 200 degC
+  - name: knockout
+    type: knockout
+    from: cooled
+    to: [dry-gas, condensate]
+    temperature: 40 degC
+";
+
+    fn files(pairs: &[(&str, &str)]) -> tempfile::TempDir {
+        let dir = tempfile::tempdir().unwrap();
+        for (name, text) in pairs {
+            std::fs::write(dir.path().join(name), text).unwrap();
+        }
+        dir
+    }
+
+    fn unit_io(case: &Case) -> Vec<(String, Vec<String>, Vec<String>)> {
+        case.flowsheet
+            .units()
+            .iter()
+            .map(|u| (u.name.clone(), u.inlets.clone(), u.outlets.clone()))
+            .collect()
+    }
+
+    fn io(name: &str, from: &[&str], to: &[&str]) -> (String, Vec<String>, Vec<String>) {
+        let v = |l: &[&str]| l.iter().map(|s| s.to_string()).collect();
+        (name.to_string(), v(from), v(to))
+    }
+
+    #[test]
+    fn an_added_unit_is_put_into_the_stream_and_its_first_outlet_carries_on() {
+        let db = SpeciesDb::embedded().unwrap();
+        // A knockout (two outlets) put into hts-exit: the cooler takes its first outlet (the
+        // gas); its second (condensate) leaves as a product.
+        let dir = files(&[
+            ("base.yaml", BASE),
+            (
+                "o.yaml",
+                "base: base.yaml\nadd-units:\n  - {name: early-knockout, type: knockout, from: \
+                 hts-exit, to: [wet-gas, early-condensate], temperature: 200 degC}\n",
+            ),
+        ]);
+        let case = load(&db, &dir.path().join("o.yaml")).unwrap();
+        assert_eq!(
+            unit_io(&case),
+            [
+                io("hts", &["gas"], &["hts-exit"]),
+                io(
+                    "early-knockout",
+                    &["hts-exit"],
+                    &["wet-gas", "early-condensate"]
+                ),
+                io("cooler", &["wet-gas"], &["cooled"]),
+                io("knockout", &["cooled"], &["dry-gas", "condensate"]),
+            ]
+        );
+        assert_eq!(case.name, "o");
+        assert_eq!(case.files.len(), 2);
+    }
+
+    #[test]
+    fn a_removed_unit_hands_its_inlet_on_and_chained_overlays_apply_in_order() {
+        let db = SpeciesDb::embedded().unwrap();
+        let dir = files(&[
+            ("base.yaml", BASE),
+            (
+                "first.yaml",
+                "base: base.yaml\nchanges: {units.hts.approach.shift: 20 K, \
+                 feeds.gas.temperature: 360 degC}\n",
+            ),
+            (
+                "second.yaml",
+                "title: Second\nbase: first.yaml\nremove-units: [cooler]\nchanges:\n  \
+                 units.hts.approach.shift: 5 K\n",
+            ),
+        ]);
+        let case = load(&db, &dir.path().join("second.yaml")).unwrap();
+        assert!(case
+            .flowsheet
+            .solve_with(&db, &case.parameters, None)
+            .is_ok());
+        assert_eq!(case.name, "Second");
+        assert_eq!(case.files.len(), 3);
+        assert_eq!(
+            unit_io(&case),
+            [
+                io("hts", &["gas"], &["hts-exit"]),
+                io("knockout", &["hts-exit"], &["dry-gas", "condensate"]),
+            ]
+        );
+        let fs = &case.flowsheet;
+        let at = |path: &str| case.parameters[fs.input(path).unwrap().0];
+        // The overlay's change wins over its base's; the base's other change stays.
+        assert_eq!(at("units.hts.approach.shift"), 5.0);
+        assert!((at("feeds.gas.temperature") - 633.15).abs() < 1e-9);
+        // A unit with two outlets cannot be taken out.
+        let dir = files(&[
+            ("base.yaml", BASE),
+            ("o.yaml", "base: base.yaml\nremove-units: [knockout]\n"),
+        ]);
+        let e = load(&db, &dir.path().join("o.yaml"))
+            .unwrap_err()
+            .to_string();
+        assert!(
+            e.contains("o.yaml:2:16") && e.contains("2 outlet(s)"),
+            "{e}"
+        );
+    }
+
+    #[test]
+    fn a_base_chain_that_comes_back_is_refused() {
+        let db = SpeciesDb::embedded().unwrap();
+        let dir = files(&[("a.yaml", "base: a.yaml\n")]);
+        let e = load(&db, &dir.path().join("a.yaml"))
+            .unwrap_err()
+            .to_string();
+        assert!(e.contains("a.yaml:1:1") && e.contains("comes back"), "{e}");
     }
 }

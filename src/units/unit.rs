@@ -766,12 +766,24 @@ mod tests {
             (ValueKind::Temperature, "820 degC", "degC", 1093.15, 820.0),
             (ValueKind::Temperature, "1100 K", "K", 1100.0, 1100.0),
             // degF: T/K = (T/degF + 459.67) * 5/9 (definition)
-            (ValueKind::Temperature, "100 degF", "degF", 310.927_777_777_777_8, 100.0),
+            (
+                ValueKind::Temperature,
+                "100 degF",
+                "degF",
+                310.927_777_777_777_8,
+                100.0,
+            ),
             (ValueKind::TemperatureDifference, "10 K", "K", 10.0, 10.0),
             // 1 bar = 1e5 Pa; gauge referred to 1 atm = 101 325 Pa (definitions)
             (ValueKind::Pressure, "30 bar", "bar", 30e5, 30.0),
             (ValueKind::Pressure, "24 barg", "barg", 25.01325e5, 24.0),
-            (ValueKind::MolarFlow, "3600 kmol/h", "kmol/h", 1000.0, 3600.0),
+            (
+                ValueKind::MolarFlow,
+                "3600 kmol/h",
+                "kmol/h",
+                1000.0,
+                3600.0,
+            ),
             (ValueKind::Fraction, "88 %", "%", 0.88, 88.0),
             (ValueKind::Fraction, "0.88", "", 0.88, 0.88),
             (ValueKind::Duty, "2 MW", "MW", 2e6, 2.0),
@@ -780,7 +792,10 @@ mod tests {
             let unit = kind.written_unit("x", text).unwrap();
             assert_eq!(unit.name, name, "{text}");
             assert!((kind.parse("x", text).unwrap() - si).abs() < 1e-9 * si.abs().max(1.0));
-            assert!((unit.from_si(si) - back).abs() < 1e-9 * back.abs().max(1.0), "{text}");
+            assert!(
+                (unit.from_si(si) - back).abs() < 1e-9 * back.abs().max(1.0),
+                "{text}"
+            );
         }
         assert!(ValueKind::MolarFlow.parse("x", "10 t/h").is_err());
         assert!(ValueKind::Choice(&["a"]).written_unit("x", "1").is_err());
