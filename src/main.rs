@@ -111,6 +111,19 @@ enum Command {
     },
 }
 
+/// Output formats of `compare`.
+#[derive(Clone, Copy, ValueEnum)]
+enum CompareFormat {
+    /// One column per flowsheet, change rows under each figure, for a terminal.
+    Table,
+    /// One object: base and options with their summary, units, change and change_pct.
+    Json,
+    /// One row per figure: base, options, each option's change and % change.
+    Csv,
+    /// The table in GitHub-flavoured Markdown.
+    Markdown,
+}
+
 /// Arguments of `compare`.
 #[derive(clap::Args)]
 struct CompareArgs {
@@ -119,7 +132,7 @@ struct CompareArgs {
     files: Vec<PathBuf>,
     /// Output format.
     #[arg(long, value_enum, default_value = "table")]
-    format: SolveFormat,
+    format: CompareFormat,
     /// Write the report to this file instead of standard output (as `solve --output`); no
     /// input of the run (base, options and the bases they pull in) is overwritten.
     #[arg(long, short = 'o', value_name = "PATH")]
@@ -191,7 +204,13 @@ fn run(cli: Cli) -> syntrain::Result<String> {
         }
         Command::Compare(args) => {
             let solved = syntrain::study::compare::solve_all(&db, &args.files)?;
-            let text = report::compare::render(&solved, args.format.into())?;
+            let format = match args.format {
+                CompareFormat::Table => report::Format::Table,
+                CompareFormat::Json => report::Format::Json,
+                CompareFormat::Csv => report::Format::Csv,
+                CompareFormat::Markdown => report::Format::Markdown,
+            };
+            let text = report::compare::render(&solved, format)?;
             match args.output {
                 Some(path) => {
                     let mut inputs: Vec<&Path> = solved
