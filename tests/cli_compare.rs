@@ -165,6 +165,19 @@ fn changes_of_a_full_flowsheet_option_are_the_difference_of_two_solves() {
     let (b, o) = (solve_json(&base), solve_json(&option));
     let expected = difference(&b, &o);
     let opt = &v["options"][0];
+    let keys = |x: &Value| x.as_object().unwrap().keys().cloned().collect::<Vec<_>>();
+    assert_eq!(keys(&v), ["base", "options", "cautions"]);
+    assert_eq!(keys(&v["base"]), ["name", "file", "summary", "units"]);
+    assert_eq!(
+        keys(opt),
+        ["name", "file", "summary", "units", "change", "change_pct"]
+    );
+    assert_eq!(keys(&opt["change"]), ["summary", "units"]);
+    // The summary has the keys of solve's summary, in the same order.
+    assert_eq!(
+        keys(&v["base"]["summary"]),
+        keys(&solve_json(&base)["summary"])
+    );
     let n = same_tree(&opt["change"], &expected, "change");
     // 10 summary numbers + 2 per unit of the 12.
     assert!(n >= 30, "only {n} numbers compared");

@@ -3,7 +3,8 @@
 //!
 //! - `table`: for a terminal: a legend naming the base and each option, then one row per figure
 //!   with one column per flowsheet, each followed by two rows with each option's change against
-//!   the base (absolute, and % of the base);
+//!   the base (absolute, and % of the base); the purifier product's hydrogen is shown once, as
+//!   hydrogen made;
 //! - `markdown`: the same in GitHub-flavoured Markdown;
 //! - `csv`: one row per figure; columns `figure` (its path), `unit`, the base and each option (by
 //!   name), then `change: NAME` and `change %: NAME` for each option; written by the `csv` crate
@@ -264,7 +265,12 @@ fn table(solved: &[Solved]) -> Table {
         rows: Vec::new(),
     };
     let blank = String::new;
-    for (path, values) in rows(solved) {
+    // The purifier product's hydrogen is the hydrogen made where there is a purifier: shown
+    // once, as hydrogen made (JSON and CSV keep both).
+    let shown = rows(solved)
+        .into_iter()
+        .filter(|(path, _)| !path.starts_with("summary.hydrogen_product_"));
+    for (path, values) in shown {
         let (l, unit, d) = label(&path);
         let mut cells = vec![l, unit.to_string()];
         cells.extend(values.iter().map(|v| v.map_or_else(blank, |x| fixed(x, d))));

@@ -548,7 +548,13 @@ impl Merged {
             })
         }
         .or_else(|| locate(&source.text, &entry));
-        error_at(&source.file, position, &input, message)
+        let located = error_at(&source.file, position, &input, message);
+        if source.file == overlay {
+            located
+        } else {
+            // In a base's text, but caused by what the overlay did to it.
+            located.context(format!("in the flowsheet the overlay {overlay} makes"))
+        }
     }
 }
 
