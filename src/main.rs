@@ -89,6 +89,10 @@ enum Command {
     /// draws) and write one CSV row per case, in case order.
     #[command(after_help = CAUTION, after_long_help = CAUTION)]
     Sweep(Box<cli::sweep::SweepArgs>),
+    /// Compare revamp options with a base side by side: hydrogen made, slips, temperatures,
+    /// duties, and each option's change. An option is a flowsheet or an overlay of one.
+    #[command(after_help = CAUTION, after_long_help = CAUTION)]
+    Compare(CompareArgs),
     /// List the unit types a flowsheet can use, with their inlets, outlets and keys, or show one.
     #[command(name = "unit-types", after_help = CAUTION, after_long_help = CAUTION)]
     UnitTypes {
@@ -111,6 +115,34 @@ enum Command {
         #[arg(long, value_enum, default_value = "table")]
         format: SpeciesFormat,
     },
+}
+
+/// Output formats of `compare`.
+#[derive(Clone, Copy, ValueEnum)]
+enum CompareFormat {
+    /// One column per flowsheet, change rows under each figure, for a terminal.
+    Table,
+    /// One object: base and options with their summary, units, change and change_pct.
+    Json,
+    /// One row per figure: base, options, each option's change and % change.
+    Csv,
+    /// The table in GitHub-flavoured Markdown.
+    Markdown,
+}
+
+/// Arguments of `compare`.
+#[derive(clap::Args)]
+struct CompareArgs {
+    /// The base flowsheet, then one or more options (flowsheets or overlays with `base:`).
+    #[arg(required = true, num_args = 2.., value_name = "FILE")]
+    files: Vec<PathBuf>,
+    /// Output format.
+    #[arg(long, value_enum, default_value = "table")]
+    format: CompareFormat,
+    /// Write the report to this file instead of standard output (as `solve --output`); no
+    /// input of the run (base, options and the bases they pull in) is overwritten.
+    #[arg(long, short = 'o', value_name = "PATH")]
+    output: Option<PathBuf>,
 }
 
 fn main() -> ExitCode {
@@ -197,6 +229,29 @@ fn run(cli: Cli) -> syntrain::Result<String> {
             }
         }
         Command::Sweep(_) => Ok(String::new()),
+        Command::Compare(args) => {
+            let solved = syntrain::study::compare::solve_all(&db, &args.files)?;
+            let format = match args.format {
+                CompareFormat::Table => report::Format::Table,
+                CompareFormat::Json => report::Format::Json,
+                CompareFormat::Csv => report::Format::Csv,
+                CompareFormat::Markdown => report::Format::Markdown,
+            };
+            let text = report::compare::render(&solved, format)?;
+            match args.output {
+                Some(path) => {
+                    let mut inputs: Vec<&Path> = solved
+                        .iter()
+                        .flat_map(|s| s.case.files.iter().map(PathBuf::as_path))
+                        .collect();
+                    inputs.extend(cli.species_file.as_deref());
+                    report::write_output(&path, &text, &inputs)?;
+                    report_error(&format!("wrote {}", path.display()));
+                    Ok(String::new())
+                }
+                None => Ok(text),
+            }
+        }
         Command::UnitTypes { name, format } => match format {
             SpeciesFormat::Table => syntrain::report::unit_types::table(name.as_deref()),
             SpeciesFormat::Json => syntrain::report::unit_types::json(name.as_deref()),

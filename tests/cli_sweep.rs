@@ -478,3 +478,70 @@ fn the_output_may_not_overwrite_the_flowsheet() {
     assert!(!out.status.success());
     assert_eq!(std::fs::read(&copy).unwrap(), before);
 }
+
+#[test]
+fn the_steam_to_carbon_ratio_is_set_by_scaling_the_steam_feed() {
+    let csv = sweep(&[
+        "--vary",
+        "units.prereformer.steam-to-carbon=2.4..3.2:5",
+        "--columns",
+        "summary.steam_to_carbon.prereformer,summary.methane_slip_percent_dry.reformer,\
+         streams.process-steam.flow_kmol_h.H2O",
+    ]);
+    let set = csv.numbers("units.prereformer.steam-to-carbon");
+    let met = csv.numbers("summary.steam_to_carbon.prereformer");
+    let steam = csv.numbers("streams.process-steam.flow_kmol_h.H2O");
+    for ((s, m), w) in set.iter().zip(&met).zip(&steam) {
+        // Met to the target tolerance (1e-4); and by hand (common practice definition): steam
+        // over hydrocarbon carbon of the feed, 935 + 2 x 35 + 3 x 10 = 1035 kmol/h.
+        assert!((s - m).abs() <= 1e-4, "{s} vs {m}");
+        assert!((w / 1035.0 - s).abs() <= 1e-4, "{w} kmol/h for {s}");
+    }
+    // Common practice: more steam per carbon, less methane slip.
+    let slip = csv.numbers("summary.methane_slip_percent_dry.reformer");
+    assert!(slip.windows(2).all(|w| w[1] < w[0]), "{slip:?}");
+}
+
+#[test]
+fn an_overlay_and_a_file_with_targets_are_swept_as_they_solve() {
+    let flowsheets = concat!(env!("CARGO_MANIFEST_DIR"), "/flowsheets/");
+    // The revamp overlay with an added medium-temperature shift: its changes hold in every case.
+    let out = run(&[
+        "sweep",
+        &format!("{flowsheets}revamp-mts.yaml"),
+        "--vary",
+        "units.mts.approach.shift=5 K,20 K",
+        "--columns",
+        "summary.co_slip_percent_dry.*,units.hts-exit-cooler.outlet_temperature_K",
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let csv = Csv::parse(&out.stdout);
+    let mts = csv.numbers("summary.co_slip_percent_dry.mts");
+    assert!(mts[1] > mts[0], "{mts:?}");
+    // The overlay's change of the HTS exit cooler to 225 degC (498.15 K).
+    assert!(csv
+        .numbers("units.hts-exit-cooler.outlet_temperature_K")
+        .iter()
+        .all(|t| (t - 498.15).abs() < 1e-9));
+    // The design targets of a file are met in every case.
+    let out = run(&[
+        "sweep",
+        &format!("{flowsheets}targets-demo.yaml"),
+        "--vary",
+        "units.hts.approach.shift=5 K,20 K",
+        "--columns",
+        "summary.methane_slip_percent_dry.reformer,streams.lts-exit.dry_mol_pct.CO",
+    ]);
+    assert!(out.status.success());
+    let csv = Csv::parse(&out.stdout);
+    for v in csv.numbers("summary.methane_slip_percent_dry.reformer") {
+        assert!((v - 4.5).abs() <= 1e-4, "{v}");
+    }
+    for v in csv.numbers("streams.lts-exit.dry_mol_pct.CO") {
+        assert!((v - 0.4).abs() <= 1e-4, "{v}");
+    }
+}

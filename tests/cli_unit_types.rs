@@ -33,7 +33,11 @@ fn every_registry_type_and_every_shipped_key_is_listed() {
     for file in std::fs::read_dir(dir).unwrap() {
         let text = std::fs::read_to_string(file.unwrap().path()).unwrap();
         let doc: serde_norway::Value = serde_norway::from_str(&text).unwrap();
-        for unit in doc["units"].as_sequence().unwrap() {
+        // A flowsheet's units, or the units an overlay adds.
+        let units = doc["units"]
+            .as_sequence()
+            .or(doc["add-units"].as_sequence());
+        for unit in units.into_iter().flatten() {
             let t = unit["type"].as_str().unwrap();
             let entry = listed
                 .as_array()

@@ -13,6 +13,7 @@ use syntrain::flowsheet::{Flowsheet, ResultPath};
 use syntrain::report;
 use syntrain::study::cases::CaseList;
 use syntrain::study::columns;
+use syntrain::study::overlay;
 use syntrain::study::percentiles::spread;
 use syntrain::study::plot::{self, Chart, Panel};
 use syntrain::study::sweep::{Observer, Shard, Sweep};
@@ -97,12 +98,26 @@ impl Observer for Watch {
 
 /// Run `sweep`. Messages for the user go to stderr; the CSV to the output or stdout.
 pub fn run(args: SweepArgs, db: &SpeciesDb, species_file: Option<&Path>) -> Result<Ending> {
-    let flowsheet = Flowsheet::from_file(&args.file, db)?;
+    let text = std::fs::read_to_string(&args.file).map_err(|source| Error::Io {
+        action: "reading",
+        path: args.file.clone(),
+        source,
+    })?;
+    // A flowsheet, or an overlay of one (its changes are where every case starts).
+    let (flowsheet, base, files) = if overlay::is_overlay(&text) {
+        let case = overlay::load(db, &args.file)?;
+        (case.flowsheet, case.parameters, case.files)
+    } else {
+        let flowsheet = Flowsheet::from_yaml_str(&args.file.display().to_string(), &text, db)?;
+        let base = flowsheet.parameters();
+        (flowsheet, base, vec![args.file.clone()])
+    };
     let cases = case_list(&args, &flowsheet)?;
     let shard = args.shard.as_deref().map(Shard::parse).transpose()?;
     let sweep = Sweep::new(&flowsheet, db, &cases)
         .shard(shard)
-        .steam_feed(args.steam_feed.clone());
+        .base(base)
+        .steam_feed(args.steam_feed.as_deref())?;
     let reference = sweep.reference()?;
     let columns = match &args.columns {
         Some(list) => {
@@ -132,7 +147,7 @@ pub fn run(args: SweepArgs, db: &SpeciesDb, species_file: Option<&Path>) -> Resu
     }
     let sweep = sweep.columns(columns).keep(kept.clone());
 
-    let mut inputs: Vec<&Path> = vec![&args.file];
+    let mut inputs: Vec<&Path> = files.iter().map(PathBuf::as_path).collect();
     inputs.extend(species_file);
     inputs.extend(args.cases.as_deref());
     let total = shard.map_or(cases.len(), |s| {

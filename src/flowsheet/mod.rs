@@ -20,7 +20,7 @@
 mod checks;
 pub mod feeds;
 pub mod graph;
-mod locate;
+pub mod locate;
 pub mod paths;
 pub mod result;
 mod solve;

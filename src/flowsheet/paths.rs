@@ -45,6 +45,12 @@ pub enum ResultSlot {
     HydrogenKmolH,
     /// `summary.hydrogen_product_Nm3_h`
     HydrogenNm3H,
+    /// `summary.hydrogen_made_kmol_h`
+    HydrogenMadeKmolH,
+    /// `summary.hydrogen_made_Nm3_h`
+    HydrogenMadeNm3H,
+    /// `summary.hydrogen_per_carbon_fed` (mol/mol)
+    HydrogenPerCarbonFed,
     /// `summary.methane_slip_percent_dry.UNIT`
     MethaneSlip { index: usize },
     /// `summary.co_slip_percent_dry.UNIT`
@@ -105,6 +111,9 @@ impl ResultPath {
             }),
             ResultSlot::HydrogenKmolH => s.hydrogen_product_mol_s.map(mol_s_to_kmol_h),
             ResultSlot::HydrogenNm3H => s.hydrogen_product_mol_s.map(mol_s_to_nm3_h),
+            ResultSlot::HydrogenMadeKmolH => s.hydrogen_made_mol_s.map(mol_s_to_kmol_h),
+            ResultSlot::HydrogenMadeNm3H => s.hydrogen_made_mol_s.map(mol_s_to_nm3_h),
+            ResultSlot::HydrogenPerCarbonFed => s.hydrogen_per_carbon_fed,
             ResultSlot::MethaneSlip { index } => pct(&s.methane_slip_dry, index, 100.0),
             ResultSlot::CoSlip { index } => pct(&s.co_slip_dry, index, 100.0),
             ResultSlot::SteamToCarbon { index } => pct(&s.steam_to_carbon, index, 1.0),
@@ -188,6 +197,22 @@ impl FlowsheetResult {
             push(
                 "summary.hydrogen_product_Nm3_h".into(),
                 ResultSlot::HydrogenNm3H,
+            );
+        }
+        if s.hydrogen_made_mol_s.is_some() {
+            push(
+                "summary.hydrogen_made_kmol_h".into(),
+                ResultSlot::HydrogenMadeKmolH,
+            );
+            push(
+                "summary.hydrogen_made_Nm3_h".into(),
+                ResultSlot::HydrogenMadeNm3H,
+            );
+        }
+        if s.hydrogen_per_carbon_fed.is_some() {
+            push(
+                "summary.hydrogen_per_carbon_fed".into(),
+                ResultSlot::HydrogenPerCarbonFed,
             );
         }
         for (index, (unit, _)) in s.methane_slip_dry.iter().enumerate() {

@@ -45,6 +45,13 @@ pub struct SolvedUnit {
 pub struct Summary {
     /// Hydrogen in the purifier product(s), mol/s (None without a purifier).
     pub hydrogen_product_mol_s: Option<f64>,
+    /// Hydrogen made, mol/s: the hydrogen in the purifier product(s) where the train has a
+    /// purifier; otherwise the hydrogen leaving in the train's products (streams no unit uses)
+    /// less the hydrogen fed. None only when the species data hold no H2.
+    pub hydrogen_made_mol_s: Option<f64>,
+    /// Hydrogen made per mole of organic carbon fed in all feeds (every gas carbon but CO and
+    /// CO2, as in the steam-to-carbon ratio), mol/mol; None without organic carbon fed.
+    pub hydrogen_per_carbon_fed: Option<f64>,
     /// Methane slip, dry mole fraction, at each reformer outlet: (unit, fraction).
     pub methane_slip_dry: Vec<(String, f64)>,
     /// CO slip, dry mole fraction, at each shift outlet: (unit, fraction).

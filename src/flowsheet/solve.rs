@@ -14,6 +14,7 @@ use super::result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Sum
 use super::targets::TargetOutcome;
 use super::Flowsheet;
 use crate::error::{Error, Result};
+use crate::reaction::organic_carbon_atoms;
 use crate::thermo::{mixture, water, SpeciesDb};
 use crate::units::unit::{UnitContext, UnitScratch};
 use crate::units::{Stream, StreamPhase, UnitResult, Warning};
@@ -31,6 +32,11 @@ pub(crate) struct ElementTable {
     names: Vec<String>,
     /// For each database species: (element index, atoms per molecule).
     atoms: Vec<Vec<(usize, f64)>>,
+    /// Species holding organic carbon, with their organic carbon atoms
+    /// ([`crate::reaction::organic_carbon_atoms`], the count of the steam-to-carbon ratio).
+    organic: Vec<(usize, f64)>,
+    /// Database index of H2, where the data hold it.
+    hydrogen: Option<usize>,
 }
 
 /// Most elements the balance check keeps on the stack.
@@ -51,7 +57,19 @@ impl ElementTable {
                     .collect()
             })
             .collect();
-        ElementTable { names, atoms }
+        let organic = db
+            .all()
+            .iter()
+            .enumerate()
+            .map(|(i, s)| (i, organic_carbon_atoms(s)))
+            .filter(|(_, c)| *c > 0.0)
+            .collect();
+        ElementTable {
+            names,
+            atoms,
+            organic,
+            hydrogen: db.index_of("H2"),
+        }
     }
 }
 
@@ -246,6 +264,7 @@ pub(crate) fn solve_in<'w>(
         warm[k] = true;
     }
     summary(&mut result.summary, &result.units);
+    hydrogen_made(&mut result.summary, &fs.elements, &result.streams);
     result.element_balance_residual = element_balance(&fs.elements, &result.streams)?;
     result.energy_balance_residual = energy_balance(db, &result.streams, &result.units)?;
     Ok(result)
@@ -383,6 +402,38 @@ fn summary(s: &mut Summary, units: &[SolvedUnit]) {
     s.methane_slip_dry.truncate(counts[0]);
     s.co_slip_dry.truncate(counts[1]);
     s.steam_to_carbon.truncate(counts[2]);
+}
+
+/// Hydrogen made and hydrogen made per organic carbon fed (see [`Summary`]): the purifier
+/// product where there is one (already summed by [`summary`]), else the hydrogen of the
+/// products (streams no unit uses) less that of the feeds; the carbon fed is the organic carbon
+/// of every feed stream. Reads by index; no allocation.
+fn hydrogen_made(s: &mut Summary, table: &ElementTable, streams: &[SolvedStream]) {
+    let mut net = 0.0;
+    let mut carbon = 0.0;
+    for st in streams {
+        let flows = &st.stream.flows;
+        let h2 = table.hydrogen.and_then(|h| flows.get(h)).copied();
+        if st.source == StreamSource::Feed {
+            net -= h2.unwrap_or(0.0);
+            carbon += table
+                .organic
+                .iter()
+                .map(|(i, c)| flows.get(*i).copied().unwrap_or(0.0) * c)
+                .sum::<f64>();
+        }
+        if st.destination.is_none() {
+            net += h2.unwrap_or(0.0);
+        }
+    }
+    s.hydrogen_made_mol_s = match s.hydrogen_product_mol_s {
+        Some(n) => Some(n),
+        None => table.hydrogen.map(|_| net),
+    };
+    s.hydrogen_per_carbon_fed = s
+        .hydrogen_made_mol_s
+        .filter(|_| carbon > 0.0)
+        .map(|n| n / carbon);
 }
 
 /// Set entry `i` of a (unit, value) list, reusing it when it names the same unit.

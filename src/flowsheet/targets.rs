@@ -131,6 +131,12 @@ impl Target {
         self.tolerance
     }
 
+    /// Ask for another value of the same result (a study setting the target case by case; the
+    /// bounds and the resolved result path stay).
+    pub fn set_equals(&mut self, equals: f64) {
+        self.equals = equals;
+    }
+
     /// "target `X` -> `Y` = Z", for messages.
     fn label(&self) -> String {
         format!(

@@ -26,6 +26,10 @@
 //!   kmol/h, bar abs), `warnings`, and for equilibrium units `converged`, `iterations`,
 //!   `residuals` [one per reaction], `max_residual`, `energy_residual`
 //! - `summary`: `hydrogen_product_kmol_h` and `hydrogen_product_Nm3_h` (null without a purifier),
+//!   `hydrogen_made_kmol_h` and `hydrogen_made_Nm3_h` (the purifier product's hydrogen where
+//!   there is a purifier, else the hydrogen of the products less the hydrogen fed),
+//!   `hydrogen_per_carbon_fed` (hydrogen made per mole of organic carbon fed, mol/mol; null
+//!   without organic carbon fed),
 //!   `methane_slip_percent_dry` {unit: %}, `co_slip_percent_dry` {unit: %},
 //!   `steam_to_carbon` {unit: ratio}, `heating_duty_kW`, `cooling_duty_kW`
 //! - `balances`: `element_residual`, `energy_residual` (relative)
@@ -38,7 +42,7 @@ use serde_json::{json, Map, Value};
 
 use super::tables::{figure_value, phase_name, present_species, source_name};
 use crate::error::{Result, ResultExt};
-use crate::flowsheet::result::{FlowsheetResult, SolvedStream};
+use crate::flowsheet::result::{FlowsheetResult, SolvedStream, Summary};
 use crate::flowsheet::TargetOutcome;
 use crate::quantity::{
     kelvin_to_degc, kg_s_to_kg_h, mol_s_to_kmol_h, mol_s_to_nm3_h, pa_to_bar, w_to_kw,
@@ -102,23 +106,7 @@ pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
         units.insert(u.name.clone(), Value::Object(unit));
     }
 
-    let s = &result.summary;
-    let pairs = |list: &[(String, f64)], scale: f64| -> Value {
-        Value::Object(
-            list.iter()
-                .map(|(unit, v)| (unit.clone(), number(v * scale)))
-                .collect(),
-        )
-    };
-    let summary = json!({
-        "hydrogen_product_kmol_h": s.hydrogen_product_mol_s.map(mol_s_to_kmol_h).map(number),
-        "hydrogen_product_Nm3_h": s.hydrogen_product_mol_s.map(mol_s_to_nm3_h).map(number),
-        "methane_slip_percent_dry": pairs(&s.methane_slip_dry, 100.0),
-        "co_slip_percent_dry": pairs(&s.co_slip_dry, 100.0),
-        "steam_to_carbon": pairs(&s.steam_to_carbon, 1.0),
-        "heating_duty_kW": number(w_to_kw(s.heating_duty_w)),
-        "cooling_duty_kW": number(w_to_kw(s.cooling_duty_w)),
-    });
+    let summary = summary_value(&result.summary);
 
     let mut top = Map::new();
     top.insert("title".into(), json!(result.title));
@@ -157,6 +145,30 @@ fn targets(list: &[TargetOutcome]) -> Value {
             })
             .collect(),
     )
+}
+
+/// The plant summary as the JSON object of `solve --format json` (`summary`): see the module
+/// documentation for its keys.
+pub fn summary_value(s: &Summary) -> Value {
+    let pairs = |list: &[(String, f64)], scale: f64| -> Value {
+        Value::Object(
+            list.iter()
+                .map(|(unit, v)| (unit.clone(), number(v * scale)))
+                .collect(),
+        )
+    };
+    json!({
+        "hydrogen_product_kmol_h": s.hydrogen_product_mol_s.map(mol_s_to_kmol_h).map(number),
+        "hydrogen_product_Nm3_h": s.hydrogen_product_mol_s.map(mol_s_to_nm3_h).map(number),
+        "hydrogen_made_kmol_h": s.hydrogen_made_mol_s.map(mol_s_to_kmol_h).map(number),
+        "hydrogen_made_Nm3_h": s.hydrogen_made_mol_s.map(mol_s_to_nm3_h).map(number),
+        "hydrogen_per_carbon_fed": s.hydrogen_per_carbon_fed.map(number),
+        "methane_slip_percent_dry": pairs(&s.methane_slip_dry, 100.0),
+        "co_slip_percent_dry": pairs(&s.co_slip_dry, 100.0),
+        "steam_to_carbon": pairs(&s.steam_to_carbon, 1.0),
+        "heating_duty_kW": number(w_to_kw(s.heating_duty_w)),
+        "cooling_duty_kW": number(w_to_kw(s.cooling_duty_w)),
+    })
 }
 
 /// Warnings as objects `{unit, code, message, value, limit}`; value and limit in report units
@@ -222,7 +234,7 @@ fn stream_value(db: &SpeciesDb, s: &SolvedStream, species: &[usize]) -> Result<V
 }
 
 /// A finite number, or null.
-fn number(x: f64) -> Value {
+pub fn number(x: f64) -> Value {
     serde_json::Number::from_f64(x).map_or(Value::Null, Value::Number)
 }
 

@@ -2,6 +2,7 @@
 //! flowsheet, the species listing, and the error chain. Values leave in the units a plant
 //! engineer reads (degC, bar abs, kmol/h, Nm3/h per DIN 1343, kW, mol %).
 
+pub mod compare;
 pub mod csv;
 pub mod json;
 pub mod markdown;

@@ -106,7 +106,7 @@ pub fn table_text(table: &Table) -> String {
 }
 
 /// Wrap text at word boundaries to `width` columns, each line indented by `indent` spaces.
-fn wrap(text: &str, indent: usize, width: usize) -> String {
+pub(crate) fn wrap(text: &str, indent: usize, width: usize) -> String {
     let mut out = String::new();
     let mut line = String::new();
     for word in text.split_whitespace() {

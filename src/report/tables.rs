@@ -611,6 +611,21 @@ fn summary_table(db: &SpeciesDb, result: &FlowsheetResult) -> Table {
         }
         None => push("hydrogen product".into(), "-".into(), "(no purifier)"),
     }
+    if let Some(n) = s.hydrogen_made_mol_s {
+        push(
+            "hydrogen made".into(),
+            fixed(mol_s_to_kmol_h(n), 2),
+            "kmol/h",
+        );
+        push("hydrogen made".into(), fixed(mol_s_to_nm3_h(n), 0), "Nm3/h");
+    }
+    if let Some(r) = s.hydrogen_per_carbon_fed {
+        push(
+            "hydrogen made per carbon fed".into(),
+            fixed(r, 3),
+            "mol/mol",
+        );
+    }
     for (unit, y) in &s.methane_slip_dry {
         push(
             format!("methane slip, dry, {unit} outlet"),

@@ -295,6 +295,8 @@ pub fn fixture(db: &SpeciesDb) -> FlowsheetResult {
         streams,
         summary: Summary {
             hydrogen_product_mol_s: Some(290.0),
+            hydrogen_made_mol_s: Some(290.0),
+            hydrogen_per_carbon_fed: Some(290.0 / 95.0),
             methane_slip_dry: vec![("reformer".into(), reformed.dry_mole_fraction(db, ch4_index))],
             co_slip_dry: vec![("hts".into(), shifted.dry_mole_fraction(db, co_index))],
             steam_to_carbon: vec![("reformer".into(), 300.0 / 95.0)],

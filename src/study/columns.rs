@@ -79,8 +79,9 @@ pub fn unit_of(reference: &FlowsheetResult, path: &ResultPath) -> String {
             .and_then(|u| u.result.figures.iter().find(|f| f.key == key))
             .map(|f| f.kind.report_unit().to_string())
             .unwrap_or_default(),
-        ResultSlot::HydrogenKmolH => "kmol/h".into(),
-        ResultSlot::HydrogenNm3H => "Nm3/h".into(),
+        ResultSlot::HydrogenKmolH | ResultSlot::HydrogenMadeKmolH => "kmol/h".into(),
+        ResultSlot::HydrogenNm3H | ResultSlot::HydrogenMadeNm3H => "Nm3/h".into(),
+        ResultSlot::HydrogenPerCarbonFed => "mol/mol".into(),
         ResultSlot::MethaneSlip { .. } | ResultSlot::CoSlip { .. } => "mol % dry".into(),
         ResultSlot::SteamToCarbon { .. } => "mol/mol".into(),
     }

@@ -30,7 +30,7 @@ use super::cases::CaseList;
 use super::row::{CachedNumber, RowWriter};
 use super::vary::InputTarget;
 use crate::error::{Error, Result};
-use crate::flowsheet::{Flowsheet, FlowsheetResult, ResultPath, Workspace};
+use crate::flowsheet::{Flowsheet, FlowsheetResult, ResultPath, Target, TargetOutcome, Workspace};
 use crate::thermo::SpeciesDb;
 
 /// Cases per block: the unit of parallel work and of warm starts.
@@ -125,7 +125,10 @@ pub struct Sweep<'a> {
     columns: Vec<ResultPath>,
     shard: Option<Shard>,
     keep: Vec<ResultPath>,
-    steam_feed: Option<String>,
+    /// The parameter vector each case starts from (the file's, or an overlay's).
+    base: Vec<f64>,
+    /// For each steam-to-carbon input (by input index), the target that sets it.
+    ratio_targets: Vec<(usize, Target)>,
 }
 
 /// One block's rows and counts.
@@ -145,6 +148,9 @@ struct ThreadState {
     si: Vec<f64>,
     codes: Vec<&'static str>,
     joined: String,
+    /// The steam-to-carbon targets of this thread, set case by case.
+    extra: Vec<Target>,
+    outcomes: Vec<TargetOutcome>,
     /// The text of each result column's last value.
     cache: Vec<CachedNumber>,
 }
@@ -160,15 +166,37 @@ impl<'a> Sweep<'a> {
             columns: Vec::new(),
             shard: None,
             keep: Vec::new(),
-            steam_feed: None,
+            base: flowsheet.parameters(),
+            ratio_targets: Vec::new(),
         }
     }
 
-    /// The feed scaled to set a steam-to-carbon ratio (else the file's `steam-feed`, else the
-    /// only all-water feed).
-    pub fn steam_feed(mut self, name: Option<String>) -> Sweep<'a> {
-        self.steam_feed = name;
+    /// Start every case from this parameter vector (an overlay's) instead of the file's.
+    pub fn base(mut self, parameters: Vec<f64>) -> Sweep<'a> {
+        self.base = parameters;
         self
+    }
+
+    /// Prepare the steam-to-carbon inputs: each is met by scaling `steam_feed` (else the
+    /// file's `steam-feed`, else the only all-water feed), a design target set case by case.
+    pub fn steam_feed(mut self, steam_feed: Option<&str>) -> Result<Sweep<'a>> {
+        self.ratio_targets.clear();
+        if self.cases.is_empty() {
+            return Ok(self);
+        }
+        let n = self.cases.inputs.len();
+        let (mut shown, mut si) = (vec![0.0; n], vec![0.0; n]);
+        self.cases.case(0, &mut shown, &mut si);
+        for (k, input) in self.cases.inputs.iter().enumerate() {
+            if let InputTarget::SteamToCarbon { unit } = &input.target {
+                let target = self
+                    .flowsheet
+                    .steam_to_carbon_target(self.db, unit, si[k], steam_feed)
+                    .map_err(|e| e.context(format!("setting {}", input.path)))?;
+                self.ratio_targets.push((k, target));
+            }
+        }
+        Ok(self)
     }
 
     /// Write these result paths (of `flowsheet`'s results) for every case.
@@ -181,9 +209,16 @@ impl<'a> Sweep<'a> {
     /// fails, the first of the first 64 cases of the whole list that solves (the same for every
     /// slice of the list); the error of the flowsheet as written when none does.
     pub fn reference(&self) -> Result<FlowsheetResult> {
-        let defaults = self.flowsheet.parameters();
+        let defaults = self.base.clone();
         let mut st = self.thread_state(&defaults);
-        let first_error = match self.flowsheet.solve_in(self.db, &defaults, &mut st.ws) {
+        st.params.copy_from_slice(&defaults);
+        let first_error = match self.flowsheet.solve_targets_in(
+            self.db,
+            &mut st.params,
+            &[],
+            &mut st.ws,
+            &mut st.outcomes,
+        ) {
             Ok(result) => return Ok(result.clone()),
             Err(e) => e,
         };
@@ -235,7 +270,7 @@ impl<'a> Sweep<'a> {
         writer.flush().map_err(io_error)?;
         let (first_block, end_block) = (start / BLOCK, end.div_ceil(BLOCK));
         let stop_writing = AtomicBool::new(false);
-        let defaults = self.flowsheet.parameters();
+        let defaults = self.base.clone();
         std::thread::scope(|scope| -> Result<()> {
             let (tx, rx) = sync_channel::<Vec<BlockOut>>(1);
             let stop = &stop_writing;
@@ -305,6 +340,8 @@ impl<'a> Sweep<'a> {
             si: vec![0.0; n],
             codes: Vec::new(),
             joined: String::new(),
+            extra: self.ratio_targets.iter().map(|(_, t)| t.clone()).collect(),
+            outcomes: Vec::new(),
             cache: vec![CachedNumber::default(); self.columns.len()],
         }
     }
@@ -364,18 +401,20 @@ impl<'a> Sweep<'a> {
     ) -> Result<&'w FlowsheetResult> {
         st.params.copy_from_slice(defaults);
         for (input, si) in self.cases.inputs.iter().zip(&st.si) {
-            match &input.target {
-                InputTarget::Slot(p, _) => st.params[p.0] = *si,
-                InputTarget::SteamToCarbon { unit } => {
-                    return Err(Error::InvalidValue {
-                        field: input.path.clone(),
-                        value: unit.clone(),
-                        reason: "setting a steam-to-carbon ratio needs the target solver".into(),
-                    })
-                }
+            if let InputTarget::Slot(p, _) = &input.target {
+                st.params[p.0] = *si;
             }
         }
-        self.flowsheet.solve_in(self.db, &st.params, &mut st.ws)
+        for ((k, _), target) in self.ratio_targets.iter().zip(&mut st.extra) {
+            target.set_equals(st.si[*k]);
+        }
+        self.flowsheet.solve_targets_in(
+            self.db,
+            &mut st.params,
+            &st.extra,
+            &mut st.ws,
+            &mut st.outcomes,
+        )
     }
 
     #[allow(clippy::too_many_arguments)]
