@@ -143,6 +143,17 @@ struct CompareArgs {
     /// input of the run (base, options and the bases they pull in) is overwritten.
     #[arg(long, short = 'o', value_name = "PATH")]
     output: Option<PathBuf>,
+    /// Uncertainty: solve base and options for this many random draws of the --vary
+    /// distributions (the same draws for all) and report P10/P50/P90 of each change.
+    #[arg(long, value_name = "N")]
+    draws: Option<u64>,
+    /// An uncertain input: PATH~normal(MEAN,SD), PATH~uniform(A,B) or
+    /// PATH~triangular(A,MODE,B), each number with its unit; repeatable (with --draws).
+    #[arg(long, value_name = "PATH~DIST")]
+    vary: Vec<String>,
+    /// Seed of the random draws.
+    #[arg(long, default_value_t = 1)]
+    seed: u64,
 }
 
 fn main() -> ExitCode {
@@ -237,7 +248,22 @@ fn run(cli: Cli) -> syntrain::Result<String> {
                 CompareFormat::Csv => report::Format::Csv,
                 CompareFormat::Markdown => report::Format::Markdown,
             };
-            let text = report::compare::render(&solved, format)?;
+            let text = match args.draws {
+                Some(n) => {
+                    let outcome = syntrain::study::uncertainty::compare_draws(
+                        &db, &solved, &args.vary, n, args.seed,
+                    )?;
+                    report::spread::changes(&outcome, args.seed, format)?
+                }
+                None if !args.vary.is_empty() => {
+                    return Err(syntrain::Error::InvalidValue {
+                        field: "--vary".into(),
+                        value: args.vary.join(" "),
+                        reason: "uncertain inputs need --draws N".into(),
+                    })
+                }
+                None => report::compare::render(&solved, format)?,
+            };
             match args.output {
                 Some(path) => {
                     let mut inputs: Vec<&Path> = solved

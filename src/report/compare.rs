@@ -189,7 +189,7 @@ fn rows(solved: &[Solved]) -> Vec<(String, Vec<Option<f64>>)> {
 }
 
 /// A short label, the unit and the decimals shown of a figure path.
-fn label(path: &str) -> (String, &'static str, usize) {
+pub(crate) fn label(path: &str) -> (String, &'static str, usize) {
     let tail = |prefix: &str| path.strip_prefix(prefix).map(str::to_string);
     let fixed_labels: [(&str, &str, &'static str, usize); 7] = [
         (

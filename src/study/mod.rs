@@ -25,4 +25,5 @@ pub mod percentiles;
 pub mod plot;
 pub mod row;
 pub mod sweep;
+pub mod uncertainty;
 pub mod vary;
