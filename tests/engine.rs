@@ -504,3 +504,24 @@ units:
     .unwrap();
     assert!((half.streams[0].stream.total() * 3.6 - steam / 2.0).abs() < 1e-9);
 }
+
+#[test]
+fn a_reader_gives_every_result_path_as_the_path_itself_does() {
+    let db = db();
+    let fs = Flowsheet::from_file(&root().join("flowsheets/demo-train.yaml"), &db).unwrap();
+    let r = fs.solve(&db).unwrap();
+    let mut reader = syntrain::flowsheet::paths::Reader::default();
+    reader.start(&r);
+    let paths = r.result_paths(&db);
+    let mut dry_seen = 0;
+    for p in &paths {
+        let (a, b) = (reader.get(&db, &r, p), p.get(&db, &r));
+        let (a, b) = (a.unwrap(), b.unwrap());
+        // The same sum in the same order: equal to the last bit but for the division.
+        assert!((a - b).abs() <= 1e-15 * b.abs(), "{}: {a} vs {b}", p.path);
+        if matches!(p.slot, syntrain::flowsheet::ResultSlot::DryPercent { .. }) {
+            dry_seen += 1;
+        }
+    }
+    assert!(dry_seen > 50, "{dry_seen}");
+}

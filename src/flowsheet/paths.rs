@@ -15,7 +15,7 @@
 use super::result::FlowsheetResult;
 use crate::error::{Error, Result};
 use crate::quantity::{mol_s_to_kmol_h, mol_s_to_nm3_h, pa_to_bar, w_to_kw};
-use crate::thermo::SpeciesDb;
+use crate::thermo::{mixture, SpeciesDb};
 
 /// Where a result path reads from in a [`FlowsheetResult`] of its flowsheet: indices fixed by
 /// the flowsheet's layout, so reading a value is a few array lookups (no text, no allocation).
@@ -120,6 +120,44 @@ impl ResultPath {
             ResultSlot::HeatingDuty => Some(w_to_kw(s.heating_duty_w)),
             ResultSlot::CoolingDuty => Some(w_to_kw(s.cooling_duty_w)),
         }
+    }
+}
+
+/// Reads many result paths of one result, working out each stream's dry total once (a sweep
+/// row reads the dry mol % of every species of every stream).
+#[derive(Debug, Default)]
+pub struct Reader {
+    dry_totals: Vec<f64>,
+}
+
+impl Reader {
+    /// Start reading a new result.
+    pub fn start(&mut self, r: &FlowsheetResult) {
+        self.dry_totals.clear();
+        self.dry_totals.resize(r.streams.len(), f64::NAN);
+    }
+
+    /// The value of `path` in `r` (the result given to [`Reader::start`]); the same as
+    /// [`ResultPath::get`].
+    pub fn get(&mut self, db: &SpeciesDb, r: &FlowsheetResult, path: &ResultPath) -> Option<f64> {
+        let ResultSlot::DryPercent { stream, species } = path.slot else {
+            return path.get(db, r);
+        };
+        let flows = &r.streams.get(stream)?.stream.flows;
+        let water = db.water();
+        if Some(species) == water {
+            return Some(0.0);
+        }
+        let total = self.dry_totals.get_mut(stream)?;
+        if total.is_nan() {
+            *total = mixture::total(flows) - water.map_or(0.0, |w| flows[w]);
+        }
+        let n = *flows.get(species)?;
+        Some(if *total > 0.0 {
+            100.0 * n / *total
+        } else {
+            0.0
+        })
     }
 }
 

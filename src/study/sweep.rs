@@ -30,6 +30,7 @@ use super::cases::CaseList;
 use super::row::{CachedNumber, RowWriter};
 use super::vary::InputTarget;
 use crate::error::{Error, Result};
+use crate::flowsheet::paths::Reader;
 use crate::flowsheet::{Flowsheet, FlowsheetResult, ResultPath, Target, TargetOutcome, Workspace};
 use crate::thermo::SpeciesDb;
 
@@ -153,6 +154,7 @@ struct ThreadState {
     outcomes: Vec<TargetOutcome>,
     /// The text of each result column's last value.
     cache: Vec<CachedNumber>,
+    reader: Reader,
 }
 
 impl<'a> Sweep<'a> {
@@ -343,6 +345,7 @@ impl<'a> Sweep<'a> {
             extra: self.ratio_targets.iter().map(|(_, t)| t.clone()).collect(),
             outcomes: Vec::new(),
             cache: vec![CachedNumber::default(); self.columns.len()],
+            reader: Reader::default(),
         }
     }
 
@@ -384,10 +387,13 @@ impl<'a> Sweep<'a> {
                 codes,
                 joined,
                 cache,
+                reader,
                 ..
             } = st;
             let solved = solved.as_ref().map(|()| ws.result());
-            self.write_row(&mut row, shown, solved, codes, joined, cache, &mut out);
+            self.write_row(
+                &mut row, shown, solved, codes, joined, cache, reader, &mut out,
+            );
             out.rows += 1;
         }
         out.bytes = row.bytes;
@@ -426,6 +432,7 @@ impl<'a> Sweep<'a> {
         codes: &mut Vec<&'static str>,
         joined: &mut String,
         cache: &mut [CachedNumber],
+        reader: &mut Reader,
         out: &mut BlockOut,
     ) {
         for v in shown {
@@ -452,8 +459,9 @@ impl<'a> Sweep<'a> {
                     joined.push_str(code);
                 }
                 row.text(joined);
+                reader.start(result);
                 for (c, cached) in self.columns.iter().zip(cache.iter_mut()) {
-                    let v = c.get(self.db, result).unwrap_or(f64::NAN);
+                    let v = reader.get(self.db, result, c).unwrap_or(f64::NAN);
                     row.cached_number(v, cached);
                 }
                 for k in &self.keep {
