@@ -545,3 +545,84 @@ fn an_overlay_and_a_file_with_targets_are_swept_as_they_solve() {
         assert!((v - 0.4).abs() <= 1e-4, "{v}");
     }
 }
+
+#[cfg(unix)]
+#[test]
+fn ctrl_c_leaves_the_rows_finished_and_says_how_many() {
+    let dir = tempfile::tempdir().unwrap();
+    let out_path = temp(dir.path(), "long.csv");
+    let child = Command::new(env!("CARGO_BIN_EXE_syntrain"))
+        .args([
+            "sweep",
+            DEMO,
+            "--vary",
+            "units.hts.approach.shift=0 K..40 K:1000",
+            "--vary",
+            "units.reformer.outlet-temperature=830 degC..880 degC:1000",
+            "-o",
+            out_path.to_str().unwrap(),
+        ])
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .unwrap();
+    // Wait until rows are being written, then interrupt as Ctrl-C does (SIGINT).
+    let started = std::time::Instant::now();
+    while std::fs::metadata(&out_path).map_or(0, |m| m.len()) < 100_000 {
+        assert!(started.elapsed().as_secs() < 60, "no rows written");
+        std::thread::sleep(std::time::Duration::from_millis(20));
+    }
+    let kill = Command::new("kill")
+        .args(["-INT", &child.id().to_string()])
+        .status()
+        .unwrap();
+    assert!(kill.success());
+    let out = child.wait_with_output().unwrap();
+    assert!(!out.status.success(), "an interrupted sweep exits non-zero");
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("interrupted"), "{err}");
+    let written: u64 = err
+        .split(" of 1000000 cases")
+        .next()
+        .and_then(|s| s.rsplit(|c: char| !c.is_ascii_digit()).next())
+        .and_then(|n| n.parse().ok())
+        .unwrap_or_else(|| panic!("{err}"));
+    assert!(written > 0 && written < 1_000_000, "{written}");
+    // Every row whole: as many rows as said, each as wide as the header.
+    let csv = Csv::parse(&std::fs::read(&out_path).unwrap());
+    assert_eq!(csv.rows.len() as u64, written);
+    assert!(csv.rows.iter().all(|r| r.len() == csv.header.len()));
+    assert!(csv.cells("status").iter().all(|s| s == "ok"));
+}
+
+#[cfg(target_os = "linux")]
+#[test]
+fn a_write_error_stops_the_sweep_with_an_error() {
+    // /dev/full refuses every write with "no space left on device".
+    let out = run(&[
+        "sweep",
+        DEMO,
+        "--vary",
+        "units.hts.approach.shift=0 K..40 K:100",
+        "-o",
+        "/dev/full",
+    ]);
+    assert!(!out.status.success());
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("/dev/full"), "{err}");
+}
+
+#[test]
+fn no_progress_bar_when_stderr_is_not_a_terminal() {
+    let out = run(&[
+        "sweep",
+        DEMO,
+        "--vary",
+        "units.hts.approach.shift=0 K..40 K:50",
+    ]);
+    assert!(out.status.success());
+    let err = String::from_utf8_lossy(&out.stderr);
+    // One line: the count of cases, nothing drawn.
+    assert_eq!(err.lines().count(), 1, "{err}");
+    assert!(err.starts_with("50 of 50 cases written"), "{err}");
+    assert!(!err.contains('\r') && !err.contains('\u{1b}'), "{err}");
+}
