@@ -125,7 +125,100 @@ pub fn matches(pattern: &str, text: &str) -> bool {
 
 #[cfg(test)]
 mod tests {
-    use super::matches;
+    use super::*;
+    use crate::flowsheet::Flowsheet;
+
+    fn demo(db: &SpeciesDb) -> FlowsheetResult {
+        let path =
+            std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("flowsheets/demo-train.yaml");
+        Flowsheet::from_file(&path, db).unwrap().solve(db).unwrap()
+    }
+
+    #[test]
+    fn default_columns_leave_out_species_that_flow_nowhere() {
+        let db = SpeciesDb::embedded().unwrap();
+        let r = demo(&db);
+        let all = r.result_paths(&db);
+        let cols = default_columns(&db, &r);
+        let has = |p: &str| cols.iter().any(|c| c.path == p);
+        assert!(has("streams.lts-exit.flow_kmol_h.CO"));
+        assert!(has("streams.natural-gas.flow_kmol_h.C2H6"));
+        assert!(has("units.hts.duty_kW") && has("summary.heating_duty_kW"));
+        // Argon is in the database and flows nowhere in the demo train.
+        assert!(db.index_of("Ar").is_some());
+        assert!(!has("streams.lts-exit.flow_kmol_h.Ar"));
+        assert!(!has("streams.lts-exit.dry_mol_pct.Ar"));
+        assert!(all
+            .iter()
+            .any(|p| p.path == "streams.lts-exit.flow_kmol_h.Ar"));
+        // Every other path is kept, in the same order.
+        let kept: Vec<&str> = all
+            .iter()
+            .filter(|p| !p.path.ends_with(".Ar") && !p.path.ends_with(".O2"))
+            .map(|p| p.path.as_str())
+            .collect();
+        let got: Vec<&str> = cols.iter().map(|c| c.path.as_str()).collect();
+        assert!(got.len() < all.len());
+        assert!(got.iter().all(|g| kept.contains(g)));
+    }
+
+    #[test]
+    fn selections_keep_the_order_given_and_refuse_what_matches_nothing() {
+        let db = SpeciesDb::embedded().unwrap();
+        let r = demo(&db);
+        let items = [
+            "units.hts.duty_kW".to_string(),
+            "summary.co_slip_percent_dry.*".to_string(),
+            "units.hts.duty_kW".to_string(),
+        ];
+        let got: Vec<String> = select(&db, &r, &items)
+            .unwrap()
+            .into_iter()
+            .map(|c| c.path)
+            .collect();
+        assert_eq!(
+            got,
+            [
+                "units.hts.duty_kW",
+                "summary.co_slip_percent_dry.hts",
+                "summary.co_slip_percent_dry.lts"
+            ]
+        );
+        let e = select(&db, &r, &["units.hts.duty_MW".to_string()]).unwrap_err();
+        assert!(e.to_string().contains("units.hts.duty_kW"), "{e}");
+    }
+
+    #[test]
+    fn units_of_result_paths_and_the_default_chart_result() {
+        let db = SpeciesDb::embedded().unwrap();
+        let r = demo(&db);
+        let unit = |p: &str| unit_of(&r, &r.resolve(&db, p).unwrap());
+        assert_eq!(unit("streams.lts-exit.temperature_K"), "K");
+        assert_eq!(unit("streams.lts-exit.pressure_bar"), "bar abs");
+        assert_eq!(unit("streams.lts-exit.flow_kmol_h.CO"), "kmol/h");
+        assert_eq!(unit("streams.lts-exit.dry_mol_pct.CO"), "mol % dry");
+        assert_eq!(unit("units.hts.duty_kW"), "kW");
+        assert_eq!(unit("units.hts.approach_K.shift"), "K");
+        assert_eq!(unit("units.reformer.figures.methane-slip-dry"), "%");
+        assert_eq!(unit("summary.hydrogen_product_Nm3_h"), "Nm3/h");
+        assert_eq!(unit("summary.steam_to_carbon.reformer"), "mol/mol");
+        assert_eq!(unit("summary.co_slip_percent_dry.lts"), "mol % dry");
+        assert_eq!(
+            unit("summary.methane_slip_percent_dry.reformer"),
+            "mol % dry"
+        );
+        assert_eq!(unit("units.hts.outlet_temperature_K"), "K");
+        assert_eq!(unit("summary.hydrogen_product_kmol_h"), "kmol/h");
+        assert_eq!(unit("summary.hydrogen_made_kmol_h"), "kmol/h");
+        assert_eq!(unit("summary.hydrogen_made_Nm3_h"), "Nm3/h");
+        assert_eq!(unit("summary.hydrogen_per_carbon_fed"), "mol/mol");
+        assert_eq!(unit("summary.cooling_duty_kW"), "kW");
+        assert_eq!(unit("summary.heating_duty_kW"), "kW");
+        assert_eq!(
+            last_co_slip(&db, &r).unwrap().path,
+            "summary.co_slip_percent_dry.lts"
+        );
+    }
 
     #[test]
     fn patterns_match_runs_of_characters() {

@@ -232,6 +232,7 @@ const PAIRS: &[u8; 200] = b"0001020304050607080910111213141516171819\
 8081828384858687888990919293949596979899";
 
 /// 10^k for 0 <= k <= 22 exactly, beyond by repeated multiplication.
+#[inline]
 fn pow10(k: i32) -> f64 {
     const EXACT: [f64; 23] = [
         1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16,
@@ -245,6 +246,7 @@ fn pow10(k: i32) -> f64 {
 }
 
 /// 10^k for any k (a comparison value; exact for |k| <= 22).
+#[inline]
 fn pow10_signed(k: i32) -> f64 {
     if k >= 0 {
         pow10(k.min(309))
