@@ -246,3 +246,107 @@ fn invalid(field: &str, value: &str, reason: &str) -> Error {
         reason: reason.to_string(),
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::study::vary::parse_vary;
+    use crate::thermo::SpeciesDb;
+
+    fn demo(db: &SpeciesDb) -> Flowsheet {
+        let path =
+            std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("flowsheets/demo-train.yaml");
+        Flowsheet::from_file(&path, db).unwrap()
+    }
+
+    fn all(list: &CaseList) -> Vec<Vec<f64>> {
+        let n = list.inputs.len();
+        (0..list.len())
+            .map(|i| {
+                let (mut shown, mut si) = (vec![0.0; n], vec![0.0; n]);
+                list.case(i, &mut shown, &mut si);
+                shown
+            })
+            .collect()
+    }
+
+    #[test]
+    fn a_grid_varies_the_last_input_fastest() {
+        let db = SpeciesDb::embedded().unwrap();
+        let fs = demo(&db);
+        let varies = vec![
+            parse_vary(&fs, "units.hts.approach.shift=1 K,2 K").unwrap(),
+            parse_vary(&fs, "units.lts.approach.shift=10 K..30 K:3").unwrap(),
+        ];
+        let grid = CaseList::grid(varies).unwrap();
+        assert_eq!(grid.len(), 6);
+        assert!(!grid.is_empty() && !grid.is_draws());
+        assert_eq!(
+            all(&grid),
+            [
+                [1.0, 10.0],
+                [1.0, 20.0],
+                [1.0, 30.0],
+                [2.0, 10.0],
+                [2.0, 20.0],
+                [2.0, 30.0]
+            ]
+        );
+        assert_eq!(grid.grid_values(1), Some(vec![10.0, 20.0, 30.0]));
+        // An input given twice, and a distribution without draws, are refused.
+        let twice = vec![
+            parse_vary(&fs, "units.hts.approach.shift=1 K").unwrap(),
+            parse_vary(&fs, "units.hts.approach.shift=2 K").unwrap(),
+        ];
+        assert!(CaseList::grid(twice).is_err());
+        let draw = vec![parse_vary(&fs, "units.hts.approach.shift~normal(8 K, 1 K)").unwrap()];
+        assert!(CaseList::grid(draw).is_err());
+    }
+
+    #[test]
+    fn draws_repeat_by_index_and_convert_to_si() {
+        let db = SpeciesDb::embedded().unwrap();
+        let fs = demo(&db);
+        let varies = || {
+            vec![parse_vary(
+                &fs,
+                "units.reformer.outlet-temperature~uniform(850 degC, 870 degC)",
+            )
+            .unwrap()]
+        };
+        let list = CaseList::draws(varies(), 50, 3).unwrap();
+        assert!(list.is_draws() && list.grid_values(0).is_none());
+        let (mut shown, mut si) = ([0.0], [0.0]);
+        list.case(17, &mut shown, &mut si);
+        assert!((850.0..870.0).contains(&shown[0]));
+        assert!((shown[0] + 273.15 - si[0]).abs() < 1e-9);
+        let again = CaseList::draws(varies(), 10, 3).unwrap();
+        let (mut shown2, mut si2) = ([0.0], [0.0]);
+        again.case(17, &mut shown2, &mut si2);
+        assert_eq!(shown, shown2);
+        assert!(CaseList::draws(varies(), 0, 3).is_err());
+        let range = vec![parse_vary(&fs, "units.hts.approach.shift=1 K,2 K").unwrap()];
+        assert!(CaseList::draws(range, 5, 3).is_err());
+    }
+
+    #[test]
+    fn a_table_takes_units_per_cell_and_names_bad_cells() {
+        let db = SpeciesDb::embedded().unwrap();
+        let fs = demo(&db);
+        let text = "units.reformer.outlet-temperature, units.hts.approach.shift\n\
+                    850 degC, 5 K\n\
+                    1143.15 K, 7 K\n";
+        let list = CaseList::from_table(&fs, "cases.csv", text).unwrap();
+        assert_eq!(list.len(), 2);
+        let rows = all(&list);
+        assert_eq!(rows[0], [850.0, 5.0]);
+        assert!((rows[1][0] - 870.0).abs() < 1e-9 && rows[1][1] == 7.0);
+        let bad = "units.hts.approach.shift\n5 K\nfive K\n";
+        let e = CaseList::from_table(&fs, "cases.csv", bad).unwrap_err();
+        assert!(e.to_string().starts_with("cases.csv:3:1"), "{e}");
+        let e =
+            CaseList::from_table(&fs, "cases.csv", "units.hts.aproach.shift\n5 K\n").unwrap_err();
+        assert!(e.to_string().contains("cases.csv:1:1"), "{e}");
+        assert!(CaseList::from_table(&fs, "c.csv", "units.hts.approach.shift\n").is_err());
+    }
+}

@@ -242,3 +242,114 @@ fn invalid(field: &str, value: &str, reason: &str) -> Error {
         reason: reason.to_string(),
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::thermo::SpeciesDb;
+
+    fn demo(db: &SpeciesDb) -> Flowsheet {
+        let path =
+            std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("flowsheets/demo-train.yaml");
+        Flowsheet::from_file(&path, db).unwrap()
+    }
+
+    fn values(v: &Vary) -> Vec<(f64, f64)> {
+        match &v.variation {
+            Variation::Values(list) => list.clone(),
+            Variation::Draw(_) => panic!("a draw"),
+        }
+    }
+
+    #[test]
+    fn a_range_has_both_ends_and_the_unit_of_its_first_value() {
+        let db = SpeciesDb::embedded().unwrap();
+        let fs = demo(&db);
+        let v = parse_vary(
+            &fs,
+            "units.reformer.outlet-temperature=820 degC..1173.15 K:5",
+        )
+        .unwrap();
+        assert_eq!(v.input.unit.name, "degC");
+        let got = values(&v);
+        let shown: Vec<f64> = got.iter().map(|x| x.0).collect();
+        // 1173.15 K is 900 degC (ITS-90: 0 degC = 273.15 K).
+        assert_eq!(shown.len(), 5);
+        for (s, want) in shown.iter().zip([820.0, 840.0, 860.0, 880.0, 900.0]) {
+            assert!((s - want).abs() < 1e-9, "{shown:?}");
+        }
+        for (s, si) in &got {
+            assert!((s + 273.15 - si).abs() < 1e-9);
+        }
+        assert!(matches!(v.input.target, InputTarget::Slot(..)));
+        let one = parse_vary(&fs, "units.hts.approach.shift=7 K..9 K:1").unwrap();
+        assert_eq!(values(&one), [(7.0, 7.0)]);
+    }
+
+    #[test]
+    fn a_list_and_the_steam_to_carbon_ratio() {
+        let db = SpeciesDb::embedded().unwrap();
+        let fs = demo(&db);
+        let v = parse_vary(&fs, "feeds.process-steam.total=3000 kmol/h,3600 kmol/h").unwrap();
+        // 3600 kmol/h = 1 kmol/s = 1000 mol/s.
+        let got = values(&v);
+        assert_eq!((got[0].0, got[1].0), (3000.0, 3600.0));
+        assert!((got[0].1 - 3000.0 / 3.6).abs() < 1e-9 && (got[1].1 - 1000.0).abs() < 1e-9);
+        let sc = parse_vary(&fs, "units.reformer.steam-to-carbon=2.5..3.5:3").unwrap();
+        assert_eq!(
+            sc.input.target,
+            InputTarget::SteamToCarbon {
+                unit: "reformer".into()
+            }
+        );
+        assert_eq!(values(&sc), [(2.5, 2.5), (3.0, 3.0), (3.5, 3.5)]);
+        assert!(sc.input.difference_kind().is_none());
+        assert!(parse_vary(&fs, "units.reformer.steam-to-carbon=0,3").is_err());
+        assert!(parse_vary(&fs, "units.nowhere.steam-to-carbon=3").is_err());
+    }
+
+    #[test]
+    fn bad_settings_are_refused_with_the_reason() {
+        let db = SpeciesDb::embedded().unwrap();
+        let fs = demo(&db);
+        for (text, says) in [
+            ("units.hts.approach.shift", "PATH=FROM..TO:COUNT"),
+            ("units.hts.approach.shift=0 K..10 K:0", "1 to"),
+            ("units.hts.approach.shift=0 K..10 K:x", "whole number"),
+            (
+                "units.hts.aproach.shift=0 K..10 K:3",
+                "units.hts.approach.shift",
+            ),
+            ("units.hts.approach.shift=0 bar..10 bar:3", "bar"),
+        ] {
+            let e = parse_vary(&fs, text).unwrap_err().to_string();
+            assert!(e.contains(says), "{text}: {e}");
+        }
+    }
+
+    #[test]
+    fn differences_of_absolute_temperatures_and_pressures() {
+        let db = SpeciesDb::embedded().unwrap();
+        let fs = demo(&db);
+        let kind = |path: &str, first: &str| {
+            StudyInput::resolve(&fs, path, first)
+                .unwrap()
+                .difference_kind()
+        };
+        assert_eq!(
+            kind("units.reformer.outlet-temperature", "860 degC"),
+            Some(ValueKind::TemperatureDifference)
+        );
+        assert_eq!(
+            kind("feeds.natural-gas.pressure", "30 bar"),
+            Some(ValueKind::PressureDifference)
+        );
+        assert_eq!(
+            kind("units.hts.approach.shift", "8 K"),
+            Some(ValueKind::TemperatureDifference)
+        );
+        assert_eq!(split_value("820 degC"), Some((820.0, "degC")));
+        assert_eq!(split_value(" 2.5 "), Some((2.5, "")));
+        assert_eq!(split_value("degC"), None);
+    }
+}
