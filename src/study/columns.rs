@@ -235,7 +235,10 @@ mod tests {
         assert!(matches("units.hts.duty_kW", "units.hts.duty_kW"));
         assert!(!matches("units.hts.duty_kW", "units.hts.duty_kW2"));
         assert!(matches("*", "anything"));
-        // The first and last parts may not overlap.
+        // The first and last parts may not overlap, but may meet.
         assert!(!matches("ab*ba", "aba"));
+        assert!(matches("ab*ba", "abba"));
+        assert!(matches("a*b", "ab"));
+        assert!(matches("a*b*c", "aXbYc") && !matches("a*b*c", "aXcYb"));
     }
 }
