@@ -102,32 +102,7 @@ impl UnitKind for Methanator {
         &self.spec
     }
 
-    /// Solve into `out` with the work memory of `scratch` (no heap allocation once warm).
-    fn solve_into(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-        scratch: &mut UnitScratch,
-        out: &mut UnitResult,
-    ) -> Result<()> {
-        self.run(db, &self.spec, None, inlets, guess, scratch, out)
-    }
-
-    /// Solve with changed numbers: checked as a build checks them, solved on the stage built.
-    fn solve_spec_into(
-        &self,
-        db: &SpeciesDb,
-        _name: &str,
-        spec: &MethanatorSpec,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-        scratch: &mut UnitScratch,
-        out: &mut UnitResult,
-    ) -> Result<()> {
-        let approaches = self.core.check(&spec.approaches, spec.pressure_drop_pa)?;
-        self.run(db, spec, Some(&approaches), inlets, guess, scratch, out)
-    }
+    super::reactor::reactor_solve_entries!(MethanatorSpec);
 }
 
 impl Methanator {

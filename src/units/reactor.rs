@@ -136,3 +136,46 @@ impl ReactorCore {
         );
     }
 }
+
+/// The two solve entries of an equilibrium reactor's [`super::unit::UnitKind`] impl: with the
+/// numbers it was built with, or with changed ones (checked by the unit's `check_numbers`, if it
+/// names one, and by the core, then solved on the stage it built). Both go to the unit's
+/// `run(db, spec, approaches_k, inlets, guess, scratch, out)`.
+macro_rules! reactor_solve_entries {
+    ($spec:ty) => {
+        $crate::units::reactor::reactor_solve_entries!($spec, |_: &str, _: &$spec| -> Result<()> {
+            Ok(())
+        });
+    };
+    ($spec:ty, $check:expr) => {
+        /// Solve into `out` with the work memory of `scratch` (no heap allocation once warm).
+        fn solve_into(
+            &self,
+            db: &SpeciesDb,
+            inlets: &[&Stream],
+            guess: Option<&[f64]>,
+            scratch: &mut UnitScratch,
+            out: &mut UnitResult,
+        ) -> Result<()> {
+            self.run(db, &self.spec, None, inlets, guess, scratch, out)
+        }
+
+        /// Solve with changed numbers: checked as a build checks them, solved on the stage
+        /// built.
+        fn solve_spec_into(
+            &self,
+            db: &SpeciesDb,
+            name: &str,
+            spec: &$spec,
+            inlets: &[&Stream],
+            guess: Option<&[f64]>,
+            scratch: &mut UnitScratch,
+            out: &mut UnitResult,
+        ) -> Result<()> {
+            ($check)(name, spec)?;
+            let approaches = self.core.check(&spec.approaches, spec.pressure_drop_pa)?;
+            self.run(db, spec, Some(&approaches), inlets, guess, scratch, out)
+        }
+    };
+}
+pub(crate) use reactor_solve_entries;

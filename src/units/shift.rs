@@ -201,33 +201,7 @@ impl UnitKind for Shift {
         &self.spec
     }
 
-    /// Solve into `result` with the work memory of `scratch` (no heap allocation once warm).
-    fn solve_into(
-        &self,
-        db: &SpeciesDb,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-        scratch: &mut UnitScratch,
-        result: &mut UnitResult,
-    ) -> Result<()> {
-        self.run(db, &self.spec, None, inlets, guess, scratch, result)
-    }
-
-    /// Solve with changed numbers: checked as a build checks them, solved on the stage built.
-    fn solve_spec_into(
-        &self,
-        db: &SpeciesDb,
-        name: &str,
-        spec: &ShiftSpec,
-        inlets: &[&Stream],
-        guess: Option<&[f64]>,
-        scratch: &mut UnitScratch,
-        result: &mut UnitResult,
-    ) -> Result<()> {
-        check_numbers(name, spec)?;
-        let approaches = self.core.check(&spec.approaches, spec.pressure_drop_pa)?;
-        self.run(db, spec, Some(&approaches), inlets, guess, scratch, result)
-    }
+    super::reactor::reactor_solve_entries!(ShiftSpec, check_numbers);
 }
 
 impl Shift {
