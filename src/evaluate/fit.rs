@@ -282,14 +282,14 @@ mod tests {
                 (i, 100.0 * out[i] / dry, 0.05)
             })
             .collect();
-        let fit = fit_extents(&db, &[shift.clone()], &inlet, &measured, None).unwrap();
+        let fit = fit_extents(&db, std::slice::from_ref(&shift), &inlet, &measured, None).unwrap();
         assert!((fit.extents[0] - 0.2).abs() < 1e-10, "{:?}", fit.extents);
         assert!(fit.chi_square < 1e-16);
-        assert!(gross_error(&db, &[shift.clone()], &inlet, &measured, &fit).is_none());
+        assert!(gross_error(&db, std::slice::from_ref(&shift), &inlet, &measured, &fit).is_none());
         // 1 mol % too much CO2: named, with a misfit near +1 mol %.
         let mut wrong = measured.clone();
         wrong[2].1 += 1.0;
-        let fit = fit_extents(&db, &[shift.clone()], &inlet, &wrong, None).unwrap();
+        let fit = fit_extents(&db, std::slice::from_ref(&shift), &inlet, &wrong, None).unwrap();
         let g = gross_error(&db, &[shift], &inlet, &wrong, &fit).unwrap();
         assert_eq!(db.by_index(g.species).name, "CO2");
         assert!((g.misfit_pct - 1.0).abs() < 0.05, "{g:?}");

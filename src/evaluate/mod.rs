@@ -48,6 +48,10 @@ pub const OTHER_ACCURACY_PCT: f64 = 0.05;
 /// practice, from memory: about 50 ppm for a process chromatograph without a trace channel).
 pub const DETECTION_LIMIT_PCT: f64 = 0.005;
 
+/// An approach more negative than this is flagged, K (common practice: a degree or so either
+/// side of zero is within the usual error of an outlet thermocouple and an analysis).
+pub const NEGATIVE_APPROACH_MARGIN_K: f64 = 1.0;
+
 /// Temperatures searched for a reaction's equilibrium temperature, K (inside every species
 /// record's range, which covers at least 300-1500 K).
 pub const EQUILIBRIUM_SEARCH_K: (f64, f64) = (300.0, 1500.0);
@@ -287,7 +291,7 @@ pub fn evaluate_sample(
         });
         match approach {
             Ok(a) => {
-                if a < 0.0 {
+                if a < -NEGATIVE_APPROACH_MARGIN_K {
                     warnings.push(
                         Warning::new(
                             "approach-negative",
@@ -295,7 +299,7 @@ pub fn evaluate_sample(
                              outlet temperature and the analysis",
                         )
                         .value(a, FigureKind::TemperatureDifference)
-                        .limit(0.0)
+                        .limit(-NEGATIVE_APPROACH_MARGIN_K)
                         .subject(r.name.clone())
                         .for_unit(&sample.unit),
                     );

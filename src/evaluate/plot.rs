@@ -18,10 +18,13 @@ const COLOURS: [RGBColor; 6] = [
     RGBColor(120, 90, 40),
 ];
 
+/// One series: (unit, reaction) and its (day, approach K) points.
+type Series = ((String, String), Vec<(f64, f64)>);
+
 /// Draw the chart; an error when no sample is dated.
 pub fn svg(evaluation: &Evaluation) -> Result<String> {
     // Series: (unit, reaction) with its dated points.
-    let mut series: Vec<((String, String), Vec<(f64, f64)>)> = Vec::new();
+    let mut series: Vec<Series> = Vec::new();
     for r in &evaluation.samples {
         let Some(day) = r.sample.days else { continue };
         for (reaction, a) in &r.approaches_k {

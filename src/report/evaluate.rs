@@ -152,7 +152,7 @@ pub fn table(e: &Evaluation) -> String {
             .map(|(n, a)| format!("{n} {} K", approach_text(*a)))
             .collect();
         out += &format!(
-            "{}  {}  {:.1} degC, {:.2} bar abs, inlet from the {}: approach {}\n",
+            "{}  {}  {:.1} degC, {:.2} bar abs, inlet: {}; approach {}\n",
             r.sample.id,
             r.sample.unit,
             kelvin_to_degc(r.sample.temperature_k),
@@ -180,7 +180,7 @@ pub fn table(e: &Evaluation) -> String {
     }
     if !e.trends.is_empty() {
         out += "\nTrends of the approach (dated samples)\n";
-        out += "  unit, reaction      samples  linear K/year (+- se)  sd K   exponential 1/year  sd K   better\n";
+        out += "  unit, reaction        samples  linear K/year (+- se)   sd K  exp. 1/year   sd K  better\n";
         for t in &e.trends {
             let (rate, sd) = t.exponential.map_or(("-".into(), "-".into()), |x| {
                 (
@@ -189,7 +189,7 @@ pub fn table(e: &Evaluation) -> String {
                 )
             });
             out += &format!(
-                "  {:<20} {:>6}  {:>+8.2} (+- {:.2})      {:>5.2}   {:>12}        {:>5}  {}\n",
+                "  {:<20} {:>8}  {:>+8.2} (+- {:>5.2})  {:>6.2}  {:>11}  {:>5}  {}\n",
                 format!("{}, {}", t.unit, t.reaction),
                 t.linear.count,
                 365.25 * t.linear.slope_k_per_day,
