@@ -357,3 +357,52 @@ fn errors_in_the_samples_file_name_the_row_and_column() {
         assert!(err.contains("bad.csv") && err.contains(expect), "{err}");
     }
 }
+
+#[test]
+fn a_hot_thermocouple_and_a_trace_reading_are_flagged() {
+    // The solver's HTS outlet at 8 K read 5 K hotter: the shift (exothermic, sign -1) reads
+    // 8 - 5 = 3 K (the design convention); 12 K hotter reads -4 K, past equilibrium, flagged.
+    // The LTS outlet with CO read as 0.003 mol % (below 0.005, common practice) is flagged.
+    let r = solve_at(&[]);
+    let exact = |v: f64| format!("{v:.9}");
+    let base = row(&r, "a", "hts", "hts-exit", &exact);
+    let mut cells: Vec<String> = base.split(',').map(String::from).collect();
+    let t: f64 = cells[2].parse().unwrap();
+    cells[2] = format!("{:.9}", t + 5.0);
+    let warm = cells.join(",");
+    cells[2] = format!("{:.9}", t + 12.0);
+    let hot = cells.join(",");
+    let lts = row(&r, "c", "lts", "lts-exit", &exact);
+    let mut cells: Vec<String> = lts.split(',').map(String::from).collect();
+    cells[5] = "0.003".into();
+    let trace = cells.join(",");
+    let v = evaluate_json(&demo(), &format!("{HEADER}{warm}\n{hot}\n{trace}\n"), &[]);
+    let s = v["samples"].as_array().unwrap();
+    let a = s[0]["approach_K"]["shift"].as_f64().unwrap();
+    assert!((a - 3.0).abs() < 0.01, "{a}");
+    assert!(s[0]["warnings"].as_array().unwrap().is_empty());
+    let a = s[1]["approach_K"]["shift"].as_f64().unwrap();
+    assert!((a + 4.0).abs() < 0.01, "{a}");
+    let codes = |k: usize| -> Vec<String> {
+        s[k]["warnings"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|w| w["code"].as_str().unwrap().to_string())
+            .collect()
+    };
+    assert_eq!(codes(1), ["approach-negative"]);
+    assert!(
+        codes(2).contains(&"below-detection-limit".to_string()),
+        "{:?}",
+        codes(2)
+    );
+    let w = s[2]["warnings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|w| w["code"] == "below-detection-limit")
+        .unwrap();
+    assert_eq!(w["value"].as_f64().unwrap(), 0.003);
+    assert_eq!(w["limit"].as_f64().unwrap(), 0.005);
+}

@@ -285,7 +285,8 @@ pub fn evaluate_sample(
     for (j, r) in reactions.iter().enumerate() {
         // The running direction the solver used: s_j = approach_sign(dH(T), direction).
         let dh_model = r.delta_h(db, stage.outlet_temperature_k)?;
-        let direction = stage.approach_signs[j] * if dh_model >= 0.0 { 1.0 } else { -1.0 };
+        let sign = stage.approach_signs.get(j).copied().unwrap_or(1.0);
+        let direction = sign * if dh_model >= 0.0 { 1.0 } else { -1.0 };
         let approach = ln_quotient(db, r, &fit.outlet_flows, pressure_pa).and_then(|ln_q| {
             approach_from_quotient(db, r, ln_q, t, direction, EQUILIBRIUM_SEARCH_K)
         });
@@ -466,4 +467,55 @@ pub fn measured_inlet(
         }
     }
     Ok(flows)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_measured_inlet_takes_its_water_from_the_model_or_the_sample() {
+        // Identities of the definitions (no outside data): steam-to-carbon ratio 3 in the model,
+        // 2 mol/s of dry gas measured as 90 % CH4 and 10 % C2H6 (1.1 mol of organic carbon
+        // per mol dry: 0.9 + 2 x 0.1), so 3 x 2.2 = 6.6 mol/s of water.
+        let db = SpeciesDb::embedded().unwrap();
+        let ix = |s: &str| db.index_of(s).unwrap();
+        let mut model = vec![0.0; db.len()];
+        model[ix("CH4")] = 1.0;
+        model[ix("H2O")] = 3.0;
+        let mut measured = MeasuredInlet {
+            dry_pct: vec![(ix("CH4"), 90.0), (ix("C2H6"), 10.0)],
+            dry_flow_mol_s: Some(2.0),
+            ..MeasuredInlet::default()
+        };
+        let flows = measured_inlet(&db, &measured, &model, false).unwrap();
+        assert!((flows[ix("H2O")] - 6.6).abs() < 1e-12);
+        assert!((flows[ix("CH4")] - 1.8).abs() < 1e-12);
+        // Reformed first (C2H6 + 2 H2O = 2 CO + 5 H2): 0.2 mol/s of C2H6 takes 0.4 of water.
+        let reformed = measured_inlet(&db, &measured, &model, true).unwrap();
+        assert!((reformed[ix("H2O")] - 6.2).abs() < 1e-12);
+        assert!((reformed[ix("CO")] - 0.4).abs() < 1e-12 && reformed[ix("C2H6")] == 0.0);
+        assert!((reformed[ix("H2")] - 1.0).abs() < 1e-12);
+        // 25 % water on the wet gas: 2 x 25 / 75 mol/s.
+        measured.water_pct_wet = Some(25.0);
+        let flows = measured_inlet(&db, &measured, &model, false).unwrap();
+        assert!((flows[ix("H2O")] - 2.0 / 3.0).abs() < 1e-12);
+    }
+
+    #[test]
+    fn accuracies_default_and_are_set() {
+        let db = SpeciesDb::embedded().unwrap();
+        let mut o = Options::default();
+        let co = db.index_of("CO").unwrap();
+        assert_eq!(o.accuracy(&db, co), 0.02);
+        assert_eq!(
+            o.accuracy(&db, db.index_of("He").unwrap()),
+            OTHER_ACCURACY_PCT
+        );
+        o.add_accuracy(&db, "CO=0.005").unwrap();
+        assert_eq!(o.accuracy(&db, co), 0.005);
+        for bad in ["CO", "XX=1", "CO=-1", "CO=abc"] {
+            assert!(o.add_accuracy(&db, bad).is_err(), "{bad}");
+        }
+    }
 }
