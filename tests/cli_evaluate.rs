@@ -376,7 +376,18 @@ fn a_hot_thermocouple_and_a_trace_reading_are_flagged() {
     let mut cells: Vec<String> = lts.split(',').map(String::from).collect();
     cells[5] = "0.003".into();
     let trace = cells.join(",");
-    let v = evaluate_json(&demo(), &format!("{HEADER}{warm}\n{hot}\n{trace}\n"), &[]);
+    // A measured inlet and outlet with CO at 0.0001 mol % and 25 % water (33.3 mol per 100 mol
+    // dry): the quotient 19 x 75 / (0.0001 x 33.3) = 4.3e5 passes K of the shift at 300 K
+    // (NIST-JANAF, Chase 1998, log Kf at 300 K: CO2 68.670, CO 23.911, H2O 39.785 give
+    // log K = 4.97, K = 9.4e4), so equilibrium lies below the searched range: no approach.
+    let none = "d,lts,200,25,75,0.0001,19,5.9999,,75,0.0001,19,5.9999,25";
+    let header = HEADER.trim_end().to_string()
+        + ",inlet:H2,inlet:CO,inlet:CO2,inlet:CH4,inlet_H2O_pct_wet\n";
+    let v = evaluate_json(
+        &demo(),
+        &format!("{header}{warm},,,,,\n{hot},,,,,\n{trace},,,,,\n{none}\n"),
+        &[],
+    );
     let s = v["samples"].as_array().unwrap();
     let a = s[0]["approach_K"]["shift"].as_f64().unwrap();
     assert!((a - 3.0).abs() < 0.01, "{a}");
@@ -405,4 +416,10 @@ fn a_hot_thermocouple_and_a_trace_reading_are_flagged() {
         .unwrap();
     assert_eq!(w["value"].as_f64().unwrap(), 0.003);
     assert_eq!(w["limit"].as_f64().unwrap(), 0.005);
+    assert!(s[3]["approach_K"]["shift"].is_null());
+    assert!(
+        codes(3).contains(&"approach-undefined".to_string()),
+        "{:?}",
+        codes(3)
+    );
 }
