@@ -25,11 +25,13 @@ pub struct EvaluateArgs {
     /// The samples (CSV; see flowsheets/samples-template.csv).
     #[arg(long, value_name = "SAMPLES.csv")]
     pub samples: PathBuf,
+    /// Report form: text for a terminal, one JSON object, or one CSV row per sample.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
     /// Draw approach against sample date with each trend and its band (SVG).
     #[arg(long, value_name = "SVG")]
     pub plot: Option<PathBuf>,
+    /// Write the report to a file (atomically; never over the flowsheet or the samples).
     #[arg(long, short = 'o', value_name = "PATH")]
     pub output: Option<PathBuf>,
     /// Analyser accuracy of a species, absolute mol % dry (repeatable): CO=0.01.
