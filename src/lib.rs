@@ -19,6 +19,7 @@
 pub mod diagnostics;
 pub mod equilibrium;
 pub mod error;
+pub mod evaluate;
 pub mod flowsheet;
 pub mod quantity;
 pub mod reaction;

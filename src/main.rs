@@ -93,6 +93,8 @@ enum Command {
     /// duties, and each option's change. An option is a flowsheet or an overlay of one.
     #[command(after_help = CAUTION, after_long_help = CAUTION)]
     Compare(CompareArgs),
+    #[command(after_help = CAUTION, after_long_help = CAUTION)]
+    Evaluate(Box<cli::evaluate::EvaluateArgs>),
     /// List the unit types a flowsheet can use, with their inlets, outlets and keys, or show one.
     #[command(name = "unit-types", after_help = CAUTION, after_long_help = CAUTION)]
     UnitTypes {
@@ -240,6 +242,13 @@ fn run(cli: Cli) -> syntrain::Result<String> {
             }
         }
         Command::Sweep(_) => Ok(String::new()),
+        Command::Evaluate(args) => {
+            let (text, notes) = cli::evaluate::run(*args, &db, cli.species_file.as_deref())?;
+            for note in notes {
+                report_error(&note);
+            }
+            Ok(text)
+        }
         Command::Compare(args) => {
             let solved = syntrain::study::compare::solve_all(&db, &args.files)?;
             let format = match args.format {
