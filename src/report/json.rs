@@ -20,6 +20,8 @@
 //! - `streams.<name>`: `source` ("feed" or the unit name), `destination` (unit name or null for a
 //!   product), `phase` ("vapour" or "liquid"), `temperature_degC`, `total_kmol_h`,
 //!   `total_Nm3_h` (ideal gas at 273.15 K and 101 325 Pa, DIN 1343), `mass_kg_h`, `mole_percent_wet`,
+//!   `dew_point_degC` (water dew point at the stream's pressure, IAPWS-IF97 saturation line with
+//!   Raoult's law; null for a stream without water),
 //!   `mole_percent_dry` {species: value}
 //! - `units.<name>`: `outlet_temperature_K`, `approach_K` {reaction: K},
 //!   `figures` {key: {label, value, unit}} in report units (% for fractions, ppm, degC, K,
@@ -220,6 +222,11 @@ fn stream_value(db: &SpeciesDb, s: &SolvedStream, species: &[usize]) -> Result<V
         number(kelvin_to_degc(st.temperature_k)),
     );
     m.insert("pressure_bar".into(), number(pa_to_bar(st.pressure_pa)));
+    m.insert(
+        "dew_point_degC".into(),
+        st.water_dew_point_k(db)
+            .map_or(Value::Null, |t| number(kelvin_to_degc(t))),
+    );
     m.insert("total_kmol_h".into(), number(mol_s_to_kmol_h(st.total())));
     m.insert("total_Nm3_h".into(), number(mol_s_to_nm3_h(st.total())));
     m.insert(
