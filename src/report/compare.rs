@@ -227,6 +227,9 @@ pub(crate) fn label(path: &str) -> (String, &'static str, usize) {
     if let Some(u) = tail("summary.steam_to_carbon.") {
         return (format!("steam-to-carbon, {u}"), "mol/mol", 3);
     }
+    if let Some(u) = tail("summary.carbon_margin.") {
+        return (format!("carbon margin, {u}"), "1 - a", 3);
+    }
     if let Some(u) = path
         .strip_prefix("units.")
         .and_then(|r| r.strip_suffix(".outlet_temperature_degC"))

@@ -33,7 +33,8 @@
 //!   `hydrogen_per_carbon_fed` (hydrogen made per mole of organic carbon fed, mol/mol; null
 //!   without organic carbon fed),
 //!   `methane_slip_percent_dry` {unit: %}, `co_slip_percent_dry` {unit: %},
-//!   `steam_to_carbon` {unit: ratio}, `heating_duty_kW`, `cooling_duty_kW`
+//!   `steam_to_carbon` {unit: ratio}, `carbon_margin` {unit: smallest 1 - a of the carbon
+//!   activities checked at each reformer and pre-reformer}, `heating_duty_kW`, `cooling_duty_kW`
 //! - `balances`: `element_residual`, `energy_residual` (relative)
 //!
 //! Species maps list every species that flows in some stream, the same keys in every stream,
@@ -168,6 +169,7 @@ pub fn summary_value(s: &Summary) -> Value {
         "methane_slip_percent_dry": pairs(&s.methane_slip_dry, 100.0),
         "co_slip_percent_dry": pairs(&s.co_slip_dry, 100.0),
         "steam_to_carbon": pairs(&s.steam_to_carbon, 1.0),
+        "carbon_margin": pairs(&s.carbon_margin, 1.0),
         "heating_duty_kW": number(w_to_kw(s.heating_duty_w)),
         "cooling_duty_kW": number(w_to_kw(s.cooling_duty_w)),
     })

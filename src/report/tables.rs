@@ -650,6 +650,9 @@ fn summary_table(db: &SpeciesDb, result: &FlowsheetResult) -> Table {
             "mol/mol",
         );
     }
+    for (unit, margin) in &s.carbon_margin {
+        push(format!("carbon margin, {unit}"), fixed(*margin, 3), "1 - a");
+    }
     push(
         "heating duties, sum".into(),
         fixed(w_to_kw(s.heating_duty_w), 1),
