@@ -177,7 +177,7 @@ pub fn summary_value(s: &Summary) -> Value {
 
 /// Warnings as objects `{unit, code, message, value, limit}`; value and limit in report units
 /// (degC, K, %, ...), null where a warning has none, `unit` null for the flowsheet as a whole.
-fn warnings(list: &[Warning]) -> Value {
+pub(crate) fn warnings(list: &[Warning]) -> Value {
     Value::Array(
         list.iter()
             .map(|w| {
