@@ -200,8 +200,9 @@ impl CarbonCheck {
     /// (figures), and of the gas `converted` (the inlet with its higher hydrocarbons reformed)
     /// equilibrated by the unit's own stage at zero approach at [`CARBON_PATH_POINTS`]
     /// temperatures from the inlet's to the outlet's (pressure linear between them as well),
-    /// each solve warm-started from the one before. A warning when the activity of a route
-    /// exceeds one anywhere (its worst point named), a warning when it is unbounded at the
+    /// each solve warm-started from the one before. One warning when an activity exceeds one
+    /// anywhere (the highest named, with its route and temperature), a warning when it is
+    /// unbounded at the
     /// outlet, and the figures `carbon-margin` (smallest 1 - a of both routes over the path
     /// and the outlet) and `carbon-margin-temperature` (where). The first point starts cold, every
     /// later one from the point before it.
@@ -338,16 +339,20 @@ impl CarbonCheck {
                 }
             }
         }
-        for (r, w) in worst.iter().enumerate() {
-            let Some(w) = w.filter(|w| w.activity > 1.0) else {
-                continue;
-            };
+        // One warning, at the route and point of the highest activity (in a gas at reforming
+        // and shift equilibrium both routes agree, so a second would say the same).
+        let highest = (0..2)
+            .filter_map(|r| worst[r].map(|w| (r, w)))
+            .filter(|(_, w)| w.activity > 1.0)
+            .max_by(|a, b| a.1.activity.total_cmp(&b.1.activity));
+        if let Some((r, w)) = highest {
             let name = &routes[r].0.name;
             let subject = if w.outlet {
                 format!("{name} in the outlet gas at {}", degc(w.temperature_k))
             } else {
                 format!(
-                    "{name} in the gas at equilibrium at {} (inlet {}, outlet {})",
+                    "{name} in the gas at equilibrium at {} (path from the inlet at {} to the \
+                     outlet at {})",
                     degc(w.temperature_k),
                     degc(t_in),
                     degc(t_out)
@@ -443,26 +448,5 @@ mod tests {
                 .all(|x| matches!(x, Activity::Value(v) if *v > 0.0)),
             "{a:?}"
         );
-    }
-
-    #[test]
-    fn methane_cracking_activity_matches_janaf_at_1000_k() {
-        // NIST-JANAF (Chase 1998), tests/data/janaf/CH4.csv at 1000 K: log10 Kf(CH4) = -1.018
-        // (C(gr) and H2 are reference states, log10 Kf = 0). So for CH4 = C(gr) + 2 H2,
-        // log10 K = +1.018 and K = 10^1.018 = 10.423. An equimolar CH4/H2 gas at 1 bar has
-        // p_CH4 = p_H2 = 0.5 bar, so a_C = K p_CH4 / p_H2^2 = 10.423 * 0.5 / 0.25 = 20.85.
-        // The JANAF table gives 3 decimals of log10 K (+-0.0005, 0.12 % in K); the species fits
-        // differ from the tables by a few J/mol in G: 0.5 % is asked.
-        let db = db();
-        let check = CarbonCheck::new(&db).unwrap();
-        let s = crate::units::test_support::gas(&db, &[("CH4", 1.0), ("H2", 1.0)], 1000.0, 1e5);
-        let Activity::Value(a) =
-            CarbonCheck::activity(&db, &check.cracking, &s.flows, 1000.0, 1e5).unwrap()
-        else {
-            panic!("no value")
-        };
-        let hand = 10f64.powf(1.018) * 0.5 / 0.25;
-        assert!((hand - 20.85).abs() < 0.01, "{hand}");
-        assert!((a / hand - 1.0).abs() < 5e-3, "{a} vs {hand}");
     }
 }
