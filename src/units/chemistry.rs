@@ -204,8 +204,9 @@ impl CarbonCheck {
     /// anywhere (the highest named, with its route and temperature), a warning when it is
     /// unbounded at the
     /// outlet, and the figures `carbon-margin` (smallest 1 - a of both routes over the path
-    /// and the outlet) and `carbon-margin-temperature` (where). The first point starts cold, every
-    /// later one from the point before it.
+    /// and the outlet) and `carbon-margin-temperature` (where). The path is walked from the
+    /// outlet back to the inlet, the first point warm-started from the unit's own stage result,
+    /// every later one from the point before it.
     #[allow(clippy::too_many_arguments)]
     pub(crate) fn report(
         &self,
@@ -222,6 +223,7 @@ impl CarbonCheck {
             outlets,
             figures,
             warnings,
+            equilibrium,
             ..
         } = out;
         let outlet = &outlets[0];
@@ -299,13 +301,19 @@ impl CarbonCheck {
         let (t_in, p_in) = (inlet.temperature_k, inlet.pressure_pa);
         let (t_out, p_out) = (outlet.temperature_k, outlet.pressure_pa);
         let steps = (CARBON_PATH_POINTS - 1) as f64;
-        for k in 0..CARBON_PATH_POINTS {
+        // From the outlet back to the inlet: the first point starts from the unit's own solution
+        // (the outlet at its approaches), every later one from the point before, so that the
+        // check depends only on this solve, not on what the scratch solved before (a study
+        // gives the same figures on any thread count).
+        guess.clear();
+        if let Some(e) = equilibrium {
+            guess.extend_from_slice(&e.extents);
+        }
+        for k in (0..CARBON_PATH_POINTS).rev() {
             let f = k as f64 / steps;
             let t = t_in + (t_out - t_in) * f;
             let p = p_in + (p_out - p_in) * f;
-            // The first point starts cold, so that the check does not depend on what this
-            // scratch solved before (a study gives the same figures on any thread count).
-            let start: Option<&[f64]> = (k > 0).then_some(guess.as_slice());
+            let start: Option<&[f64]> = (guess.len() == zero.len()).then_some(guess.as_slice());
             let stage_inlet = crate::equilibrium::StageInlet {
                 flows: converted,
                 temperature_k: t_in,
