@@ -2,7 +2,8 @@
 //! when the reader of standard output closes the pipe early, as in `syntrain species | head`:
 //! the run ends quietly, like other Unix tools), 1 on any error (the whole error chain is printed
 //! once to stderr; a failed write to standard output is such an error), 2 for a usage error
-//! (clap).
+//! (clap), 3 for a run that solved but gave warnings under `--strict` (solve, compare, sweep:
+//! the report is written in full, and a line on standard error counts the warnings).
 
 use std::io::Write;
 use std::path::{Path, PathBuf};
@@ -18,6 +19,9 @@ use syntrain::report::species as species_report;
 use syntrain::thermo::SpeciesDb;
 
 /// Shown under every help page.
+/// Exit status of a run that solved but gave warnings under `--strict`.
+const STRICT_EXIT: u8 = 3;
+
 const CAUTION: &str = "Screening results only: hot hydrogen and carbon monoxide at pressure are \
 flammable and toxic. Follow local codes and licensed engineering practice.";
 
@@ -84,6 +88,9 @@ enum Command {
         /// link is followed, a FIFO or device is written into, an input file is refused.
         #[arg(long, short = 'o', value_name = "PATH")]
         output: Option<PathBuf>,
+        /// Exit with status 3 when the solve gives any warning (the report is still written).
+        #[arg(long)]
+        strict: bool,
     },
     /// Solve a flowsheet for many cases (a grid of --vary values, a cases file, or random
     /// draws) and write one CSV row per case, in case order.
@@ -156,6 +163,10 @@ struct CompareArgs {
     /// Seed of the random draws.
     #[arg(long, default_value_t = 1)]
     seed: u64,
+    /// Exit with status 3 when the base or an option gives any warning (the report is still
+    /// written).
+    #[arg(long)]
+    strict: bool,
 }
 
 fn main() -> ExitCode {
@@ -164,7 +175,15 @@ fn main() -> ExitCode {
         return sweep(cli.species_file, *args);
     }
     match run(cli) {
-        Ok(text) => print_stdout(&text),
+        Ok((text, None)) => print_stdout(&text),
+        Ok((text, Some(strict))) => {
+            let printed = print_stdout(&text);
+            if printed != ExitCode::SUCCESS {
+                return printed;
+            }
+            report_error(&format!("error: --strict: {strict}"));
+            ExitCode::from(STRICT_EXIT)
+        }
         Err(err) => {
             report_error(&syntrain::report::error_chain(&err));
             ExitCode::FAILURE
@@ -211,6 +230,10 @@ fn sweep(species_file: Option<PathBuf>, args: cli::sweep::SweepArgs) -> ExitCode
             report_error(&format!("error: {message}"));
             ExitCode::FAILURE
         }
+        Ok(cli::sweep::Ending::Strict(message)) => {
+            report_error(&format!("error: {message}"));
+            ExitCode::from(STRICT_EXIT)
+        }
         Err(err) => {
             report_error(&syntrain::report::error_chain(&err));
             ExitCode::FAILURE
@@ -218,16 +241,25 @@ fn sweep(species_file: Option<PathBuf>, args: cli::sweep::SweepArgs) -> ExitCode
     }
 }
 
-fn run(cli: Cli) -> syntrain::Result<String> {
+/// The warnings that `--strict` turns into exit status 3, counted in one line; `None` when
+/// there are none.
+fn strict_note(count: usize) -> Option<String> {
+    (count > 0).then(|| format!("{count} warning(s); see the Warnings of the report"))
+}
+
+/// The report text, and with `--strict` the note of the warnings found.
+fn run(cli: Cli) -> syntrain::Result<(String, Option<String>)> {
     let db = database(cli.species_file.as_ref())?;
     match cli.command {
         Command::Solve {
             file,
             format,
             output,
+            strict,
         } => {
             let flowsheet = Flowsheet::from_file(&file, &db)?;
             let result = flowsheet.solve(&db)?;
+            let note = strict.then(|| strict_note(result.warnings.len())).flatten();
             // Render completely before writing, so an error leaves no partial file.
             let text = report::render_solution(&db, &result, format.into())?;
             match output {
@@ -236,21 +268,25 @@ fn run(cli: Cli) -> syntrain::Result<String> {
                     inputs.extend(cli.species_file.as_deref());
                     report::write_output(&path, &text, &inputs)?;
                     report_error(&format!("wrote {}", path.display()));
-                    Ok(String::new())
+                    Ok((String::new(), note))
                 }
-                None => Ok(text),
+                None => Ok((text, note)),
             }
         }
-        Command::Sweep(_) => Ok(String::new()),
+        Command::Sweep(_) => Ok((String::new(), None)),
         Command::Evaluate(args) => {
-            let (text, notes) = cli::evaluate::run(*args, &db, cli.species_file.as_deref())?;
+            let strict = args.strict;
+            let (text, notes, warned) =
+                cli::evaluate::run(*args, &db, cli.species_file.as_deref())?;
             for note in notes {
                 report_error(&note);
             }
-            Ok(text)
+            Ok((text, strict.then(|| strict_note(warned)).flatten()))
         }
         Command::Compare(args) => {
             let solved = syntrain::study::compare::solve_all(&db, &args.files)?;
+            let warned: usize = solved.iter().map(|s| s.result.warnings.len()).sum();
+            let note = args.strict.then(|| strict_note(warned)).flatten();
             let format = match args.format {
                 CompareFormat::Table => report::Format::Table,
                 CompareFormat::Json => report::Format::Json,
@@ -282,15 +318,18 @@ fn run(cli: Cli) -> syntrain::Result<String> {
                     inputs.extend(cli.species_file.as_deref());
                     report::write_output(&path, &text, &inputs)?;
                     report_error(&format!("wrote {}", path.display()));
-                    Ok(String::new())
+                    Ok((String::new(), note))
                 }
-                None => Ok(text),
+                None => Ok((text, note)),
             }
         }
-        Command::UnitTypes { name, format } => match format {
-            SpeciesFormat::Table => syntrain::report::unit_types::table(name.as_deref()),
-            SpeciesFormat::Json => syntrain::report::unit_types::json(name.as_deref()),
-        },
+        Command::UnitTypes { name, format } => Ok((
+            match format {
+                SpeciesFormat::Table => syntrain::report::unit_types::table(name.as_deref())?,
+                SpeciesFormat::Json => syntrain::report::unit_types::json(name.as_deref())?,
+            },
+            None,
+        )),
         Command::Species {
             name,
             temperatures,
@@ -300,12 +339,13 @@ fn run(cli: Cli) -> syntrain::Result<String> {
                 .iter()
                 .map(|t| syntrain::quantity::parse_temperature("--temperature", t))
                 .collect::<syntrain::Result<Vec<f64>>>()?;
-            match format {
+            let text = match format {
                 SpeciesFormat::Table => {
-                    species_report::table(&db, name.as_deref(), &temperatures_k)
+                    species_report::table(&db, name.as_deref(), &temperatures_k)?
                 }
-                SpeciesFormat::Json => species_report::json(&db, name.as_deref(), &temperatures_k),
-            }
+                SpeciesFormat::Json => species_report::json(&db, name.as_deref(), &temperatures_k)?,
+            };
+            Ok((text, None))
         }
     }
 }

@@ -167,10 +167,21 @@ fn changes_of_a_full_flowsheet_option_are_the_difference_of_two_solves() {
     let opt = &v["options"][0];
     let keys = |x: &Value| x.as_object().unwrap().keys().cloned().collect::<Vec<_>>();
     assert_eq!(keys(&v), ["base", "options", "cautions"]);
-    assert_eq!(keys(&v["base"]), ["name", "file", "summary", "units"]);
+    assert_eq!(
+        keys(&v["base"]),
+        ["name", "file", "summary", "units", "warnings"]
+    );
     assert_eq!(
         keys(opt),
-        ["name", "file", "summary", "units", "change", "change_pct"]
+        [
+            "name",
+            "file",
+            "summary",
+            "units",
+            "warnings",
+            "change",
+            "change_pct"
+        ]
     );
     assert_eq!(keys(&opt["change"]), ["summary", "units"]);
     // The summary has the keys of solve's summary, in the same order.

@@ -43,6 +43,9 @@ pub struct EvaluateArgs {
     /// How far past the last sample the forecast looks, days.
     #[arg(long, default_value_t = 3650.0, value_name = "DAYS")]
     pub horizon_days: f64,
+    /// Exit with status 3 when any sample gives a warning (the report is still written).
+    #[arg(long)]
+    pub strict: bool,
 }
 
 /// Run the command; the report text for standard output (empty when written to a file).
@@ -50,7 +53,7 @@ pub fn run(
     args: EvaluateArgs,
     db: &SpeciesDb,
     species_file: Option<&Path>,
-) -> syntrain::Result<(String, Vec<String>)> {
+) -> syntrain::Result<(String, Vec<String>, usize)> {
     let flowsheet = Flowsheet::from_file(&args.file, db)?;
     let text = std::fs::read_to_string(&args.samples).map_err(|source| syntrain::Error::Io {
         action: "reading",
@@ -81,6 +84,7 @@ pub fn run(
         Format::Csv => EvaluateFormat::Csv,
     };
     let report = render(db, &evaluation, format)?;
+    let warned: usize = evaluation.samples.iter().map(|s| s.warnings.len()).sum();
     let plot = args
         .plot
         .as_ref()
@@ -97,8 +101,8 @@ pub fn run(
         Some(path) => {
             syntrain::report::write_output(path, &report, &inputs)?;
             notes.push(format!("wrote {}", path.display()));
-            Ok((String::new(), notes))
+            Ok((String::new(), notes, warned))
         }
-        None => Ok((report, notes)),
+        None => Ok((report, notes, warned)),
     }
 }

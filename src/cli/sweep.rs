@@ -60,7 +60,7 @@ pub struct SweepArgs {
     /// The feed scaled to set a steam-to-carbon ratio.
     #[arg(long, value_name = "NAME")]
     pub steam_feed: Option<String>,
-    /// Exit non-zero when a case failed or gave a warning.
+    /// Exit with status 3 when a case failed or gave a warning.
     #[arg(long)]
     pub strict: bool,
     /// Print P10, P50 and P90 (with mean, min, max) of the --y results.
@@ -75,8 +75,10 @@ pub struct SweepArgs {
 pub enum Ending {
     /// Every case ran (and, with --strict, none failed or warned).
     Done,
-    /// Interrupted, or --strict found failed cases or warnings: the message says which.
+    /// Interrupted: the message says so.
     Incomplete(String),
+    /// --strict found failed cases or warnings (exit status 3, as `solve --strict`).
+    Strict(String),
 }
 
 /// Progress bar and Ctrl-C flag.
@@ -262,7 +264,7 @@ pub fn run(args: SweepArgs, db: &SpeciesDb, species_file: Option<&Path>) -> Resu
         )));
     }
     if args.strict && (outcome.failed > 0 || outcome.with_warnings > 0) {
-        return Ok(Ending::Incomplete(format!(
+        return Ok(Ending::Strict(format!(
             "--strict: {} failed cases and {} cases with warnings",
             outcome.failed, outcome.with_warnings
         )));

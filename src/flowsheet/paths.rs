@@ -57,6 +57,8 @@ pub enum ResultSlot {
     CoSlip { index: usize },
     /// `summary.steam_to_carbon.UNIT`
     SteamToCarbon { index: usize },
+    /// `summary.carbon_margin.UNIT`
+    CarbonMargin { index: usize },
     /// `summary.heating_duty_kW`
     HeatingDuty,
     /// `summary.cooling_duty_kW`
@@ -117,6 +119,7 @@ impl ResultPath {
             ResultSlot::MethaneSlip { index } => pct(&s.methane_slip_dry, index, 100.0),
             ResultSlot::CoSlip { index } => pct(&s.co_slip_dry, index, 100.0),
             ResultSlot::SteamToCarbon { index } => pct(&s.steam_to_carbon, index, 1.0),
+            ResultSlot::CarbonMargin { index } => pct(&s.carbon_margin, index, 1.0),
             ResultSlot::HeatingDuty => Some(w_to_kw(s.heating_duty_w)),
             ResultSlot::CoolingDuty => Some(w_to_kw(s.cooling_duty_w)),
         }
@@ -269,6 +272,12 @@ impl FlowsheetResult {
             push(
                 format!("summary.steam_to_carbon.{unit}"),
                 ResultSlot::SteamToCarbon { index },
+            );
+        }
+        for (index, (unit, _)) in s.carbon_margin.iter().enumerate() {
+            push(
+                format!("summary.carbon_margin.{unit}"),
+                ResultSlot::CarbonMargin { index },
             );
         }
         push("summary.heating_duty_kW".into(), ResultSlot::HeatingDuty);

@@ -58,6 +58,10 @@ pub struct Summary {
     pub co_slip_dry: Vec<(String, f64)>,
     /// Steam-to-carbon ratio at each reformer and pre-reformer inlet: (unit, ratio).
     pub steam_to_carbon: Vec<(String, f64)>,
+    /// Carbon margin at each reformer and pre-reformer: the smallest 1 - a of the carbon
+    /// activities checked (figure `carbon-margin`; below zero, carbon formation is possible):
+    /// (unit, margin).
+    pub carbon_margin: Vec<(String, f64)>,
     /// Sum of positive duties, W.
     pub heating_duty_w: f64,
     /// Sum of negative duties, W (a negative number).

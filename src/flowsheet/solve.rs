@@ -370,10 +370,11 @@ fn check_phase(db: &SpeciesDb, unit: &str, name: &str, s: &Stream) -> Result<()>
 /// The plant summary, read from the figures the units publish: hydrogen in each purifier
 /// product (`hydrogen-product`), methane slip at each reformer outlet (`methane-slip-dry`), CO
 /// slip at each shift outlet (`co-slip-dry`), the steam-to-carbon ratio at each reformer and
-/// pre-reformer inlet (`steam-to-carbon`), and the sums of the duties. Written in place: a
+/// pre-reformer inlet (`steam-to-carbon`), the carbon margin of each (`carbon-margin`), and the
+/// sums of the duties. Written in place: a
 /// solve of the same flowsheet finds the same entries and only sets their values.
 fn summary(s: &mut Summary, units: &[SolvedUnit]) {
-    let mut counts = [0usize; 3];
+    let mut counts = [0usize; 4];
     s.hydrogen_product_mol_s = None;
     s.heating_duty_w = 0.0;
     s.cooling_duty_w = 0.0;
@@ -387,6 +388,7 @@ fn summary(s: &mut Summary, units: &[SolvedUnit]) {
                 "methane-slip-dry" => (&mut s.methane_slip_dry, &mut counts[0]),
                 "co-slip-dry" => (&mut s.co_slip_dry, &mut counts[1]),
                 "steam-to-carbon" => (&mut s.steam_to_carbon, &mut counts[2]),
+                "carbon-margin" => (&mut s.carbon_margin, &mut counts[3]),
                 _ => continue,
             };
             set_entry(list, *n, &solved.name, f.value);
@@ -402,6 +404,7 @@ fn summary(s: &mut Summary, units: &[SolvedUnit]) {
     s.methane_slip_dry.truncate(counts[0]);
     s.co_slip_dry.truncate(counts[1]);
     s.steam_to_carbon.truncate(counts[2]);
+    s.carbon_margin.truncate(counts[3]);
 }
 
 /// Hydrogen made and hydrogen made per organic carbon fed (see [`Summary`]): the purifier

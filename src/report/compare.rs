@@ -16,6 +16,11 @@
 //!   `{NAME: {outlet_temperature_degC, duty_kW}}`; `change` is option minus base key by key
 //!   (`{"summary": ..., "units": ...}` nested the same way), null where either side lacks the
 //!   value; `change_pct` is the change in % of the base, null also where the base is 0.
+//!   Base and options carry `warnings`, the list of `solve --format json` (`{unit, code,
+//!   message, value, limit}`).
+//!
+//! Table and Markdown end with the warnings of every flowsheet, each naming the flowsheet
+//! (base, option 1, ...), and the cautions.
 //!
 //! Figure paths are those of [`crate::study::compare::figures`]: `summary.KEY[.UNIT]` and
 //! `units.NAME.outlet_temperature_degC`, `units.NAME.duty_kW`.
@@ -121,6 +126,7 @@ pub fn to_value(solved: &[Solved]) -> Value {
         let f = figures_value(s);
         m.insert("summary".into(), f["summary"].clone());
         m.insert("units".into(), f["units"].clone());
+        m.insert("warnings".into(), super::json::warnings(&s.result.warnings));
         m
     };
     let base_figures = figures_value(&solved[0]);
@@ -227,6 +233,9 @@ pub(crate) fn label(path: &str) -> (String, &'static str, usize) {
     if let Some(u) = tail("summary.steam_to_carbon.") {
         return (format!("steam-to-carbon, {u}"), "mol/mol", 3);
     }
+    if let Some(u) = tail("summary.carbon_margin.") {
+        return (format!("carbon margin, {u}"), "1 - a", 3);
+    }
     if let Some(u) = path
         .strip_prefix("units.")
         .and_then(|r| r.strip_suffix(".outlet_temperature_degC"))
@@ -316,6 +325,23 @@ fn legend(solved: &[Solved]) -> Vec<String> {
         .collect()
 }
 
+/// Every warning of the base and the options, each line naming its flowsheet
+/// ("base: unit 'hts': ...", "option 2: ...").
+fn warning_lines(solved: &[Solved]) -> Vec<String> {
+    let mut out = Vec::new();
+    for (k, s) in solved.iter().enumerate() {
+        let which = if k == 0 {
+            "base".to_string()
+        } else {
+            format!("option {k}")
+        };
+        for w in &s.result.warnings {
+            out.push(format!("{which}: {w}"));
+        }
+    }
+    out
+}
+
 fn text(solved: &[Solved]) -> String {
     let mut out = String::new();
     for line in legend(solved) {
@@ -323,6 +349,14 @@ fn text(solved: &[Solved]) -> String {
     }
     out.push('\n');
     out.push_str(&table_text(&table(solved)));
+    out.push_str("\nWarnings\n");
+    let lines = warning_lines(solved);
+    if lines.is_empty() {
+        out.push_str("  none\n");
+    }
+    for line in lines {
+        out.push_str(&format!("  - {line}\n"));
+    }
     out.push_str("\nCautions\n");
     out.push_str(&super::solve_table::wrap(
         super::CAUTIONS,
@@ -340,6 +374,15 @@ fn markdown(solved: &[Solved]) -> String {
     }
     out.push('\n');
     out.push_str(&table_markdown(&table(solved)));
+    out.push_str("## Warnings\n\n");
+    let lines = warning_lines(solved);
+    if lines.is_empty() {
+        out.push_str("None.\n");
+    }
+    for line in lines {
+        out.push_str(&format!("- {}\n", line.replace('|', "\\|")));
+    }
+    out.push('\n');
     out.push_str("## Cautions\n\n");
     out.push_str(&format!("> {}\n", super::CAUTIONS));
     out

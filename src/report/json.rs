@@ -20,6 +20,8 @@
 //! - `streams.<name>`: `source` ("feed" or the unit name), `destination` (unit name or null for a
 //!   product), `phase` ("vapour" or "liquid"), `temperature_degC`, `total_kmol_h`,
 //!   `total_Nm3_h` (ideal gas at 273.15 K and 101 325 Pa, DIN 1343), `mass_kg_h`, `mole_percent_wet`,
+//!   `dew_point_degC` (water dew point at the stream's pressure, IAPWS-IF97 saturation line with
+//!   Raoult's law; null for a stream without water),
 //!   `mole_percent_dry` {species: value}
 //! - `units.<name>`: `outlet_temperature_K`, `approach_K` {reaction: K},
 //!   `figures` {key: {label, value, unit}} in report units (% for fractions, ppm, degC, K,
@@ -31,7 +33,8 @@
 //!   `hydrogen_per_carbon_fed` (hydrogen made per mole of organic carbon fed, mol/mol; null
 //!   without organic carbon fed),
 //!   `methane_slip_percent_dry` {unit: %}, `co_slip_percent_dry` {unit: %},
-//!   `steam_to_carbon` {unit: ratio}, `heating_duty_kW`, `cooling_duty_kW`
+//!   `steam_to_carbon` {unit: ratio}, `carbon_margin` {unit: smallest 1 - a of the carbon
+//!   activities checked at each reformer and pre-reformer}, `heating_duty_kW`, `cooling_duty_kW`
 //! - `balances`: `element_residual`, `energy_residual` (relative)
 //!
 //! Species maps list every species that flows in some stream, the same keys in every stream,
@@ -166,6 +169,7 @@ pub fn summary_value(s: &Summary) -> Value {
         "methane_slip_percent_dry": pairs(&s.methane_slip_dry, 100.0),
         "co_slip_percent_dry": pairs(&s.co_slip_dry, 100.0),
         "steam_to_carbon": pairs(&s.steam_to_carbon, 1.0),
+        "carbon_margin": pairs(&s.carbon_margin, 1.0),
         "heating_duty_kW": number(w_to_kw(s.heating_duty_w)),
         "cooling_duty_kW": number(w_to_kw(s.cooling_duty_w)),
     })
@@ -173,7 +177,7 @@ pub fn summary_value(s: &Summary) -> Value {
 
 /// Warnings as objects `{unit, code, message, value, limit}`; value and limit in report units
 /// (degC, K, %, ...), null where a warning has none, `unit` null for the flowsheet as a whole.
-fn warnings(list: &[Warning]) -> Value {
+pub(crate) fn warnings(list: &[Warning]) -> Value {
     Value::Array(
         list.iter()
             .map(|w| {
@@ -220,6 +224,11 @@ fn stream_value(db: &SpeciesDb, s: &SolvedStream, species: &[usize]) -> Result<V
         number(kelvin_to_degc(st.temperature_k)),
     );
     m.insert("pressure_bar".into(), number(pa_to_bar(st.pressure_pa)));
+    m.insert(
+        "dew_point_degC".into(),
+        st.water_dew_point_k(db)
+            .map_or(Value::Null, |t| number(kelvin_to_degc(t))),
+    );
     m.insert("total_kmol_h".into(), number(mol_s_to_kmol_h(st.total())));
     m.insert("total_Nm3_h".into(), number(mol_s_to_nm3_h(st.total())));
     m.insert(

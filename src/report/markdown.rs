@@ -115,7 +115,7 @@ mod tests {
             assert!(text.contains("## Targets\n"));
             assert!(text.contains("| **target 1: met, 7 flowsheet solves** |"));
             assert!(text.contains("| **mol % wet** |"));
-            assert!(text.contains("> Screening results only."));
+            assert!(text.contains("> Screening results only:"));
             // Every table line of a block has as many cells as its header.
             let mut expected = None;
             for line in text.lines() {

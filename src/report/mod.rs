@@ -47,9 +47,12 @@ pub fn render_solution(db: &SpeciesDb, result: &FlowsheetResult, format: Format)
 }
 
 /// The cautions printed with every result.
-pub const CAUTIONS: &str = "Screening results only. Hot hydrogen and carbon monoxide at pressure \
-are flammable, toxic and can embrittle or attack steel; check every figure against vendor data and \
-follow local codes and licensed engineering practice before acting on it.";
+pub const CAUTIONS: &str = "Screening results only: estimates for engineering studies. Hot \
+hydrogen and carbon monoxide at temperature and pressure are flammable, toxic and can embrittle or \
+attack steel. The operating limits checked here (carbon formation, steam-to-carbon ratio, catalyst \
+windows, dew point) are common practice and replace no limit of the catalyst supplier or the \
+equipment designer. Design and operating decisions follow local codes and standards, licensed \
+engineering practice and the review of licensed engineers.";
 
 /// The error and each of its causes, one per line ("error: ...", "  caused by: ...").
 pub fn error_chain(err: &Error) -> String {

@@ -28,12 +28,13 @@ const MAX_STREAMS_PER_BLOCK: usize = 6;
 const COLUMN_GAP: usize = 2;
 
 /// Labels of the stream rows above the compositions, matching [`stream_column`].
-const STREAM_LABELS: [&str; 8] = [
+const STREAM_LABELS: [&str; 9] = [
     "from",
     "to",
     "phase",
     "temperature, degC",
     "pressure, bar abs",
+    "water dew point, degC",
     "total, kmol/h",
     "total, Nm3/h",
     "mass, kg/h",
@@ -358,6 +359,8 @@ fn stream_column(
         phase_name(st.phase).to_string(),
         fixed(kelvin_to_degc(st.temperature_k), 1),
         fixed(pa_to_bar(st.pressure_pa), 2),
+        st.water_dew_point_k(db)
+            .map_or_else(|| "-".to_string(), |t| fixed(kelvin_to_degc(t), 1)),
         fixed(mol_s_to_kmol_h(st.total()), 2),
         // Normal cubic metres are a gas measure; a liquid shows only kmol/h and kg/h.
         match st.phase {
@@ -646,6 +649,9 @@ fn summary_table(db: &SpeciesDb, result: &FlowsheetResult) -> Table {
             fixed(*ratio, 2),
             "mol/mol",
         );
+    }
+    for (unit, margin) in &s.carbon_margin {
+        push(format!("carbon margin, {unit}"), fixed(*margin, 3), "1 - a");
     }
     push(
         "heating duties, sum".into(),

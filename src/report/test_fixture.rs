@@ -300,6 +300,7 @@ pub fn fixture(db: &SpeciesDb) -> FlowsheetResult {
             methane_slip_dry: vec![("reformer".into(), reformed.dry_mole_fraction(db, ch4_index))],
             co_slip_dry: vec![("hts".into(), shifted.dry_mole_fraction(db, co_index))],
             steam_to_carbon: vec![("reformer".into(), 300.0 / 95.0)],
+            carbon_margin: vec![("reformer".into(), 0.6)],
             heating_duty_w: duties.iter().filter(|d| **d > 0.0).sum(),
             cooling_duty_w: duties.iter().filter(|d| **d < 0.0).sum(),
         },

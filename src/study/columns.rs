@@ -84,6 +84,7 @@ pub fn unit_of(reference: &FlowsheetResult, path: &ResultPath) -> String {
         ResultSlot::HydrogenPerCarbonFed => "mol/mol".into(),
         ResultSlot::MethaneSlip { .. } | ResultSlot::CoSlip { .. } => "mol % dry".into(),
         ResultSlot::SteamToCarbon { .. } => "mol/mol".into(),
+        ResultSlot::CarbonMargin { .. } => String::new(),
     }
 }
 

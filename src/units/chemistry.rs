@@ -6,8 +6,10 @@
 //! carbon activity at an outlet by methane cracking (CH4 = C + 2 H2) and Boudouard
 //! (2 CO = C + CO2), a_C > 1 meaning carbon is thermodynamically possible.
 
-use super::common::{figure, spec_error, Key};
-use super::{FigureKind, Warning};
+use super::common::{degc, figure, run_stage_into, spec_error, Key};
+use super::reactor::ReactorCore;
+use super::{FigureKind, UnitResult, Warning};
+use crate::equilibrium::{EnergyMode, SolverOptions, StageResult, StageWorkspace};
 use crate::error::{Result, ResultExt};
 use crate::quantity::STANDARD_PRESSURE_PA;
 use crate::reaction::{carbon_activity, Reaction};
@@ -107,7 +109,44 @@ pub(crate) fn unconverted_carbon_warnings(
     }
 }
 
-/// Carbon activity checks at an outlet.
+/// How many temperatures the carbon check takes along a reactor's path, inlet and outlet
+/// included (20 equal steps).
+pub(crate) const CARBON_PATH_POINTS: usize = 21;
+
+/// The carbon activity of one route in a gas.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(crate) enum Activity {
+    /// Both sides present: the activity.
+    Value(f64),
+    /// The carbon former absent: no carbon by this route.
+    Zero,
+    /// The carbon former present and its partner absent (methane without hydrogen, CO without
+    /// CO2): the activity is unbounded.
+    Unbounded,
+}
+
+/// Work memory of the carbon check along a path, kept in the unit's scratch so that a warm
+/// check makes no heap allocation.
+#[derive(Debug, Clone, Default)]
+pub(crate) struct CarbonScratch {
+    stage: StageWorkspace,
+    result: StageResult,
+    /// Extents of the previous point (the warm start of the next).
+    guess: Vec<f64>,
+    /// Zero approach for every reaction of the stage.
+    zero: Vec<f64>,
+}
+
+/// The worst point of one route: its activity and where.
+#[derive(Debug, Clone, Copy)]
+struct Worst {
+    activity: f64,
+    temperature_k: f64,
+    /// True when it is the actual outlet gas rather than a gas equilibrated on the path.
+    outlet: bool,
+}
+
+/// Carbon activity checks of a reforming unit.
 #[derive(Debug, Clone)]
 pub(crate) struct CarbonCheck {
     cracking: Reaction,
@@ -122,77 +161,237 @@ impl CarbonCheck {
         })
     }
 
-    /// Add the two carbon-activity figures of a gas (where its species are present) and a
-    /// warning when either exceeds one.
+    /// The activity of `reaction`'s carbon in a gas of `flows` at `temperature_k` and
+    /// `pressure_pa` against graphite (see [`carbon_activity`]).
+    pub(crate) fn activity(
+        db: &SpeciesDb,
+        reaction: &Reaction,
+        flows: &[f64],
+        temperature_k: f64,
+        pressure_pa: f64,
+    ) -> Result<Activity> {
+        let total: f64 = flows.iter().sum();
+        let gas = |i: usize| db.by_index(i).phase == crate::thermo::Phase::Gas;
+        let former_present = reaction
+            .stoichiometry
+            .iter()
+            .all(|(i, nu)| !gas(*i) || *nu > 0.0 || flows[*i] > 0.0);
+        if total <= 0.0 || !former_present {
+            return Ok(Activity::Zero);
+        }
+        let partner_present = reaction
+            .stoichiometry
+            .iter()
+            .all(|(i, nu)| !gas(*i) || *nu < 0.0 || flows[*i] > 0.0);
+        if !partner_present {
+            return Ok(Activity::Unbounded);
+        }
+        let p = |i: usize| flows[i] / total * pressure_pa / STANDARD_PRESSURE_PA;
+        Ok(Activity::Value(carbon_activity(
+            db,
+            reaction,
+            temperature_k,
+            p,
+        )?))
+    }
+
+    /// The carbon checks of a reforming unit whose stage `core` was solved into `out` (one
+    /// outlet): the activities of the actual inlet gas (figures only), of the actual outlet gas
+    /// (figures), and of the gas `converted` (the inlet with its higher hydrocarbons reformed)
+    /// equilibrated by the unit's own stage at zero approach at [`CARBON_PATH_POINTS`]
+    /// temperatures from the inlet's to the outlet's (pressure linear between them as well),
+    /// each solve warm-started from the one before. One warning when an activity exceeds one
+    /// anywhere (the highest named, with its route and temperature), a warning when it is
+    /// unbounded at the
+    /// outlet, and the figures `carbon-margin` (smallest 1 - a of both routes over the path
+    /// and the outlet) and `carbon-margin-temperature` (where). The path is walked from the
+    /// outlet back to the inlet, the first point warm-started from the unit's own stage result,
+    /// every later one from the point before it.
+    #[allow(clippy::too_many_arguments)]
     pub(crate) fn report(
         &self,
         db: &SpeciesDb,
-        unit: &str,
-        outlet: &super::Stream,
-        figures: &mut Vec<super::Figure>,
-        warnings: &mut Vec<Warning>,
+        core: &ReactorCore,
+        inlet: &super::Stream,
+        converted: &[f64],
+        options: &SolverOptions,
+        scratch: &mut CarbonScratch,
+        out: &mut UnitResult,
     ) -> Result<()> {
-        let flows = &outlet.flows;
-        let (temperature_k, pressure_pa) = (outlet.temperature_k, outlet.pressure_pa);
-        let total: f64 = flows.iter().sum();
-        if total <= 0.0 {
-            return Ok(());
-        }
-        let p = |i: usize| flows[i] / total * pressure_pa / STANDARD_PRESSURE_PA;
-        let checks = [
+        let unit = core.name.as_str();
+        let UnitResult {
+            outlets,
+            figures,
+            warnings,
+            equilibrium,
+            ..
+        } = out;
+        let outlet = &outlets[0];
+        let routes = [
             (
                 &self.cracking,
                 "carbon-activity-methane-cracking",
                 "carbon activity, CH4 cracking",
+                "carbon-activity-inlet-cracking",
+                "carbon activity, inlet gas, CH4 cracking",
             ),
             (
                 &self.boudouard,
                 "carbon-activity-boudouard",
                 "carbon activity, Boudouard",
+                "carbon-activity-inlet-boudouard",
+                "carbon activity, inlet gas, Boudouard",
             ),
         ];
-        for (reaction, key, label) in checks {
-            let present = reaction.stoichiometry.iter().all(|(i, _)| {
-                db.by_index(*i).phase != crate::thermo::Phase::Gas || flows[*i] > 0.0
-            });
-            if !present {
-                // Carbon former present, its partner absent (methane with no hydrogen, CO with
-                // no CO2): the activity is unbounded.
-                let unbounded = reaction.stoichiometry.iter().all(|(i, nu)| {
-                    db.by_index(*i).phase != crate::thermo::Phase::Gas
-                        || (*nu < 0.0) == (flows[*i] > 0.0)
+        let mut worst: [Option<Worst>; 2] = [None, None];
+        let mut margin: Option<(f64, f64)> = None;
+        let mut note = |r: usize, a: f64, t: f64, at_outlet: bool| {
+            if worst[r].is_none_or(|w| a > w.activity) {
+                worst[r] = Some(Worst {
+                    activity: a,
+                    temperature_k: t,
+                    outlet: at_outlet,
                 });
-                if unbounded {
-                    warnings.push(
-                        Warning::new(
-                            "carbon-formation",
-                            "the outlet has the carbon former of {subject} but none of its other \
-                             product, so its carbon activity is unbounded: carbon formation \
-                             thermodynamically possible (screening check)",
-                        )
-                        .subject(reaction.name.as_str())
-                        .for_unit(unit),
-                    );
-                }
-                continue;
             }
-            let a = carbon_activity(db, reaction, temperature_k, p)
-                .context(|| format!("unit '{unit}', carbon activity"))?;
-            figures.push(figure(key, label, a, FigureKind::Number));
-            if a > 1.0 {
-                warnings.push(
+            if margin.is_none_or(|(m, _)| 1.0 - a < m) {
+                margin = Some((1.0 - a, t));
+            }
+        };
+        for (r, (reaction, key, label, inlet_key, inlet_label)) in routes.iter().enumerate() {
+            let context = || format!("unit '{unit}', carbon activity");
+            let a_in = Self::activity(
+                db,
+                reaction,
+                &inlet.flows,
+                inlet.temperature_k,
+                inlet.pressure_pa,
+            )
+            .context(context)?;
+            if let Activity::Value(a) = a_in {
+                figures.push(figure(inlet_key, inlet_label, a, FigureKind::Number));
+            }
+            let (t_out, p_out) = (outlet.temperature_k, outlet.pressure_pa);
+            match Self::activity(db, reaction, &outlet.flows, t_out, p_out).context(context)? {
+                Activity::Value(a) => {
+                    figures.push(figure(key, label, a, FigureKind::Number));
+                    note(r, a, t_out, true);
+                }
+                Activity::Zero => {}
+                Activity::Unbounded => warnings.push(
                     Warning::new(
                         "carbon-formation",
-                        "carbon activity {value} by {subject} at the outlet (above {limit}): \
-                         carbon formation thermodynamically possible at the outlet (screening \
-                         check; raise the steam-to-carbon ratio or the temperature)",
+                        "the outlet has the carbon former of {subject} but none of its other \
+                         product, so its carbon activity is unbounded: carbon formation \
+                         thermodynamically possible (screening check)",
                     )
-                    .value(a, FigureKind::Number)
-                    .limit(1.0)
                     .subject(reaction.name.as_str())
                     .for_unit(unit),
-                );
+                ),
             }
+        }
+        // The gas equilibrated along the path.
+        let CarbonScratch {
+            stage: ws,
+            result,
+            guess,
+            zero,
+        } = scratch;
+        zero.clear();
+        zero.resize(core.stage.reactions().len(), 0.0);
+        let (t_in, p_in) = (inlet.temperature_k, inlet.pressure_pa);
+        let (t_out, p_out) = (outlet.temperature_k, outlet.pressure_pa);
+        let steps = (CARBON_PATH_POINTS - 1) as f64;
+        // From the outlet back to the inlet: the first point starts from the unit's own solution
+        // (the outlet at its approaches), every later one from the point before, so that the
+        // check depends only on this solve, not on what the scratch solved before (a study
+        // gives the same figures on any thread count).
+        guess.clear();
+        if let Some(e) = equilibrium {
+            guess.extend_from_slice(&e.extents);
+        }
+        for k in (0..CARBON_PATH_POINTS).rev() {
+            let f = k as f64 / steps;
+            let t = t_in + (t_out - t_in) * f;
+            let p = p_in + (p_out - p_in) * f;
+            let start: Option<&[f64]> = (guess.len() == zero.len()).then_some(guess.as_slice());
+            let stage_inlet = crate::equilibrium::StageInlet {
+                flows: converted,
+                temperature_k: t_in,
+                pressure_pa: p,
+            };
+            run_stage_into(
+                &core.stage,
+                db,
+                unit,
+                stage_inlet,
+                EnergyMode::FixedTemperature { temperature_k: t },
+                start,
+                Some(zero),
+                options,
+                ws,
+                result,
+            )
+            .map_err(|e| {
+                e.context(format!(
+                    "carbon check of the gas equilibrated at {}",
+                    degc(t)
+                ))
+            })?;
+            guess.clear();
+            guess.extend_from_slice(&result.extents);
+            for (r, route) in routes.iter().enumerate() {
+                let a = Self::activity(db, route.0, &result.outlet_flows, t, p)
+                    .context(|| format!("unit '{unit}', carbon activity"))?;
+                if let Activity::Value(a) = a {
+                    note(r, a, t, false);
+                }
+            }
+        }
+        // One warning, at the route and point of the highest activity (in a gas at reforming
+        // and shift equilibrium both routes agree, so a second would say the same).
+        let highest = (0..2)
+            .filter_map(|r| worst[r].map(|w| (r, w)))
+            .filter(|(_, w)| w.activity > 1.0)
+            .max_by(|a, b| a.1.activity.total_cmp(&b.1.activity));
+        if let Some((r, w)) = highest {
+            let name = &routes[r].0.name;
+            let subject = if w.outlet {
+                format!("{name} in the outlet gas at {}", degc(w.temperature_k))
+            } else {
+                format!(
+                    "{name} in the gas at equilibrium at {} (path from the inlet at {} to the \
+                     outlet at {})",
+                    degc(w.temperature_k),
+                    degc(t_in),
+                    degc(t_out)
+                )
+            };
+            warnings.push(
+                Warning::new(
+                    "carbon-formation",
+                    "carbon activity {value} (above {limit}) by {subject}: carbon formation \
+                     thermodynamically possible (principle of equilibrated gas, a screening \
+                     check; raise the steam-to-carbon ratio or the temperature)",
+                )
+                .value(w.activity, FigureKind::Number)
+                .limit(1.0)
+                .subject(subject)
+                .for_unit(unit),
+            );
+        }
+        if let Some((m, t)) = margin {
+            figures.push(figure(
+                "carbon-margin",
+                "carbon margin, smallest 1 - a",
+                m,
+                FigureKind::Number,
+            ));
+            figures.push(figure(
+                "carbon-margin-temperature",
+                "carbon margin, where",
+                t,
+                FigureKind::Temperature,
+            ));
         }
         Ok(())
     }
@@ -240,37 +439,22 @@ mod tests {
         let check = CarbonCheck::new(&db).unwrap();
         let run = |pairs: &[(&str, f64)]| {
             let s = crate::units::test_support::gas(&db, pairs, 900.0, 20e5);
-            let (mut figures, mut warnings) = (Vec::new(), Vec::new());
-            check
-                .report(&db, "r", &s, &mut figures, &mut warnings)
-                .unwrap();
-            let keys: Vec<&str> = figures.iter().map(|f| f.key).collect();
-            let unbounded: Vec<String> = warnings
-                .iter()
-                .filter(|w| w.code == "carbon-formation" && w.value.is_none())
-                .map(|w| w.subject.clone().unwrap())
-                .collect();
-            (keys, unbounded)
+            [&check.cracking, &check.boudouard].map(|r| {
+                CarbonCheck::activity(&db, r, &s.flows, s.temperature_k, s.pressure_pa).unwrap()
+            })
         };
-        // Methane without hydrogen, CO without CO2: both unbounded, no figures.
-        let (keys, unbounded) = run(&[("CH4", 1.0), ("CO", 1.0), ("N2", 1.0)]);
-        assert!(keys.is_empty(), "{keys:?}");
-        assert_eq!(unbounded, vec!["methane-cracking", "boudouard"]);
-        // Hydrogen and CO2 without their formers: zero activity, no warning, no figure.
-        let (keys, unbounded) = run(&[("H2", 1.0), ("CO2", 1.0)]);
+        // Methane without hydrogen, CO without CO2: both unbounded.
+        let a = run(&[("CH4", 1.0), ("CO", 1.0), ("N2", 1.0)]);
+        assert_eq!(a, [Activity::Unbounded, Activity::Unbounded]);
+        // Hydrogen and CO2 without their formers: zero activity.
+        let a = run(&[("H2", 1.0), ("CO2", 1.0)]);
+        assert_eq!(a, [Activity::Zero, Activity::Zero]);
+        // All present: both values.
+        let a = run(&[("CH4", 0.1), ("H2", 1.0), ("CO", 0.1), ("CO2", 0.1)]);
         assert!(
-            keys.is_empty() && unbounded.is_empty(),
-            "{keys:?} {unbounded:?}"
+            a.iter()
+                .all(|x| matches!(x, Activity::Value(v) if *v > 0.0)),
+            "{a:?}"
         );
-        // All present: both figures, nothing unbounded.
-        let (keys, unbounded) = run(&[("CH4", 0.1), ("H2", 1.0), ("CO", 0.1), ("CO2", 0.1)]);
-        assert_eq!(
-            keys,
-            vec![
-                "carbon-activity-methane-cracking",
-                "carbon-activity-boudouard"
-            ]
-        );
-        assert!(unbounded.is_empty());
     }
 }

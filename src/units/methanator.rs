@@ -8,8 +8,13 @@
 //! At zero approach the outlet is at equilibrium, which at 300-350 degC leaves far below 1 ppm
 //! of CO + CO2; a real bed, limited by its kinetics, leaves a few ppm. Use the approach
 //! temperatures to represent a bed short of equilibrium.
+//!
+//! Operating limits ([`super::limits`], common practice, each settable per unit): inlet
+//! 260-330 degC, outlet at most 450 degC (`catalyst-temperature`), inlet at least 15 K above
+//! its water dew point (`dew-point`).
 
-use super::common::{dry_fraction, figure, reactor_inlet};
+use super::common::{dew_point_k, dry_fraction, figure, reactor_inlet};
+use super::limits::{self, key_doc, LimitKey, OperatingLimits, Place, Window, WindowCode};
 use super::reactor::ReactorCore;
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
 use super::{FigureKind, Stream, UnitResult, Warning};
@@ -35,6 +40,8 @@ pub struct MethanatorSpec {
     pub pressure_drop_pa: f64,
     /// Approach temperature by reaction name (`reforming`, `shift`), K; unlisted ones are zero.
     pub approaches: Vec<(String, f64)>,
+    /// Operating limits set in the file (`None`: the defaults of [`super::limits`]).
+    pub limits: OperatingLimits,
 }
 
 /// A methanator ready to solve.
@@ -65,6 +72,10 @@ pub static TYPE: UnitType = UnitType {
             default: Some("0 K for each reaction"),
             meaning: "approach temperature per reaction; a positive one leaves the outlet short of equilibrium (more CO and CO2)",
         },
+        key_doc(LimitKey::InletMin, "260 degC"),
+        key_doc(LimitKey::InletMax, "330 degC"),
+        key_doc(LimitKey::OutletMax, "450 degC"),
+        key_doc(LimitKey::DewPointMargin, "15 K"),
     ],
     example: "- name: methanator\n  type: methanator\n  from: methanator-feed\n  to: \
               methanated-gas\n  approach: {reforming: 20 K}",
@@ -77,14 +88,18 @@ impl UnitKind for Methanator {
     fn read(b: &mut UnitBuilder<'_, '_, MethanatorSpec>) -> Result<MethanatorSpec> {
         let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
         let approaches = b.approaches(&METHANATOR_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
+        let keys = super::shift::LIMIT_KEYS;
+        let limits = limits::read(b, &keys, |s: &mut MethanatorSpec| &mut s.limits)?;
         Ok(MethanatorSpec {
             pressure_drop_pa: drop,
             approaches,
+            limits,
         })
     }
 
     /// Check the spec and build the equilibrium stage.
     fn new(db: &SpeciesDb, name: &str, spec: &MethanatorSpec) -> Result<Methanator> {
+        spec.limits.check(name)?;
         Ok(Methanator {
             core: ReactorCore::new(
                 db,
@@ -102,7 +117,9 @@ impl UnitKind for Methanator {
         &self.spec
     }
 
-    super::reactor::reactor_solve_entries!(MethanatorSpec);
+    super::reactor::reactor_solve_entries!(MethanatorSpec, |name: &str, spec: &MethanatorSpec| {
+        spec.limits.check(name)
+    });
 }
 
 impl Methanator {
@@ -192,6 +209,38 @@ impl Methanator {
                 .for_unit(name.as_str()),
             );
         }
+        let l = &spec.limits;
+        let inlet_window = Window {
+            min_k: Some(l.inlet_min_k.unwrap_or(limits::METHANATOR_INLET_MIN_K)),
+            max_k: Some(l.inlet_max_k.unwrap_or(limits::METHANATOR_INLET_MAX_K)),
+        };
+        let outlet_window = Window {
+            min_k: None,
+            max_k: Some(l.outlet_max_k.unwrap_or(limits::METHANATOR_OUTLET_MAX_K)),
+        };
+        let (code, subject, warnings) = (WindowCode::Catalyst, "a methanator", &mut out.warnings);
+        let t_out = t_in + rise;
+        limits::window_warnings(
+            name,
+            code,
+            Place::Inlet,
+            t_in,
+            inlet_window,
+            subject,
+            warnings,
+        );
+        limits::window_warnings(
+            name,
+            code,
+            Place::Outlet,
+            t_out,
+            outlet_window,
+            subject,
+            warnings,
+        );
+        let dew = dew_point_k(key, &inlet.flows, inlet.pressure_pa);
+        let margin = l.dew_point_margin_k.unwrap_or(limits::DEW_POINT_MARGIN_K);
+        limits::dew_point_warnings(name, t_in, dew, margin, warnings);
         self.core
             .finish(db, &inlet.flows, |_| false, approaches_k, out);
         Ok(())
@@ -246,6 +295,7 @@ mod tests {
         let spec = MethanatorSpec {
             pressure_drop_pa: 0.2e5,
             approaches: vec![("reforming".into(), 20.0)],
+            limits: OperatingLimits::default(),
         };
         let m20 = Methanator::new(&db, "meth", &spec).unwrap();
         let r20 = m20.solve(&db, &[&inlet], Some(&eq.extents)).unwrap();

@@ -11,6 +11,7 @@
 mod chemistry;
 mod common;
 pub mod knockout;
+pub mod limits;
 pub mod methanator;
 pub mod mixer;
 pub mod prereformer;
@@ -27,6 +28,7 @@ pub mod thermal;
 pub mod unit;
 
 pub use knockout::{Knockout, KnockoutSpec};
+pub use limits::OperatingLimits;
 pub use methanator::{Methanator, MethanatorSpec};
 pub use mixer::{Mixer, MixerSpec};
 pub use prereformer::{Prereformer, PrereformerSpec};

@@ -7,9 +7,15 @@
 //! fixed duty equal to H(original inlet) - H(converted inlet), both at the inlet temperature, so
 //! that H_out = H_in overall and the unit's duty is zero. The stage's own result
 //! ([`UnitResult::equilibrium`]) therefore shows that internal duty, on the converted basis.
+//!
+//! Carbon formation potential is checked as in the reformer (see [`super::reformer`]): the gas
+//! equilibrated by the unit's own stage at 21 temperatures from the inlet's to the outlet's,
+//! the actual outlet gas, and the actual inlet gas as a figure. The inlet steam-to-carbon ratio
+//! is held against its limit ([`super::limits`], 2.5 by default, `min-steam-to-carbon`).
 
 use super::chemistry::{CarbonCheck, HigherHydrocarbons};
 use super::common::{dry_fraction, figure, reactor_inlet};
+use super::limits::{self, key_doc, LimitKey, OperatingLimits};
 use super::reactor::ReactorCore;
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
 use super::{FigureKind, Stream, UnitResult};
@@ -27,6 +33,8 @@ pub struct PrereformerSpec {
     pub pressure_drop_pa: f64,
     /// Approach temperature by reaction name (`reforming`, `shift`), K; unlisted ones are zero.
     pub approaches: Vec<(String, f64)>,
+    /// Operating limits set in the file (`None`: the defaults of [`super::limits`]).
+    pub limits: OperatingLimits,
 }
 
 /// A pre-reformer ready to solve.
@@ -59,6 +67,7 @@ pub static TYPE: UnitType = UnitType {
             default: Some("0 K for each reaction"),
             meaning: "approach temperature per reaction; a positive one leaves the outlet short of equilibrium",
         },
+        key_doc(LimitKey::MinSteamToCarbon, "2.5"),
     ],
     example: "- name: prereformer\n  type: prereformer\n  from: prereformer-feed\n  to: \
               prereformed-gas\n  approach: {reforming: 0 K, shift: 0 K}",
@@ -71,14 +80,21 @@ impl UnitKind for Prereformer {
     fn read(b: &mut UnitBuilder<'_, '_, PrereformerSpec>) -> Result<PrereformerSpec> {
         let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
         let approaches = b.approaches(&PREREFORMER_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
+        let limits = limits::read(
+            b,
+            &[LimitKey::MinSteamToCarbon],
+            |s: &mut PrereformerSpec| &mut s.limits,
+        )?;
         Ok(PrereformerSpec {
             pressure_drop_pa: drop,
             approaches,
+            limits,
         })
     }
 
     /// Check the spec and build the equilibrium stage.
     fn new(db: &SpeciesDb, name: &str, spec: &PrereformerSpec) -> Result<Prereformer> {
+        spec.limits.check(name)?;
         Ok(Prereformer {
             core: ReactorCore::new(
                 db,
@@ -98,7 +114,10 @@ impl UnitKind for Prereformer {
         &self.spec
     }
 
-    super::reactor::reactor_solve_entries!(PrereformerSpec);
+    super::reactor::reactor_solve_entries!(
+        PrereformerSpec,
+        |name: &str, spec: &PrereformerSpec| { spec.limits.check(name) }
+    );
 }
 
 impl Prereformer {
@@ -123,6 +142,7 @@ impl Prereformer {
             flows,
             stage: stage_ws,
             options,
+            carbon,
         } = scratch;
         let converted = &mut flows[0];
         converted.clear();
@@ -179,9 +199,14 @@ impl Prereformer {
                 sc,
                 FigureKind::Number,
             ));
+            let min = spec
+                .limits
+                .min_steam_to_carbon
+                .unwrap_or(limits::MIN_STEAM_TO_CARBON);
+            limits::steam_to_carbon_warning(name, sc, min, &mut out.warnings);
         }
         self.carbon
-            .report(db, name, outlet, figures, &mut out.warnings)?;
+            .report(db, &self.core, inlet, converted, options, carbon, out)?;
         self.core.finish(
             db,
             &inlet.flows,
@@ -238,6 +263,7 @@ mod tests {
         let spec = PrereformerSpec {
             pressure_drop_pa: 0.3e5,
             approaches: vec![("reforming".into(), 10.0), ("shift".into(), 5.0)],
+            limits: OperatingLimits::default(),
         };
         let pr = Prereformer::new(&db, "pre", &spec).unwrap();
         let r = pr.solve(&db, &[&feed], None).unwrap();

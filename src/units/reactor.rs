@@ -2,7 +2,8 @@
 //! share: their name, the key species, the equilibrium stage of their reactions with its
 //! approach temperatures, and the solve steps around it (the stage solved into the unit's result
 //! with no heap allocation once warm, the outlet written from it, the warnings every reactor
-//! gives: carbon-bearing species it cannot convert, reactions that cannot proceed).
+//! gives: carbon-bearing species it cannot convert, reactions that cannot proceed, approach
+//! temperatures below zero).
 
 use super::chemistry::unconverted_carbon_warnings;
 use super::common::{
@@ -134,6 +135,7 @@ impl ReactorCore {
             approaches_k,
             &mut out.approaches,
         );
+        super::limits::negative_approach_warnings(name, &out.approaches, &mut out.warnings);
     }
 }
 

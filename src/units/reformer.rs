@@ -6,16 +6,26 @@
 //! the higher-hydrocarbon reforming as well (the stage's own result, [`UnitResult::equilibrium`],
 //! has its duty on the converted inlet).
 //!
-//! The outlet carbon activity is reported by methane cracking and by Boudouard
-//! ([`crate::reaction::carbon_activity`]); a value above one warns that carbon formation is
-//! thermodynamically possible at the outlet (a screening check: carbon risk is usually highest
-//! part-way down the tubes, which an outlet check does not see).
+//! Carbon formation potential, by the principle of equilibrated gas: the carbon activity by
+//! methane cracking and by Boudouard ([`crate::reaction::carbon_activity`]) of the gas brought
+//! to reforming and shift equilibrium (the unit's own stage at zero approach) at 21 temperatures
+//! from the inlet's to the outlet's, and of the actual outlet gas; a value above one anywhere
+//! warns that carbon formation is thermodynamically possible there (a screening check: carbon
+//! risk is usually highest part-way down the tubes, where the path check looks). The figure
+//! `carbon-margin` is the smallest 1 - a found, `carbon-margin-temperature` where. The activity
+//! of the actual inlet gas is a figure as well (absent when the inlet holds no hydrogen, where
+//! it is unbounded, or no methane); it raises no warning by itself.
+//!
+//! Operating limits ([`super::limits`], common practice, settable per unit): outlet within
+//! 700-950 degC and not below the inlet (`reformer-temperature`), inlet steam-to-carbon ratio
+//! at least 2.5 (`steam-to-carbon`).
 
 use super::chemistry::{CarbonCheck, HigherHydrocarbons};
 use super::common::{check_temperature, dry_fraction, figure, reactor_inlet, spec_error};
+use super::limits::{self, key_doc, LimitKey, OperatingLimits, Place, Window, WindowCode};
 use super::reactor::ReactorCore;
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
-use super::{FigureKind, Stream, UnitResult};
+use super::{FigureKind, Stream, UnitResult, Warning};
 use crate::equilibrium::{Direction, EnergyMode};
 use crate::error::{Result, ResultExt};
 use crate::thermo::{mixture, SpeciesDb};
@@ -32,7 +42,16 @@ pub struct ReformerSpec {
     pub pressure_drop_pa: f64,
     /// Approach temperature by reaction name (`reforming`, `shift`), K; unlisted ones are zero.
     pub approaches: Vec<(String, f64)>,
+    /// Operating limits set in the file (`None`: the defaults of [`super::limits`]).
+    pub limits: OperatingLimits,
 }
+
+/// The limit keys of a reformer.
+const LIMIT_KEYS: [LimitKey; 3] = [
+    LimitKey::OutletMin,
+    LimitKey::OutletMax,
+    LimitKey::MinSteamToCarbon,
+];
 
 /// A reformer ready to solve (its equilibrium stage built once).
 #[derive(Debug, Clone)]
@@ -70,6 +89,9 @@ pub static TYPE: UnitType = UnitType {
             default: Some("0 K for each reaction"),
             meaning: "approach temperature per reaction; a positive one leaves the outlet short of equilibrium",
         },
+        key_doc(LimitKey::OutletMin, "700 degC"),
+        key_doc(LimitKey::OutletMax, "950 degC"),
+        key_doc(LimitKey::MinSteamToCarbon, "2.5"),
     ],
     example: "- name: reformer\n  type: reformer\n  from: reformer-feed\n  to: reformed-gas\n  \
               outlet-temperature: 865 degC\n  pressure-drop: 3 bar\n  approach: {reforming: \
@@ -89,10 +111,12 @@ impl UnitKind for Reformer {
         )?;
         let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
         let approaches = b.approaches(&REFORMER_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
+        let limits = limits::read(b, &LIMIT_KEYS, |s: &mut ReformerSpec| &mut s.limits)?;
         Ok(ReformerSpec {
             outlet_temperature_k: t,
             pressure_drop_pa: drop,
             approaches,
+            limits,
         })
     }
 
@@ -142,6 +166,7 @@ impl Reformer {
             flows,
             stage: stage_ws,
             options,
+            carbon,
         } = scratch;
         let converted = &mut flows[0];
         converted.clear();
@@ -193,6 +218,7 @@ impl Reformer {
                 FigureKind::Fraction,
             ));
         }
+        let warnings = &mut out.warnings;
         if let Some(sc) = key.steam_to_carbon(&inlet.flows) {
             figures.push(figure(
                 "steam-to-carbon",
@@ -200,9 +226,48 @@ impl Reformer {
                 sc,
                 FigureKind::Number,
             ));
+            let min = spec
+                .limits
+                .min_steam_to_carbon
+                .unwrap_or(limits::MIN_STEAM_TO_CARBON);
+            limits::steam_to_carbon_warning(name, sc, min, warnings);
+        }
+        let window = Window {
+            min_k: Some(
+                spec.limits
+                    .outlet_min_k
+                    .unwrap_or(limits::REFORMER_OUTLET_MIN_K),
+            ),
+            max_k: Some(
+                spec.limits
+                    .outlet_max_k
+                    .unwrap_or(limits::REFORMER_OUTLET_MAX_K),
+            ),
+        };
+        let code = WindowCode::Reformer;
+        limits::window_warnings(
+            name,
+            code,
+            Place::Outlet,
+            t_out,
+            window,
+            "a reformer",
+            warnings,
+        );
+        if t_out < t_in {
+            warnings.push(
+                Warning::new(
+                    "reformer-temperature",
+                    "outlet {value} is below the inlet {limit}: a fired reformer heats its gas; \
+                     check the outlet temperature and the feed preheat",
+                )
+                .value(t_out, FigureKind::Temperature)
+                .limit(t_in)
+                .for_unit(name.as_str()),
+            );
         }
         self.carbon
-            .report(db, name, outlet, figures, &mut out.warnings)?;
+            .report(db, &self.core, inlet, converted, options, carbon, out)?;
         self.core.finish(
             db,
             &inlet.flows,
@@ -216,6 +281,7 @@ impl Reformer {
 
 /// The checks of a reformer's numbers besides the approaches and pressure drop.
 fn check_numbers(name: &str, spec: &ReformerSpec) -> Result<()> {
+    spec.limits.check(name)?;
     let t = spec.outlet_temperature_k;
     if !(t.is_finite() && t > 0.0) {
         return Err(spec_error(
@@ -242,6 +308,7 @@ mod tests {
                 .iter()
                 .map(|(n, a)| (n.to_string(), *a))
                 .collect(),
+            limits: OperatingLimits::default(),
         }
     }
 

@@ -2,14 +2,17 @@
 //! equilibrium with its approach temperature; methane and every other species pass inert.
 //! Adiabatic unless an outlet temperature is given (a cooled or isothermal converter).
 //!
-//! Catalyst cautions are common practice (no single source): iron-chromium (HTS) is kept below
-//! about 480-500 degC; medium-temperature copper (MTS, fed at about 200-240 degC) below about
-//! 330-350 degC; low-temperature copper (LTS) below about 250-270 degC; a copper charge is fed at
-//! least about 15-20 K above the water dew point so that no water condenses on it.
+//! Catalyst windows are common practice (no single source; see [`super::limits`]), each end
+//! settable per unit: iron-chromium (HTS) fed at 320-380 degC and kept below 480 degC;
+//! medium-temperature copper (MTS) fed at 200-240 degC and kept below 350 degC; low-temperature
+//! copper (LTS) fed at 190-230 degC and kept below 260 degC (`catalyst-temperature`). Every
+//! charge is fed at least 15 K above the water dew point of its inlet so that no water
+//! condenses on it (`dew-point`; common practice 15-20 K).
 
 use super::common::{
     check_temperature, dew_point_k, dry_fraction, figure, reactor_inlet, spec_error,
 };
+use super::limits::{self, key_doc, LimitKey, OperatingLimits, Place, Window, WindowCode};
 use super::reactor::ReactorCore;
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
 use super::{FigureKind, Stream, UnitResult, Warning};
@@ -27,12 +30,9 @@ pub const IRON_CHROMIUM_MAX_K: f64 = 480.0 + CELSIUS_OFFSET_K;
 /// Highest outlet for a medium-temperature copper catalyst before a warning, K (350 degC;
 /// common practice: kept below about 330-350 degC).
 pub const MEDIUM_TEMPERATURE_COPPER_MAX_K: f64 = 350.0 + CELSIUS_OFFSET_K;
-/// Highest outlet for a low-temperature copper catalyst before a warning, K (270 degC; common
+/// Highest outlet for a low-temperature copper catalyst before a warning, K (260 degC; common
 /// practice: kept below about 250-270 degC).
-pub const COPPER_MAX_K: f64 = 270.0 + CELSIUS_OFFSET_K;
-/// Smallest inlet margin above the water dew point for a copper catalyst, K (common practice:
-/// at least about 15-20 K).
-pub const COPPER_DEW_MARGIN_K: f64 = 20.0;
+pub const COPPER_MAX_K: f64 = 260.0 + CELSIUS_OFFSET_K;
 /// Inlet temperature below which a copper catalyst is assumed when none is given, K (260 degC).
 pub const COPPER_INFERENCE_BELOW_K: f64 = 260.0 + CELSIUS_OFFSET_K;
 
@@ -57,6 +57,15 @@ impl ShiftCatalyst {
         }
     }
 
+    /// The catalyst in a message ("an iron-chromium catalyst").
+    pub fn described(self) -> &'static str {
+        match self {
+            ShiftCatalyst::IronChromium => "an iron-chromium catalyst",
+            ShiftCatalyst::MediumTemperatureCopper => "a medium-temperature copper catalyst",
+            ShiftCatalyst::LowTemperatureCopper => "a low-temperature copper catalyst",
+        }
+    }
+
     /// Highest outlet temperature before a warning, K (common practice).
     pub fn max_outlet_k(self) -> f64 {
         match self {
@@ -66,7 +75,18 @@ impl ShiftCatalyst {
         }
     }
 
-    /// True for the copper catalysts, which must stay clear of the water dew point.
+    /// The usual inlet window, K (common practice): iron-chromium 320-380 degC,
+    /// medium-temperature copper 200-240 degC, low-temperature copper 190-230 degC.
+    pub fn inlet_window_k(self) -> (f64, f64) {
+        let (lo, hi) = match self {
+            ShiftCatalyst::IronChromium => (320.0, 380.0),
+            ShiftCatalyst::MediumTemperatureCopper => (200.0, 240.0),
+            ShiftCatalyst::LowTemperatureCopper => (190.0, 230.0),
+        };
+        (lo + CELSIUS_OFFSET_K, hi + CELSIUS_OFFSET_K)
+    }
+
+    /// True for the copper catalysts.
     pub fn is_copper(self) -> bool {
         !matches!(self, ShiftCatalyst::IronChromium)
     }
@@ -83,7 +103,17 @@ pub struct ShiftSpec {
     pub approaches: Vec<(String, f64)>,
     /// Catalyst, for the cautions; `None`: inferred from the inlet temperature (said so).
     pub catalyst: Option<ShiftCatalyst>,
+    /// Operating limits set in the file (`None`: the catalyst's defaults, [`super::limits`]).
+    pub limits: OperatingLimits,
 }
+
+/// The limit keys of a shift converter and a methanator.
+pub(crate) const LIMIT_KEYS: [LimitKey; 4] = [
+    LimitKey::InletMin,
+    LimitKey::InletMax,
+    LimitKey::OutletMax,
+    LimitKey::DewPointMargin,
+];
 
 /// A shift converter ready to solve.
 #[derive(Debug, Clone)]
@@ -149,6 +179,22 @@ pub static TYPE: UnitType = UnitType {
             meaning:
                 "approach temperature of the shift; a positive one leaves more CO than equilibrium",
         },
+        key_doc(
+            LimitKey::InletMin,
+            "by catalyst: iron-chromium 320 degC, medium-temperature copper 200 degC, \
+             low-temperature copper 190 degC",
+        ),
+        key_doc(
+            LimitKey::InletMax,
+            "by catalyst: iron-chromium 380 degC, medium-temperature copper 240 degC, \
+             low-temperature copper 230 degC",
+        ),
+        key_doc(
+            LimitKey::OutletMax,
+            "by catalyst: iron-chromium 480 degC, medium-temperature copper 350 degC, \
+             low-temperature copper 260 degC",
+        ),
+        key_doc(LimitKey::DewPointMargin, "15 K"),
     ],
     example: "- name: hts\n  type: shift\n  from: hts-feed\n  to: hts-exit\n  catalyst: \
               iron-chromium\n  approach: {shift: 8 K}",
@@ -172,11 +218,13 @@ impl UnitKind for Shift {
         });
         let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
         let approaches = b.approaches(&SHIFT_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
+        let limits = limits::read(b, &LIMIT_KEYS, |s: &mut ShiftSpec| &mut s.limits)?;
         Ok(ShiftSpec {
             outlet_temperature_k: t,
             pressure_drop_pa: drop,
             approaches,
             catalyst,
+            limits,
         })
     }
 
@@ -308,50 +356,44 @@ impl Shift {
                 c
             }
         };
-        if t_out > catalyst.max_outlet_k() {
-            warnings.push(
-                Warning::new(
-                    "catalyst-temperature",
-                    "outlet {value} is above {limit}, the usual upper limit of a {subject} \
-                     catalyst (common practice)",
-                )
-                .value(t_out, FigureKind::Temperature)
-                .limit(catalyst.max_outlet_k())
-                .subject(catalyst.label())
-                .for_unit(name.as_str()),
-            );
-        }
-        if let Some(dew) = dew {
-            if t_in <= dew {
-                warnings.push(
-                    Warning::new(
-                        "dew-point",
-                        "inlet {value} is at or below the water dew point {limit}: water would \
-                         condense on the catalyst",
-                    )
-                    .value(t_in, FigureKind::Temperature)
-                    .limit(dew)
-                    .for_unit(name.as_str()),
-                );
-            } else if catalyst.is_copper() && t_in - dew < COPPER_DEW_MARGIN_K {
-                warnings.push(
-                    Warning::new(
-                        "dew-point",
-                        "inlet is only {value} above the water dew point; a copper catalyst is \
-                         usually fed at least {limit} above it (common practice: about 15-20 K)",
-                    )
-                    .value(t_in - dew, FigureKind::TemperatureDifference)
-                    .limit(COPPER_DEW_MARGIN_K)
-                    .for_unit(name.as_str()),
-                );
-            }
-        }
+        let (inlet_min, inlet_max) = catalyst.inlet_window_k();
+        let l = &spec.limits;
+        let inlet_window = Window {
+            min_k: Some(l.inlet_min_k.unwrap_or(inlet_min)),
+            max_k: Some(l.inlet_max_k.unwrap_or(inlet_max)),
+        };
+        let outlet_window = Window {
+            min_k: None,
+            max_k: Some(l.outlet_max_k.unwrap_or(catalyst.max_outlet_k())),
+        };
+        let (code, subject) = (WindowCode::Catalyst, catalyst.described());
+        limits::window_warnings(
+            name,
+            code,
+            Place::Inlet,
+            t_in,
+            inlet_window,
+            subject,
+            warnings,
+        );
+        limits::window_warnings(
+            name,
+            code,
+            Place::Outlet,
+            t_out,
+            outlet_window,
+            subject,
+            warnings,
+        );
+        let margin = l.dew_point_margin_k.unwrap_or(limits::DEW_POINT_MARGIN_K);
+        limits::dew_point_warnings(name, t_in, dew, margin, warnings);
         Ok(())
     }
 }
 
 /// The checks of a shift converter's numbers besides the approaches and pressure drop.
 fn check_numbers(name: &str, spec: &ShiftSpec) -> Result<()> {
+    spec.limits.check(name)?;
     if let Some(t) = spec.outlet_temperature_k {
         if !(t.is_finite() && t > 0.0) {
             return Err(spec_error(

@@ -11,6 +11,7 @@ fn reformed_gas(db: &SpeciesDb, t_k: f64) -> Stream {
         outlet_temperature_k: 1138.15,
         pressure_drop_pa: 2.0e5,
         approaches: Vec::new(),
+        limits: Default::default(),
     };
     let r = Reformer::new(db, "primary", &spec)
         .unwrap()
@@ -27,6 +28,7 @@ fn shift(db: &SpeciesDb, catalyst: Option<ShiftCatalyst>, approach: f64) -> Shif
         pressure_drop_pa: 0.5e5,
         approaches: vec![("shift".into(), approach)],
         catalyst,
+        limits: Default::default(),
     };
     Shift::new(db, "hts", &spec).unwrap()
 }
@@ -67,7 +69,7 @@ fn lts_from_200_degc_leaves_0_1_to_0_5_percent_co_dry() {
     assert!((0.001..0.005).contains(&slip), "LTS CO slip {slip}");
     let t_out = r.outlets[0].temperature_k;
     assert!(t_out < COPPER_MAX_K, "LTS exit {t_out} K");
-    assert!(fig(&r, "inlet-dew-point-margin") > COPPER_DEW_MARGIN_K);
+    assert!(fig(&r, "inlet-dew-point-margin") > crate::units::limits::DEW_POINT_MARGIN_K);
     assert!(r.warnings.is_empty(), "{:?}", r.warnings);
     // A positive approach leaves more CO; a warm start gives the same answer.
     let apart = shift(&db, Some(ShiftCatalyst::LowTemperatureCopper), 10.0);
@@ -116,7 +118,8 @@ fn catalyst_cautions_and_fixed_outlet_temperature() {
     assert!(
         r.warnings
             .iter()
-            .any(|w| w.code == "dew-point" && w.limit == Some(COPPER_DEW_MARGIN_K)),
+            .any(|w| w.code == "dew-point"
+                && w.limit == Some(crate::units::limits::DEW_POINT_MARGIN_K)),
         "{:?}",
         r.warnings
     );
@@ -126,6 +129,7 @@ fn catalyst_cautions_and_fixed_outlet_temperature() {
         pressure_drop_pa: 0.0,
         approaches: Vec::new(),
         catalyst: Some(ShiftCatalyst::IronChromium),
+        limits: Default::default(),
     };
     let r = Shift::new(&db, "iso", &spec)
         .unwrap()

@@ -87,6 +87,24 @@ impl Stream {
         }
     }
 
+    /// Water dew point at the stream's pressure, K: the saturation temperature (IAPWS-IF97
+    /// eq. 31) at the partial pressure of water by Raoult's law, y_w P. For liquid water it is
+    /// the saturation temperature at its pressure. `None` without water, or with a partial
+    /// pressure outside the saturation line (below the triple point, above the critical point).
+    pub fn water_dew_point_k(&self, db: &SpeciesDb) -> Option<f64> {
+        let w = db.water()?;
+        let total = self.total();
+        let n = self.flows.get(w).copied().unwrap_or(0.0);
+        if !(total > 0.0 && n > 0.0) {
+            return None;
+        }
+        let p_w = n / total * self.pressure_pa;
+        if !(water::SATURATION_MIN_PRESSURE_PA..=water::CRITICAL_PRESSURE_PA).contains(&p_w) {
+            return None;
+        }
+        water::saturation_temperature_k(p_w).ok()
+    }
+
     /// Mole fraction on a dry basis (water left out); zero when nothing but water flows.
     pub fn dry_mole_fraction(&self, db: &SpeciesDb, species: usize) -> f64 {
         mixture::dry_mole_fraction(&self.flows, db.water(), species)

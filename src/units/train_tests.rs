@@ -51,6 +51,7 @@ fn train(db: &SpeciesDb) -> Vec<TrainUnit> {
             PrereformerSpec {
                 pressure_drop_pa: 0.3e5,
                 approaches: Vec::new(),
+                limits: Default::default(),
             },
         ),
         unit::<Heater>(db, "reformer-preheat", false, thermal(893.15)),
@@ -62,6 +63,7 @@ fn train(db: &SpeciesDb) -> Vec<TrainUnit> {
                 outlet_temperature_k: 1138.15,
                 pressure_drop_pa: 2.0e5,
                 approaches: vec![("reforming".into(), 5.0)],
+                limits: Default::default(),
             },
         ),
         unit::<Cooler>(db, "waste-heat-boiler", false, thermal(623.15)),
@@ -74,6 +76,7 @@ fn train(db: &SpeciesDb) -> Vec<TrainUnit> {
                 pressure_drop_pa: 0.3e5,
                 approaches: vec![("shift".into(), 5.0)],
                 catalyst: Some(ShiftCatalyst::IronChromium),
+                limits: Default::default(),
             },
         ),
         unit::<Cooler>(db, "lts-cooler", false, thermal(473.15)),
@@ -86,6 +89,7 @@ fn train(db: &SpeciesDb) -> Vec<TrainUnit> {
                 pressure_drop_pa: 0.3e5,
                 approaches: Vec::new(),
                 catalyst: Some(ShiftCatalyst::LowTemperatureCopper),
+                limits: Default::default(),
             },
         ),
         // A cooler stays above the dew point; the knockout cools on to 40 degC and condenses.
@@ -125,6 +129,7 @@ fn train(db: &SpeciesDb) -> Vec<TrainUnit> {
             MethanatorSpec {
                 pressure_drop_pa: 0.3e5,
                 approaches: Vec::new(),
+                limits: Default::default(),
             },
         ),
     ]
@@ -257,6 +262,7 @@ fn registry_types_build_from_plain_entries_and_register_their_inputs() {
             outlet_temperature_k: 1138.15,
             pressure_drop_pa: 0.0,
             approaches: vec![("reforming".into(), 25.0), ("shift".into(), 0.0)],
+            limits: Default::default(),
         },
     )
     .unwrap()

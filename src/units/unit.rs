@@ -64,6 +64,8 @@ pub enum ValueKind {
     MolarFlow,
     /// A fraction 0..1 (0.88, "88 %", "50 ppm").
     Fraction,
+    /// A pure number not below zero (a ratio such as steam-to-carbon, 2.5).
+    Ratio,
     /// One word of a fixed list.
     Choice(&'static [&'static str]),
     /// A mapping of reaction names to temperature differences.
@@ -85,6 +87,7 @@ impl ValueKind {
             ValueKind::Duty => "duty, heat added to the stream (kW, MW, Gcal/h)".into(),
             ValueKind::MolarFlow => "molar flow (kmol/h, mol/s, Nm3/h)".into(),
             ValueKind::Fraction => "fraction (0.88, 88 %, 50 ppm)".into(),
+            ValueKind::Ratio => "number (2.5)".into(),
             ValueKind::Choice(options) => format!("one of: {}", options.join(", ")),
             ValueKind::PerReaction(reactions) => {
                 format!(
@@ -117,6 +120,14 @@ impl ValueKind {
                 }),
             },
             ValueKind::Fraction | ValueKind::PerSpecies => quantity::parse_fraction(field, text),
+            ValueKind::Ratio => match text.trim().parse::<f64>() {
+                Ok(x) if x.is_finite() && x >= 0.0 => Ok(x),
+                _ => Err(Error::InvalidValue {
+                    field: field.to_string(),
+                    value: text.to_string(),
+                    reason: "give a number not below zero, without a unit (e.g. 2.5)".into(),
+                }),
+            },
             ValueKind::Choice(_) | ValueKind::PerOutlet => Err(Error::InvalidValue {
                 field: field.to_string(),
                 value: text.to_string(),
@@ -678,6 +689,8 @@ pub struct UnitScratch {
     pub stage: StageWorkspace,
     /// Tolerances and iteration limits of the equilibrium stages (the flowsheet's `solver:`).
     pub options: SolverOptions,
+    /// Work memory of the carbon check along a reforming unit's path.
+    pub(crate) carbon: super::chemistry::CarbonScratch,
 }
 
 /// What a compiled flowsheet solves: a built unit with its inputs.
