@@ -425,3 +425,30 @@ fn a_hot_thermocouple_and_a_trace_reading_are_flagged() {
         codes(3)
     );
 }
+
+#[test]
+fn strict_exits_3_on_a_flagged_sample_and_0_on_clean_ones() {
+    // The HTS outlet of the solver read 12 K hotter: approach -4 K, flagged (as above).
+    let r = solve_at(&[]);
+    let exact = |v: f64| format!("{v:.9}");
+    let clean = row(&r, "a", "hts", "hts-exit", &exact);
+    let mut cells: Vec<String> = clean.split(',').map(String::from).collect();
+    let t: f64 = cells[2].parse().unwrap();
+    cells[2] = format!("{:.9}", t + 12.0);
+    let hot = cells.join(",");
+    let dir = tempfile::tempdir().unwrap();
+    let file = dir.path().join("samples.csv");
+    let status = |text: String| {
+        std::fs::write(&file, text).unwrap();
+        let out = std::process::Command::new(env!("CARGO_BIN_EXE_syntrain"))
+            .args(["evaluate", demo().to_str().unwrap(), "--samples"])
+            .arg(&file)
+            .arg("--strict")
+            .output()
+            .unwrap();
+        assert!(!out.stdout.is_empty(), "the report is still written");
+        out.status.code()
+    };
+    assert_eq!(status(format!("{HEADER}{clean}\n")), Some(0));
+    assert_eq!(status(format!("{HEADER}{clean}\n{hot}\n")), Some(3));
+}
