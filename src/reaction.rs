@@ -263,6 +263,18 @@ pub fn carbon_activity(
     partial_pressure_bar: impl Fn(usize) -> f64,
 ) -> Result<f64> {
     let carbon = db.require("C(gr)", " (carbon activity)")?;
+    carbon_activity_of(db, reaction, carbon, temperature_k, partial_pressure_bar)
+}
+
+/// [`carbon_activity`] with the database index of graphite already looked up (a check that
+/// takes many activities looks it up once).
+pub fn carbon_activity_of(
+    db: &SpeciesDb,
+    reaction: &Reaction,
+    carbon: usize,
+    temperature_k: f64,
+    partial_pressure_bar: impl Fn(usize) -> f64,
+) -> Result<f64> {
     let nu_c = reaction.coefficient(carbon);
     if nu_c <= 0.0 {
         return Err(Error::Reaction {

@@ -525,3 +525,51 @@ fn a_reader_gives_every_result_path_as_the_path_itself_does() {
     }
     assert!(dry_seen > 50, "{dry_seen}");
 }
+
+#[test]
+fn the_carbon_path_is_reused_only_when_a_reformer_is_asked_the_same() {
+    // A workspace reuses a reforming unit's carbon path check when its inlet and temperatures
+    // are bit for bit those of its last solve; any change works it out afresh. Either way the
+    // figures equal those of a fresh solve of the same values.
+    let db = db();
+    let fs = Flowsheet::from_file(&root().join("flowsheets/demo-train.yaml"), &db).unwrap();
+    let margin = |r: &syntrain::flowsheet::FlowsheetResult, path: &str| r.value(&db, path).unwrap();
+    let paths = [
+        "units.reformer.figures.carbon-margin",
+        "units.reformer.figures.carbon-margin-temperature",
+        "units.prereformer.figures.carbon-margin",
+    ];
+    let t_slot = fs.input("units.reformer.outlet-temperature").unwrap();
+    let a_slot = fs.input("units.hts.approach.shift").unwrap();
+    let mut ws = fs.workspace(&db);
+    let base = fs.parameters();
+    for (t_add, a_add) in [
+        (0.0, 0.0),
+        (0.0, 5.0),
+        (-40.0, 5.0),
+        (-40.0, 9.0),
+        (0.0, 0.0),
+    ] {
+        let mut p = base.clone();
+        p[t_slot.0] += t_add;
+        p[a_slot.0] += a_add;
+        let fresh = fs.solve_with(&db, &p, None).unwrap();
+        let reused = fs.solve_in(&db, &p, &mut ws).unwrap();
+        for path in paths {
+            let (a, b) = (margin(reused, path), margin(&fresh, path));
+            assert!(
+                (a - b).abs() <= 1e-9 * b.abs().max(1.0),
+                "{path} at {t_add} K: {a} vs {b}"
+            );
+        }
+    }
+    // 40 K colder at the reformer outlet moves its margin and where it is smallest.
+    let mut colder = base.clone();
+    colder[t_slot.0] -= 40.0;
+    let r0 = fs.solve_with(&db, &base, None).unwrap();
+    let r1 = fs.solve_in(&db, &colder, &mut ws).unwrap();
+    assert!(
+        (margin(&r0, paths[0]) - margin(r1, paths[0])).abs() > 1e-4,
+        "the margin must follow the reformer outlet temperature"
+    );
+}

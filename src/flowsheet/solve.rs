@@ -92,9 +92,11 @@ impl Workspace {
         &self.result
     }
 
-    /// Forget the previous solution (the next solve starts cold).
+    /// Forget the previous solution (the next solve starts cold, and works out every check
+    /// afresh rather than reusing one asked the same).
     pub fn forget(&mut self) {
         self.warm.iter_mut().for_each(|w| *w = false);
+        self.scratch.iter_mut().for_each(|s| s.carbon.forget());
     }
 
     /// The last result written, owned.

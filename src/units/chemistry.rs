@@ -12,7 +12,7 @@ use super::{FigureKind, UnitResult, Warning};
 use crate::equilibrium::{EnergyMode, SolverOptions, StageResult, StageWorkspace};
 use crate::error::{Result, ResultExt};
 use crate::quantity::STANDARD_PRESSURE_PA;
-use crate::reaction::{carbon_activity, Reaction};
+use crate::reaction::{carbon_activity_of, Reaction};
 use crate::thermo::SpeciesDb;
 
 /// The complete steam reforming of every species the database holds that a nickel catalyst
@@ -135,6 +135,30 @@ pub(crate) struct CarbonScratch {
     guess: Vec<f64>,
     /// Zero approach for every reaction of the stage.
     zero: Vec<f64>,
+    /// What the last path check was asked (the converted inlet flows, then inlet temperature
+    /// and pressure, outlet temperature and pressure) and what it found, reused when a solve
+    /// asks the same again to [`MEMO_TOLERANCE`] (a study varying something downstream).
+    memo_key: Vec<f64>,
+    memo: Option<PathFinding>,
+}
+
+/// Relative difference below which a path check is asked the same as the last one: far below
+/// the tolerance of every stage solve (1e-10), so the answer cannot tell.
+const MEMO_TOLERANCE: f64 = 1e-12;
+
+/// What the walk along the path found: the worst point of each route and the smallest margin.
+#[derive(Debug, Clone, Copy)]
+struct PathFinding {
+    worst: [Option<Worst>; 2],
+    margin: Option<(f64, f64)>,
+}
+
+impl CarbonScratch {
+    /// Forget the last path check (the next one is worked out afresh).
+    pub(crate) fn forget(&mut self) {
+        self.memo = None;
+        self.memo_key.clear();
+    }
 }
 
 /// The worst point of one route: its activity and where.
@@ -162,7 +186,7 @@ impl CarbonCheck {
     }
 
     /// The activity of `reaction`'s carbon in a gas of `flows` at `temperature_k` and
-    /// `pressure_pa` against graphite (see [`carbon_activity`]).
+    /// `pressure_pa` against graphite (see [`crate::reaction::carbon_activity`]).
     pub(crate) fn activity(
         db: &SpeciesDb,
         reaction: &Reaction,
@@ -187,9 +211,20 @@ impl CarbonCheck {
             return Ok(Activity::Unbounded);
         }
         let p = |i: usize| flows[i] / total * pressure_pa / STANDARD_PRESSURE_PA;
-        Ok(Activity::Value(carbon_activity(
+        // Graphite is the condensed product of the reaction (found without a name lookup:
+        // this runs at every point of every path check).
+        let carbon = match reaction
+            .stoichiometry
+            .iter()
+            .find(|(i, nu)| *nu > 0.0 && !gas(*i))
+        {
+            Some((c, _)) => *c,
+            None => db.require("C(gr)", " (carbon activity)")?,
+        };
+        Ok(Activity::Value(carbon_activity_of(
             db,
             reaction,
+            carbon,
             temperature_k,
             p,
         )?))
@@ -246,7 +281,7 @@ impl CarbonCheck {
         let mut worst: [Option<Worst>; 2] = [None, None];
         let mut margin: Option<(f64, f64)> = None;
         let mut note = |r: usize, a: f64, t: f64, at_outlet: bool| {
-            if worst[r].is_none_or(|w| a > w.activity) {
+            if r < 2 && worst[r].is_none_or(|w| a > w.activity) {
                 worst[r] = Some(Worst {
                     activity: a,
                     temperature_k: t,
@@ -289,63 +324,47 @@ impl CarbonCheck {
                 ),
             }
         }
-        // The gas equilibrated along the path.
-        let CarbonScratch {
-            stage: ws,
-            result,
-            guess,
-            zero,
-        } = scratch;
-        zero.clear();
-        zero.resize(core.stage.reactions().len(), 0.0);
+        // The gas equilibrated along the path: worked out afresh unless this solve asks what
+        // the last one asked (to 1e-12 relative: an upstream stage warm-started from its last
+        // answer lands on the same answer to its last bits only).
         let (t_in, p_in) = (inlet.temperature_k, inlet.pressure_pa);
         let (t_out, p_out) = (outlet.temperature_k, outlet.pressure_pa);
-        let steps = (CARBON_PATH_POINTS - 1) as f64;
-        // From the outlet back to the inlet: the first point starts from the unit's own solution
-        // (the outlet at its approaches), every later one from the point before, so that the
-        // check depends only on this solve, not on what the scratch solved before (a study
-        // gives the same figures on any thread count).
-        guess.clear();
-        if let Some(e) = equilibrium {
-            guess.extend_from_slice(&e.extents);
-        }
-        for k in (0..CARBON_PATH_POINTS).rev() {
-            let f = k as f64 / steps;
-            let t = t_in + (t_out - t_in) * f;
-            let p = p_in + (p_out - p_in) * f;
-            let start: Option<&[f64]> = (guess.len() == zero.len()).then_some(guess.as_slice());
-            let stage_inlet = crate::equilibrium::StageInlet {
-                flows: converted,
-                temperature_k: t_in,
-                pressure_pa: p,
-            };
-            run_stage_into(
-                &core.stage,
-                db,
-                unit,
-                stage_inlet,
-                EnergyMode::FixedTemperature { temperature_k: t },
-                start,
-                Some(zero),
-                options,
-                ws,
-                result,
-            )
-            .map_err(|e| {
-                e.context(format!(
-                    "carbon check of the gas equilibrated at {}",
-                    degc(t)
-                ))
-            })?;
-            guess.clear();
-            guess.extend_from_slice(&result.extents);
-            for (r, route) in routes.iter().enumerate() {
-                let a = Self::activity(db, route.0, &result.outlet_flows, t, p)
-                    .context(|| format!("unit '{unit}', carbon activity"))?;
-                if let Activity::Value(a) = a {
-                    note(r, a, t, false);
-                }
+        let same = scratch.memo.is_some()
+            && scratch.memo_key.len() == converted.len() + 4
+            && scratch
+                .memo_key
+                .iter()
+                .zip(converted.iter().chain(&[t_in, p_in, t_out, p_out]))
+                .all(|(a, b)| (a - b).abs() <= MEMO_TOLERANCE * a.abs().max(b.abs()));
+        let found = match scratch.memo {
+            Some(found) if same => found,
+            _ => {
+                let found = self.walk_path(
+                    db,
+                    core,
+                    equilibrium.as_ref(),
+                    inlet,
+                    outlet,
+                    converted,
+                    options,
+                    scratch,
+                )?;
+                scratch.memo_key.clear();
+                scratch.memo_key.extend_from_slice(converted);
+                scratch
+                    .memo_key
+                    .extend_from_slice(&[t_in, p_in, t_out, p_out]);
+                scratch.memo = Some(found);
+                found
             }
+        };
+        for r in 0..2 {
+            if let Some(w) = found.worst[r] {
+                note(r, w.activity, w.temperature_k, false);
+            }
+        }
+        if let Some((m, t)) = found.margin {
+            note(usize::MAX, 1.0 - m, t, false);
         }
         // One warning, at the route and point of the highest activity (in a gas at reforming
         // and shift equilibrium both routes agree, so a second would say the same).
@@ -394,6 +413,97 @@ impl CarbonCheck {
             ));
         }
         Ok(())
+    }
+
+    /// The gas `converted` equilibrated by the unit's stage at zero approach at
+    /// [`CARBON_PATH_POINTS`] temperatures from the inlet's to the outlet's: the worst point of
+    /// each route and the smallest margin.
+    #[allow(clippy::too_many_arguments)]
+    fn walk_path(
+        &self,
+        db: &SpeciesDb,
+        core: &ReactorCore,
+        own: Option<&StageResult>,
+        inlet: &super::Stream,
+        outlet: &super::Stream,
+        converted: &[f64],
+        options: &SolverOptions,
+        scratch: &mut CarbonScratch,
+    ) -> Result<PathFinding> {
+        let CarbonScratch {
+            stage: ws,
+            result,
+            guess,
+            zero,
+            ..
+        } = scratch;
+        let unit = core.name.as_str();
+        let routes = [&self.cracking, &self.boudouard];
+        let mut found = PathFinding {
+            worst: [None, None],
+            margin: None,
+        };
+        zero.clear();
+        zero.resize(core.stage.reactions().len(), 0.0);
+        let (t_in, p_in) = (inlet.temperature_k, inlet.pressure_pa);
+        let (t_out, p_out) = (outlet.temperature_k, outlet.pressure_pa);
+        let steps = (CARBON_PATH_POINTS - 1) as f64;
+        // From the outlet back to the inlet: the first point starts from the unit's own solution
+        // (the outlet at its approaches), every later one from the point before, so that the
+        // check depends only on this solve, not on what the scratch solved before (a study
+        // gives the same figures on any thread count).
+        guess.clear();
+        if let Some(e) = own {
+            guess.extend_from_slice(&e.extents);
+        }
+        for k in (0..CARBON_PATH_POINTS).rev() {
+            let f = k as f64 / steps;
+            let t = t_in + (t_out - t_in) * f;
+            let p = p_in + (p_out - p_in) * f;
+            let start: Option<&[f64]> = (guess.len() == zero.len()).then_some(guess.as_slice());
+            let stage_inlet = crate::equilibrium::StageInlet {
+                flows: converted,
+                temperature_k: t_in,
+                pressure_pa: p,
+            };
+            run_stage_into(
+                &core.stage,
+                db,
+                unit,
+                stage_inlet,
+                EnergyMode::FixedTemperature { temperature_k: t },
+                start,
+                Some(zero),
+                options,
+                ws,
+                result,
+            )
+            .map_err(|e| {
+                e.context(format!(
+                    "carbon check of the gas equilibrated at {}",
+                    degc(t)
+                ))
+            })?;
+            guess.clear();
+            guess.extend_from_slice(&result.extents);
+            for (r, route) in routes.iter().enumerate() {
+                let a = Self::activity(db, route, &result.outlet_flows, t, p)
+                    .context(|| format!("unit '{unit}', carbon activity"))?;
+                if let Activity::Value(a) = a {
+                    if found.worst[r].is_none_or(|w| a > w.activity) {
+                        found.worst[r] = Some(Worst {
+                            activity: a,
+                            temperature_k: t,
+                            outlet: false,
+                        });
+                    }
+                    if found.margin.is_none_or(|(m, _)| 1.0 - a < m) {
+                        found.margin = Some((1.0 - a, t));
+                    }
+                }
+            }
+        }
+        Ok(found)
     }
 }
 
