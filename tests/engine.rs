@@ -573,3 +573,52 @@ fn the_carbon_path_is_reused_only_when_a_reformer_is_asked_the_same() {
         "the margin must follow the reformer outlet temperature"
     );
 }
+
+#[test]
+fn the_carbon_path_takes_the_points_asked() {
+    // A finer path holds every point of the coarser one (41 points: every second is one of
+    // the 21), so its smallest margin is no larger; 0 points checks the outlet gas alone.
+    let db = db();
+    let text = std::fs::read_to_string(root().join("flowsheets/demo-train.yaml"))
+        .unwrap()
+        .replace(
+            "    approach: {reforming: 10 K, shift: 0 K}",
+            "    approach: {reforming: 10 K, shift: 0 K}\n    carbon-path-points: 21",
+        );
+    assert!(text.contains("carbon-path-points"));
+    let fs = Flowsheet::from_yaml_str("demo-with-points.yaml", &text, &db).unwrap();
+    let slot = fs.input("units.reformer.carbon-path-points").unwrap();
+    let margin_at = |points: f64| {
+        let mut p = fs.parameters();
+        p[slot.0] = points;
+        let r = fs.solve_with(&db, &p, None).unwrap();
+        let m = r
+            .value(&db, "units.reformer.figures.carbon-margin")
+            .unwrap();
+        let outlet = [
+            "units.reformer.figures.carbon-activity-methane-cracking",
+            "units.reformer.figures.carbon-activity-boudouard",
+        ]
+        .map(|f| r.value(&db, f).unwrap());
+        (m, outlet)
+    };
+    let (m21, _) = margin_at(21.0);
+    let (m41, _) = margin_at(41.0);
+    let (m0, outlet) = margin_at(0.0);
+    assert!(m41 <= m21 + 1e-12, "{m41} vs {m21}");
+    // The demo reformer's smallest margin lies inside the path (below its outlet).
+    assert!(m21 < m0 - 1e-3, "{m21} vs {m0}");
+    let outlet_margin = 1.0 - outlet[0].max(outlet[1]);
+    assert!(
+        (m0 - outlet_margin).abs() < 1e-12,
+        "{m0} vs {outlet_margin}"
+    );
+    for bad in [1.0, 2.5, -3.0, 1001.0] {
+        let mut p = fs.parameters();
+        p[slot.0] = bad;
+        assert!(
+            fs.solve_with(&db, &p, None).is_err(),
+            "{bad} points accepted"
+        );
+    }
+}

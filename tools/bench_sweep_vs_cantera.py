@@ -7,7 +7,10 @@ The problem is the same on both sides: flowsheets/single-reformer.yaml (a CH4/H2
 feed at 30 bar, reforming and shift at zero approach) at 20 000 outlet temperatures evenly
 spaced from 700 degC to 950 degC; Cantera's phase holds the same species with syntrain's own
 NASA polynomials (data/species.yaml). syntrain writes every default column (streams, unit,
-summary) of every case to a CSV file; the Python loop only keeps each outlet composition.
+summary) of every case to a CSV file, and by default checks carbon formation along the
+reformer's path (21 more equilibria a case); the Python loop only keeps each outlet
+composition. The script times the default, the outlet stream only, and the reformer with
+`carbon-path-points: 0` (the equilibria alone).
 The script checks both give the same outlet methane at three temperatures before timing.
 
 Usage: python3 tools/bench_sweep_vs_cantera.py [path/to/syntrain]  (build with
@@ -62,11 +65,11 @@ def main():
 
     vary = f"units.reformer.outlet-temperature={T_FROM_C} degC..{T_TO_C} degC:{CASES}"
 
-    def sweep(extra):
+    def sweep(extra, flowsheet=FLOWSHEET):
         with tempfile.TemporaryDirectory() as tmp:
             out = os.path.join(tmp, "sweep.csv")
             start = time.perf_counter()
-            subprocess.run([exe, "sweep", FLOWSHEET, "--vary", vary, "-o", out] + extra,
+            subprocess.run([exe, "sweep", flowsheet, "--vary", vary, "-o", out] + extra,
                            check=True, stderr=subprocess.DEVNULL)
             seconds = time.perf_counter() - start
             with open(out, newline="", encoding="utf-8") as f:
@@ -77,6 +80,18 @@ def main():
     syntrain_s, rows = sweep([])
     columns = len(rows[0])
     outlet_s, outlet_rows = sweep(["--columns", "streams.reformed-gas.*"])
+    # The same with the reformer's carbon check along its path switched off
+    # (`carbon-path-points: 0`, the outlet gas still checked): the equilibria alone, as the
+    # Python loop solves them.
+    with open(FLOWSHEET, encoding="utf-8") as f:
+        text = f.read().replace("    approach: {reforming: 0 K, shift: 0 K}",
+                                "    approach: {reforming: 0 K, shift: 0 K}\n"
+                                "    carbon-path-points: 0")
+    with tempfile.TemporaryDirectory() as tmp:
+        no_path = os.path.join(tmp, "no-path.yaml")
+        with open(no_path, "w", encoding="utf-8") as f:
+            f.write(text)
+        bare_s, _ = sweep([], no_path)
 
     start = time.perf_counter()
     outlet = []
@@ -101,6 +116,8 @@ def main():
     print(f"ratio: {cantera_s / syntrain_s:.1f}x")
     print(f"syntrain sweep, outlet stream only: {outlet_s:.3f} s "
           f"({1e6 * outlet_s / CASES:.2f} us a case), ratio {cantera_s / outlet_s:.1f}x")
+    print(f"syntrain sweep, every column, no carbon check along the path: {bare_s:.3f} s "
+          f"({1e6 * bare_s / CASES:.2f} us a case), ratio {cantera_s / bare_s:.1f}x")
     if worst > 1e-6:
         sys.exit("the two sides do not solve the same problem")
 

@@ -110,7 +110,7 @@ pub(crate) fn unconverted_carbon_warnings(
 }
 
 /// How many temperatures the carbon check takes along a reactor's path, inlet and outlet
-/// included (20 equal steps).
+/// included (20 equal steps), unless its `carbon-path-points` says otherwise.
 pub(crate) const CARBON_PATH_POINTS: usize = 21;
 
 /// The carbon activity of one route in a gas.
@@ -249,10 +249,12 @@ impl CarbonCheck {
         core: &ReactorCore,
         inlet: &super::Stream,
         converted: &[f64],
+        path_points: Option<f64>,
         options: &SolverOptions,
         scratch: &mut CarbonScratch,
         out: &mut UnitResult,
     ) -> Result<()> {
+        let points = path_points.map_or(CARBON_PATH_POINTS, |n| n as usize);
         let unit = core.name.as_str();
         let UnitResult {
             outlets,
@@ -329,23 +331,32 @@ impl CarbonCheck {
         // answer lands on the same answer to its last bits only).
         let (t_in, p_in) = (inlet.temperature_k, inlet.pressure_pa);
         let (t_out, p_out) = (outlet.temperature_k, outlet.pressure_pa);
+        let key_len = converted.len() + 5;
         let same = scratch.memo.is_some()
-            && scratch.memo_key.len() == converted.len() + 4
+            && scratch.memo_key.len() == key_len
             && scratch
                 .memo_key
                 .iter()
-                .zip(converted.iter().chain(&[t_in, p_in, t_out, p_out]))
+                .zip(
+                    converted
+                        .iter()
+                        .chain(&[t_in, p_in, t_out, p_out, points as f64]),
+                )
                 .all(|(a, b)| (a - b).abs() <= MEMO_TOLERANCE * a.abs().max(b.abs()));
         let found = match scratch.memo {
             Some(found) if same => found,
+            _ if points == 0 => PathFinding {
+                worst: [None, None],
+                margin: None,
+            },
             _ => {
                 let found = self.walk_path(
                     db,
                     core,
                     equilibrium.as_ref(),
-                    inlet,
-                    outlet,
+                    (inlet, outlet),
                     converted,
+                    points,
                     options,
                     scratch,
                 )?;
@@ -353,7 +364,7 @@ impl CarbonCheck {
                 scratch.memo_key.extend_from_slice(converted);
                 scratch
                     .memo_key
-                    .extend_from_slice(&[t_in, p_in, t_out, p_out]);
+                    .extend_from_slice(&[t_in, p_in, t_out, p_out, points as f64]);
                 scratch.memo = Some(found);
                 found
             }
@@ -424,9 +435,9 @@ impl CarbonCheck {
         db: &SpeciesDb,
         core: &ReactorCore,
         own: Option<&StageResult>,
-        inlet: &super::Stream,
-        outlet: &super::Stream,
+        (inlet, outlet): (&super::Stream, &super::Stream),
         converted: &[f64],
+        points: usize,
         options: &SolverOptions,
         scratch: &mut CarbonScratch,
     ) -> Result<PathFinding> {
@@ -447,7 +458,7 @@ impl CarbonCheck {
         zero.resize(core.stage.reactions().len(), 0.0);
         let (t_in, p_in) = (inlet.temperature_k, inlet.pressure_pa);
         let (t_out, p_out) = (outlet.temperature_k, outlet.pressure_pa);
-        let steps = (CARBON_PATH_POINTS - 1) as f64;
+        let steps = (points - 1) as f64;
         // From the outlet back to the inlet: the first point starts from the unit's own solution
         // (the outlet at its approaches), every later one from the point before, so that the
         // check depends only on this solve, not on what the scratch solved before (a study
@@ -456,7 +467,7 @@ impl CarbonCheck {
         if let Some(e) = own {
             guess.extend_from_slice(&e.extents);
         }
-        for k in (0..CARBON_PATH_POINTS).rev() {
+        for k in (0..points).rev() {
             let f = k as f64 / steps;
             let t = t_in + (t_out - t_in) * f;
             let p = p_in + (p_out - p_in) * f;

@@ -45,6 +45,9 @@ pub const METHANATOR_INLET_MAX_K: f64 = 330.0 + CELSIUS_OFFSET_K;
 /// See [`METHANATOR_INLET_MIN_K`].
 pub const METHANATOR_OUTLET_MAX_K: f64 = 450.0 + CELSIUS_OFFSET_K;
 
+/// Most temperatures a carbon path check may take.
+pub const MAX_CARBON_PATH_POINTS: usize = 1000;
+
 /// The limits a unit's file entry sets; `None` takes the unit type's default.
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct OperatingLimits {
@@ -60,6 +63,9 @@ pub struct OperatingLimits {
     pub dew_point_margin_k: Option<f64>,
     /// Smallest steam-to-carbon ratio at the inlet (`min-steam-to-carbon`).
     pub min_steam_to_carbon: Option<f64>,
+    /// Temperatures of the carbon check along a reforming unit's path, inlet and outlet
+    /// included (`carbon-path-points`; 0 checks the outlet gas only).
+    pub carbon_path_points: Option<f64>,
 }
 
 /// One settable limit: its key and how it is written.
@@ -71,6 +77,7 @@ pub(crate) enum LimitKey {
     OutletMax,
     DewPointMargin,
     MinSteamToCarbon,
+    CarbonPathPoints,
 }
 
 impl LimitKey {
@@ -83,13 +90,14 @@ impl LimitKey {
             LimitKey::OutletMax => "outlet-max-temperature",
             LimitKey::DewPointMargin => "dew-point-margin",
             LimitKey::MinSteamToCarbon => "min-steam-to-carbon",
+            LimitKey::CarbonPathPoints => "carbon-path-points",
         }
     }
 
     fn value(self) -> ValueKind {
         match self {
             LimitKey::DewPointMargin => ValueKind::TemperatureDifference,
-            LimitKey::MinSteamToCarbon => ValueKind::Ratio,
+            LimitKey::MinSteamToCarbon | LimitKey::CarbonPathPoints => ValueKind::Ratio,
             _ => ValueKind::Temperature,
         }
     }
@@ -102,6 +110,7 @@ impl LimitKey {
             LimitKey::OutletMax => &mut l.outlet_max_k,
             LimitKey::DewPointMargin => &mut l.dew_point_margin_k,
             LimitKey::MinSteamToCarbon => &mut l.min_steam_to_carbon,
+            LimitKey::CarbonPathPoints => &mut l.carbon_path_points,
         }
     }
 }
@@ -138,6 +147,13 @@ pub(crate) const fn key_doc(key: LimitKey, default: &'static str) -> KeyDoc {
             "min-steam-to-carbon",
             ValueKind::Ratio,
             "smallest inlet steam-to-carbon ratio before a warning",
+        ),
+        LimitKey::CarbonPathPoints => (
+            "carbon-path-points",
+            ValueKind::Ratio,
+            "temperatures of the carbon check along the path, inlet and outlet included (a \
+             whole number, at least 2; 0 checks the outlet gas only, for studies that need \
+             no carbon margin)",
         ),
     };
     KeyDoc {
@@ -176,6 +192,7 @@ impl OperatingLimits {
             (LimitKey::OutletMax, self.outlet_max_k),
             (LimitKey::DewPointMargin, self.dew_point_margin_k),
             (LimitKey::MinSteamToCarbon, self.min_steam_to_carbon),
+            (LimitKey::CarbonPathPoints, self.carbon_path_points),
         ];
         for (k, v) in all {
             if let Some(v) = v {
@@ -187,6 +204,18 @@ impl OperatingLimits {
                         format!("{v} must be finite and not negative"),
                     ));
                 }
+            }
+        }
+        if let Some(n) = self.carbon_path_points {
+            if n.fract() != 0.0 || n == 1.0 || n > MAX_CARBON_PATH_POINTS as f64 {
+                return Err(spec_error(
+                    unit,
+                    LimitKey::CarbonPathPoints.key(),
+                    format!(
+                        "{n} must be a whole number from 2 to {MAX_CARBON_PATH_POINTS}, or 0 to \
+                         check the outlet gas only"
+                    ),
+                ));
             }
         }
         for (lo, hi, key) in [

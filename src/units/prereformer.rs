@@ -68,6 +68,7 @@ pub static TYPE: UnitType = UnitType {
             meaning: "approach temperature per reaction; a positive one leaves the outlet short of equilibrium",
         },
         key_doc(LimitKey::MinSteamToCarbon, "2.5"),
+        key_doc(LimitKey::CarbonPathPoints, "21"),
     ],
     example: "- name: prereformer\n  type: prereformer\n  from: prereformer-feed\n  to: \
               prereformed-gas\n  approach: {reforming: 0 K, shift: 0 K}",
@@ -82,7 +83,7 @@ impl UnitKind for Prereformer {
         let approaches = b.approaches(&PREREFORMER_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
         let limits = limits::read(
             b,
-            &[LimitKey::MinSteamToCarbon],
+            &[LimitKey::MinSteamToCarbon, LimitKey::CarbonPathPoints],
             |s: &mut PrereformerSpec| &mut s.limits,
         )?;
         Ok(PrereformerSpec {
@@ -205,8 +206,16 @@ impl Prereformer {
                 .unwrap_or(limits::MIN_STEAM_TO_CARBON);
             limits::steam_to_carbon_warning(name, sc, min, &mut out.warnings);
         }
-        self.carbon
-            .report(db, &self.core, inlet, converted, options, carbon, out)?;
+        self.carbon.report(
+            db,
+            &self.core,
+            inlet,
+            converted,
+            spec.limits.carbon_path_points,
+            options,
+            carbon,
+            out,
+        )?;
         self.core.finish(
             db,
             &inlet.flows,

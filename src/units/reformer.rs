@@ -47,10 +47,11 @@ pub struct ReformerSpec {
 }
 
 /// The limit keys of a reformer.
-const LIMIT_KEYS: [LimitKey; 3] = [
+const LIMIT_KEYS: [LimitKey; 4] = [
     LimitKey::OutletMin,
     LimitKey::OutletMax,
     LimitKey::MinSteamToCarbon,
+    LimitKey::CarbonPathPoints,
 ];
 
 /// A reformer ready to solve (its equilibrium stage built once).
@@ -92,6 +93,7 @@ pub static TYPE: UnitType = UnitType {
         key_doc(LimitKey::OutletMin, "700 degC"),
         key_doc(LimitKey::OutletMax, "950 degC"),
         key_doc(LimitKey::MinSteamToCarbon, "2.5"),
+        key_doc(LimitKey::CarbonPathPoints, "21"),
     ],
     example: "- name: reformer\n  type: reformer\n  from: reformer-feed\n  to: reformed-gas\n  \
               outlet-temperature: 865 degC\n  pressure-drop: 3 bar\n  approach: {reforming: \
@@ -266,8 +268,16 @@ impl Reformer {
                 .for_unit(name.as_str()),
             );
         }
-        self.carbon
-            .report(db, &self.core, inlet, converted, options, carbon, out)?;
+        self.carbon.report(
+            db,
+            &self.core,
+            inlet,
+            converted,
+            spec.limits.carbon_path_points,
+            options,
+            carbon,
+            out,
+        )?;
         self.core.finish(
             db,
             &inlet.flows,
