@@ -140,6 +140,9 @@ pub(crate) struct CarbonScratch {
     /// asks the same again to [`MEMO_TOLERANCE`] (a study varying something downstream).
     memo_key: Vec<f64>,
     memo: Option<PathFinding>,
+    /// The extents of every point of the last walk (point by point, each reaction), the start
+    /// of the same point in the next walk of this unit (a study's next case lies close).
+    last_walk: Vec<f64>,
 }
 
 /// Relative difference below which a path check is asked the same as the last one: far below
@@ -158,6 +161,7 @@ impl CarbonScratch {
     pub(crate) fn forget(&mut self) {
         self.memo = None;
         self.memo_key.clear();
+        self.last_walk.clear();
     }
 }
 
@@ -446,6 +450,7 @@ impl CarbonCheck {
             result,
             guess,
             zero,
+            last_walk,
             ..
         } = scratch;
         let unit = core.name.as_str();
@@ -459,10 +464,18 @@ impl CarbonCheck {
         let (t_in, p_in) = (inlet.temperature_k, inlet.pressure_pa);
         let (t_out, p_out) = (outlet.temperature_k, outlet.pressure_pa);
         let steps = (points - 1) as f64;
-        // From the outlet back to the inlet: the first point starts from the unit's own solution
-        // (the outlet at its approaches), every later one from the point before, so that the
-        // check depends only on this solve, not on what the scratch solved before (a study
-        // gives the same figures on any thread count).
+        // From the outlet back to the inlet. Each point starts from the same point of this
+        // unit's last walk where there is one (a study's next case lies close, so it needs
+        // fewer Newton steps); otherwise the first from the unit's own solution (the outlet at
+        // its approaches) and every later one from the point before. The answer is the
+        // converged equilibrium either way (to the stage tolerance, 1e-10); a workspace forgets
+        // its last walk with its warm starts, so a study repeats on any thread count.
+        let nr = zero.len();
+        let reuse = last_walk.len() == points * nr;
+        if !reuse {
+            last_walk.clear();
+            last_walk.resize(points * nr, 0.0);
+        }
         guess.clear();
         if let Some(e) = own {
             guess.extend_from_slice(&e.extents);
@@ -471,7 +484,11 @@ impl CarbonCheck {
             let f = k as f64 / steps;
             let t = t_in + (t_out - t_in) * f;
             let p = p_in + (p_out - p_in) * f;
-            let start: Option<&[f64]> = (guess.len() == zero.len()).then_some(guess.as_slice());
+            if reuse {
+                guess.clear();
+                guess.extend_from_slice(&last_walk[k * nr..(k + 1) * nr]);
+            }
+            let start: Option<&[f64]> = (guess.len() == nr).then_some(guess.as_slice());
             let stage_inlet = crate::equilibrium::StageInlet {
                 flows: converted,
                 temperature_k: t_in,
@@ -497,9 +514,15 @@ impl CarbonCheck {
             })?;
             guess.clear();
             guess.extend_from_slice(&result.extents);
-            for (r, route) in routes.iter().enumerate() {
-                let a = Self::activity(db, route, &result.outlet_flows, t, p)
-                    .context(|| format!("unit '{unit}', carbon activity"))?;
+            if guess.len() == nr {
+                last_walk[k * nr..(k + 1) * nr].copy_from_slice(guess);
+            }
+            // In a gas at reforming and shift equilibrium both routes give the same activity
+            // (cracking minus Boudouard is a sum of reforming and shift), so one is worked out
+            // and stands for both.
+            let a = Self::activity(db, routes[0], &result.outlet_flows, t, p)
+                .context(|| format!("unit '{unit}', carbon activity"))?;
+            for r in 0..routes.len() {
                 if let Activity::Value(a) = a {
                     if found.worst[r].is_none_or(|w| a > w.activity) {
                         found.worst[r] = Some(Worst {
