@@ -6,17 +6,8 @@ use plotters::prelude::*;
 
 use super::samples::date_text;
 use super::{Evaluation, Trend};
-use crate::error::{Error, Result};
-
-/// Series colours (those of the sweep charts).
-const COLOURS: [RGBColor; 6] = [
-    RGBColor(31, 96, 160),
-    RGBColor(200, 82, 0),
-    RGBColor(40, 140, 70),
-    RGBColor(170, 40, 60),
-    RGBColor(110, 80, 160),
-    RGBColor(120, 90, 40),
-];
+use crate::error::Result;
+use crate::study::plot::{draw_error, plot_error, COLOURS};
 
 /// One series: (unit, reaction) and its (day, approach K) points.
 type Series = ((String, String), Vec<(f64, f64)>);
@@ -139,16 +130,4 @@ pub fn svg(evaluation: &Evaluation) -> Result<String> {
         root.present().map_err(draw_error)?;
     }
     Ok(text)
-}
-
-fn draw_error<E: std::fmt::Debug>(e: E) -> Error {
-    plot_error(format!("{e:?}"))
-}
-
-fn plot_error(reason: String) -> Error {
-    Error::InvalidValue {
-        field: "--plot".into(),
-        value: String::new(),
-        reason,
-    }
 }

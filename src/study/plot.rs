@@ -29,8 +29,9 @@ pub struct Chart {
     pub points: bool,
 }
 
-/// Line colours, chosen to stay apart from each other on screen and in greyscale print.
-const COLOURS: [RGBColor; 8] = [
+/// Line colours, chosen to stay apart from each other on screen and in greyscale print (the
+/// evaluation's ageing chart uses them too).
+pub(crate) const COLOURS: [RGBColor; 8] = [
     RGBColor(31, 96, 160),
     RGBColor(200, 82, 0),
     RGBColor(40, 140, 70),
@@ -193,11 +194,13 @@ fn same(a: &[f64], b: &[f64]) -> bool {
     a.len() == b.len() && a.iter().zip(b).all(|(x, y)| x.to_bits() == y.to_bits())
 }
 
-fn draw_error<E: std::fmt::Debug>(e: E) -> Error {
+/// A drawing error of the `plotters` crate as an error of `--plot`.
+pub(crate) fn draw_error<E: std::fmt::Debug>(e: E) -> Error {
     plot_error(format!("{e:?}"))
 }
 
-fn plot_error(reason: String) -> Error {
+/// An error of `--plot`.
+pub(crate) fn plot_error(reason: String) -> Error {
     Error::InvalidValue {
         field: "--plot".into(),
         value: String::new(),
