@@ -13,7 +13,6 @@ use clap::{Parser, Subcommand, ValueEnum};
 
 mod cli;
 
-use syntrain::flowsheet::Flowsheet;
 use syntrain::report;
 use syntrain::report::species as species_report;
 use syntrain::thermo::SpeciesDb;
@@ -257,14 +256,15 @@ fn run(cli: Cli) -> syntrain::Result<(String, Option<String>)> {
             output,
             strict,
         } => {
-            let flowsheet = Flowsheet::from_file(&file, &db)?;
-            let result = flowsheet.solve(&db)?;
+            // A flowsheet, or an overlay of one (solved with its changes).
+            let case = syntrain::study::overlay::load(&db, &file)?;
+            let result = case.flowsheet.solve_with(&db, &case.parameters, None)?;
             let note = strict.then(|| strict_note(result.warnings.len())).flatten();
             // Render completely before writing, so an error leaves no partial file.
             let text = report::render_solution(&db, &result, format.into())?;
             match output {
                 Some(path) => {
-                    let mut inputs: Vec<&Path> = vec![&file];
+                    let mut inputs: Vec<&Path> = case.files.iter().map(PathBuf::as_path).collect();
                     inputs.extend(cli.species_file.as_deref());
                     report::write_output(&path, &text, &inputs)?;
                     report_error(&format!("wrote {}", path.display()));

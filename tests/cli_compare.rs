@@ -245,6 +245,24 @@ fn an_overlay_with_changes_equals_a_hand_edited_copy() {
     // And the overlay's change is the difference of two separate solves (base, edited copy).
     let expected = difference(&solve_json(&base), &solve_json(&edited));
     assert!(same_tree(&over["change"], &expected, "change") >= 30);
+    // `solve` takes the overlay itself and gives what the hand-edited copy gives.
+    let solved_overlay = solve_json(&overlay);
+    let solved_edited = solve_json(&edited);
+    assert!(
+        same_tree(
+            &solved_overlay["summary"],
+            &solved_edited["summary"],
+            "summary"
+        ) >= 10
+    );
+    for (name, stream) in solved_edited["streams"].as_object().unwrap() {
+        let got = &solved_overlay["streams"][name];
+        assert!(same_tree(&got["flow_kmol_h"], &stream["flow_kmol_h"], name) >= 5);
+        assert!(
+            close(f(&got["temperature_K"]), f(&stream["temperature_K"])),
+            "{name}"
+        );
+    }
     // S/C 2794.5 / 1035 = 2.7 at the pre-reformer inlet (1035 kmol/h of hydrocarbon carbon).
     assert!(close(
         f(&over["summary"]["steam_to_carbon"]["prereformer"]),
