@@ -201,6 +201,12 @@ mod tests {
         assert_eq!(unit("units.hts.duty_kW"), "kW");
         assert_eq!(unit("units.hts.approach_K.shift"), "K");
         assert_eq!(unit("units.reformer.figures.methane-slip-dry"), "%");
+        // Each figure by its own key: a temperature and a pure number among fractions.
+        assert_eq!(
+            unit("units.reformer.figures.carbon-margin-temperature"),
+            "degC"
+        );
+        assert_eq!(unit("units.reformer.figures.steam-to-carbon"), "");
         assert_eq!(unit("summary.hydrogen_product_Nm3_h"), "Nm3/h");
         assert_eq!(unit("summary.steam_to_carbon.reformer"), "mol/mol");
         assert_eq!(unit("summary.co_slip_percent_dry.lts"), "mol % dry");
@@ -241,5 +247,8 @@ mod tests {
         assert!(matches("ab*ba", "abba"));
         assert!(matches("a*b", "ab"));
         assert!(matches("a*b*c", "aXbYc") && !matches("a*b*c", "aXcYb"));
+        // A middle part used up is not found again; the ends keep their own characters.
+        assert!(matches("a*b*b*c", "abbc") && !matches("a*b*b*c", "abc"));
+        assert!(!matches("abc*c", "abc") && matches("abc*c", "abcc"));
     }
 }

@@ -219,6 +219,53 @@ mod tests {
     }
 
     #[test]
+    fn a_spread_is_read_in_the_unit_of_the_mean() {
+        // 1 bar = 1e5 Pa: a standard deviation of 1 bar about a mean in bar is 1 in draws.
+        let db = crate::thermo::SpeciesDb::embedded().unwrap();
+        let path =
+            std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("flowsheets/demo-train.yaml");
+        let fs = Flowsheet::from_file(&path, &db).unwrap();
+        let (input, d) =
+            Distribution::parse(&fs, "feeds.natural-gas.pressure", "normal(30 bar, 1.5 bar)")
+                .unwrap();
+        assert_eq!(input.unit.name, "bar");
+        assert_eq!(
+            d.shape,
+            Shape::Normal {
+                mean: 30.0,
+                sd: 1.5
+            }
+        );
+        // 5 K about a mean in degC is 5 degC; 9 degF is 5 K (definition of the Fahrenheit degree).
+        let (_, d) = Distribution::parse(
+            &fs,
+            "units.reformer.outlet-temperature",
+            "normal(865 degC, 9 degF)",
+        )
+        .unwrap();
+        assert_eq!(
+            d.shape,
+            Shape::Normal {
+                mean: 865.0,
+                sd: 5.0
+            }
+        );
+        for bad in [
+            "normal(30 bar)",
+            "normal(30 bar, -1 bar)",
+            "lognormal(30 bar, 1 bar)",
+            "uniform(31 bar, 30 bar)",
+            "triangular(30 bar, 35 bar, 32 bar)",
+            "normal 30 bar",
+        ] {
+            assert!(
+                Distribution::parse(&fs, "feeds.natural-gas.pressure", bad).is_err(),
+                "{bad}"
+            );
+        }
+    }
+
+    #[test]
     fn a_draw_depends_on_seed_and_index_only() {
         let d = Distribution::new(Shape::Normal { mean: 0.0, sd: 1.0 }).unwrap();
         let first = d.sample(&mut generator(42, 1000));
