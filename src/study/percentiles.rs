@@ -78,5 +78,10 @@ mod tests {
         assert_eq!(s.p50, 1.5);
         assert!(spread(&[f64::NAN]).is_none());
         assert_eq!(quantile(&[5.0], 0.9), 5.0);
+        // The ends are the smallest and the largest value (h = 0 and h = n - 1).
+        let sorted = [1.0, 2.0, 4.0, 8.0];
+        assert_eq!(quantile(&sorted, 0.0), 1.0);
+        assert_eq!(quantile(&sorted, 1.0), 8.0);
+        assert_eq!(quantile(&sorted, 0.5), 3.0);
     }
 }
