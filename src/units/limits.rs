@@ -265,6 +265,37 @@ impl WindowCode {
     }
 }
 
+/// The catalyst checks of a shift converter or methanator: the inlet within its window and the
+/// outlet below its limit (each the file's value, else the default given for the catalyst:
+/// `(inlet_min_k, inlet_max_k, outlet_max_k)`), and the inlet at least its margin above its
+/// water dew point `dew_k`. `subject` names the catalyst in the messages.
+#[allow(clippy::too_many_arguments)]
+pub(crate) fn catalyst_warnings(
+    unit: &str,
+    limits: &OperatingLimits,
+    defaults: (f64, f64, f64),
+    subject: &'static str,
+    t_in: f64,
+    t_out: f64,
+    dew_k: Option<f64>,
+    warnings: &mut Vec<Warning>,
+) {
+    let (inlet_min, inlet_max, outlet_max) = defaults;
+    let inlet = Window {
+        min_k: Some(limits.inlet_min_k.unwrap_or(inlet_min)),
+        max_k: Some(limits.inlet_max_k.unwrap_or(inlet_max)),
+    };
+    let outlet = Window {
+        min_k: None,
+        max_k: Some(limits.outlet_max_k.unwrap_or(outlet_max)),
+    };
+    let code = WindowCode::Catalyst;
+    window_warnings(unit, code, Place::Inlet, t_in, inlet, subject, warnings);
+    window_warnings(unit, code, Place::Outlet, t_out, outlet, subject, warnings);
+    let margin = limits.dew_point_margin_k.unwrap_or(DEW_POINT_MARGIN_K);
+    dew_point_warnings(unit, t_in, dew_k, margin, warnings);
+}
+
 /// Warn (`code`) when temperature `t` lies outside `window`; `place` ("inlet", "outlet") and
 /// `subject` (what sets the window: a catalyst, "reformer") go into the message.
 pub(crate) fn window_warnings(

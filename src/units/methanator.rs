@@ -14,7 +14,7 @@
 //! its water dew point (`dew-point`).
 
 use super::common::{dew_point_k, dry_fraction, figure, reactor_inlet};
-use super::limits::{self, key_doc, LimitKey, OperatingLimits, Place, Window, WindowCode};
+use super::limits::{self, key_doc, LimitKey, OperatingLimits};
 use super::reactor::ReactorCore;
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
 use super::{FigureKind, Stream, UnitResult, Warning};
@@ -209,38 +209,21 @@ impl Methanator {
                 .for_unit(name.as_str()),
             );
         }
-        let l = &spec.limits;
-        let inlet_window = Window {
-            min_k: Some(l.inlet_min_k.unwrap_or(limits::METHANATOR_INLET_MIN_K)),
-            max_k: Some(l.inlet_max_k.unwrap_or(limits::METHANATOR_INLET_MAX_K)),
-        };
-        let outlet_window = Window {
-            min_k: None,
-            max_k: Some(l.outlet_max_k.unwrap_or(limits::METHANATOR_OUTLET_MAX_K)),
-        };
-        let (code, subject, warnings) = (WindowCode::Catalyst, "a methanator", &mut out.warnings);
-        let t_out = t_in + rise;
-        limits::window_warnings(
-            name,
-            code,
-            Place::Inlet,
-            t_in,
-            inlet_window,
-            subject,
-            warnings,
-        );
-        limits::window_warnings(
-            name,
-            code,
-            Place::Outlet,
-            t_out,
-            outlet_window,
-            subject,
-            warnings,
-        );
         let dew = dew_point_k(key, &inlet.flows, inlet.pressure_pa);
-        let margin = l.dew_point_margin_k.unwrap_or(limits::DEW_POINT_MARGIN_K);
-        limits::dew_point_warnings(name, t_in, dew, margin, warnings);
+        limits::catalyst_warnings(
+            name,
+            &spec.limits,
+            (
+                limits::METHANATOR_INLET_MIN_K,
+                limits::METHANATOR_INLET_MAX_K,
+                limits::METHANATOR_OUTLET_MAX_K,
+            ),
+            "a methanator",
+            t_in,
+            t_in + rise,
+            dew,
+            &mut out.warnings,
+        );
         self.core
             .finish(db, &inlet.flows, |_| false, approaches_k, out);
         Ok(())

@@ -12,7 +12,7 @@
 use super::common::{
     check_temperature, dew_point_k, dry_fraction, figure, reactor_inlet, spec_error,
 };
-use super::limits::{self, key_doc, LimitKey, OperatingLimits, Place, Window, WindowCode};
+use super::limits::{self, key_doc, LimitKey, OperatingLimits};
 use super::reactor::ReactorCore;
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
 use super::{FigureKind, Stream, UnitResult, Warning};
@@ -357,36 +357,16 @@ impl Shift {
             }
         };
         let (inlet_min, inlet_max) = catalyst.inlet_window_k();
-        let l = &spec.limits;
-        let inlet_window = Window {
-            min_k: Some(l.inlet_min_k.unwrap_or(inlet_min)),
-            max_k: Some(l.inlet_max_k.unwrap_or(inlet_max)),
-        };
-        let outlet_window = Window {
-            min_k: None,
-            max_k: Some(l.outlet_max_k.unwrap_or(catalyst.max_outlet_k())),
-        };
-        let (code, subject) = (WindowCode::Catalyst, catalyst.described());
-        limits::window_warnings(
+        limits::catalyst_warnings(
             name,
-            code,
-            Place::Inlet,
+            &spec.limits,
+            (inlet_min, inlet_max, catalyst.max_outlet_k()),
+            catalyst.described(),
             t_in,
-            inlet_window,
-            subject,
-            warnings,
-        );
-        limits::window_warnings(
-            name,
-            code,
-            Place::Outlet,
             t_out,
-            outlet_window,
-            subject,
+            dew,
             warnings,
         );
-        let margin = l.dew_point_margin_k.unwrap_or(limits::DEW_POINT_MARGIN_K);
-        limits::dew_point_warnings(name, t_in, dew, margin, warnings);
         Ok(())
     }
 }
