@@ -243,6 +243,7 @@ pub(crate) fn solve_in<'w>(
             ))
         })?;
         let r = &solved.result;
+        set_inlet_flows(fs, &unit.name, &io.inlets, &r.inlet_flows, before)?;
         if r.outlets.len() != unit.outlets.len() {
             return Err(Error::Flowsheet {
                 reason: format!(
@@ -270,6 +271,47 @@ pub(crate) fn solve_in<'w>(
     result.element_balance_residual = element_balance(&fs.elements, &result.streams)?;
     result.energy_balance_residual = energy_balance(db, &result.streams, &result.units)?;
     Ok(result)
+}
+
+/// Rescale the feeds whose flow a unit set ([`UnitResult::inlet_flows`]) to that flow, keeping
+/// their composition; an inlet that is not a feed is an error naming it.
+fn set_inlet_flows(
+    fs: &Flowsheet,
+    unit: &str,
+    inlets: &[usize],
+    flows: &[(usize, f64)],
+    streams: &mut [SolvedStream],
+) -> Result<()> {
+    for &(k, flow_mol_s) in flows {
+        let Some(&index) = inlets.get(k) else {
+            continue;
+        };
+        let stream = &mut streams[index];
+        if index >= fs.feeds.len() {
+            return Err(Error::Flowsheet {
+                reason: format!(
+                    "unit '{unit}' sets the flow of its inlet '{}', which is made by another \
+                     unit; give that inlet as a feed (its composition, temperature and \
+                     pressure; the unit sets its flow)",
+                    stream.name
+                ),
+            });
+        }
+        let total = stream.stream.total();
+        if !(total > 0.0) || !flow_mol_s.is_finite() || flow_mol_s < 0.0 {
+            return Err(Error::Flowsheet {
+                reason: format!(
+                    "unit '{unit}' cannot set the flow of feed '{}' to {flow_mol_s} mol/s \
+                     (the feed must have a composition with a positive flow, and the flow \
+                     set must be finite and not negative)",
+                    stream.name
+                ),
+            });
+        }
+        let scale = flow_mol_s / total;
+        stream.stream.flows.iter_mut().for_each(|n| *n *= scale);
+    }
+    Ok(())
 }
 
 /// Call `f` with the inlet streams at `indices` of `streams`, without a heap allocation for up

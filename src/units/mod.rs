@@ -72,6 +72,11 @@ pub struct UnitResult {
     pub equilibrium: Option<StageResult>,
     /// Cautions from common practice (catalyst temperature limits, dew point, carbon), as data.
     pub warnings: Vec<Warning>,
+    /// Inlets whose flow the unit sets (the make-up fuel of a furnace, the feed water of a
+    /// boiler): (inlet position, total molar flow in mol/s). The unit solves with that flow, and
+    /// the flowsheet rescales the inlet stream to it (composition, temperature and pressure
+    /// kept), so that every balance sees the flow used. Such an inlet must be a feed.
+    pub inlet_flows: Vec<(usize, f64)>,
 }
 
 impl UnitResult {
@@ -91,6 +96,7 @@ impl UnitResult {
         self.approaches.clear();
         self.figures.clear();
         self.warnings.clear();
+        self.inlet_flows.clear();
     }
 
     /// Set outlet `k` (its flow vector reused).

@@ -144,6 +144,7 @@ impl Prereformer {
             stage: stage_ws,
             options,
             carbon,
+            ..
         } = scratch;
         let converted = &mut flows[0];
         converted.clear();

@@ -169,6 +169,7 @@ impl Reformer {
             stage: stage_ws,
             options,
             carbon,
+            ..
         } = scratch;
         let converted = &mut flows[0];
         converted.clear();

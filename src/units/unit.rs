@@ -691,6 +691,9 @@ pub struct UnitScratch {
     pub options: SolverOptions,
     /// Work memory of the carbon check along a reforming unit's path.
     pub(crate) carbon: super::chemistry::CarbonScratch,
+    /// Heat the unit must deliver to the units it heats (a furnace firing a reformer), W: the
+    /// sum of their duties, set by the flowsheet before each solve (zero for other units).
+    pub heat_demand_w: f64,
 }
 
 /// What a compiled flowsheet solves: a built unit with its inputs.
