@@ -25,6 +25,10 @@ pub enum FigureKind {
     MolarFlow,
     /// A pressure, Pa (reported in bar abs).
     Pressure,
+    /// A mass flow, kg/s (reported in kg/h; steam raised, water condensed).
+    MassFlow,
+    /// A heat flow, W (reported in kW; heat transferred, fired duty).
+    Power,
     /// A pure number.
     Number,
 }
@@ -38,6 +42,8 @@ impl FigureKind {
             FigureKind::Temperature => kelvin_to_degc(si),
             FigureKind::MolarFlow => mol_s_to_kmol_h(si),
             FigureKind::Pressure => pa_to_bar(si),
+            FigureKind::MassFlow => 3600.0 * si,
+            FigureKind::Power => si / 1e3,
             FigureKind::TemperatureDifference | FigureKind::Number => si,
         }
     }
@@ -51,6 +57,8 @@ impl FigureKind {
             FigureKind::TemperatureDifference => "K",
             FigureKind::MolarFlow => "kmol/h",
             FigureKind::Pressure => "bar abs",
+            FigureKind::MassFlow => "kg/h",
+            FigureKind::Power => "kW",
             FigureKind::Number => "",
         }
     }
@@ -65,6 +73,8 @@ impl FigureKind {
             FigureKind::TemperatureDifference => format!("{v:.1} K"),
             FigureKind::MolarFlow => format!("{v:.3} kmol/h"),
             FigureKind::Pressure => format!("{v:.3} bar abs"),
+            FigureKind::MassFlow => format!("{v:.1} kg/h"),
+            FigureKind::Power => format!("{v:.1} kW"),
             FigureKind::Number => format!("{v:.4}"),
         }
     }

@@ -622,6 +622,7 @@ mod tests {
                 figures: Vec::new(),
                 equilibrium: None,
                 warnings: Vec::new(),
+                inlet_flows: Vec::new(),
             },
         }
     }

@@ -187,6 +187,7 @@ pub fn figure_number(figure: &Figure) -> String {
         FigureKind::Temperature | FigureKind::TemperatureDifference => fixed(value, 1),
         FigureKind::MolarFlow => fixed(value, 2),
         FigureKind::Pressure => fixed(value, 2),
+        FigureKind::MassFlow | FigureKind::Power => fixed(value, 1),
         FigureKind::Number => significant(value, 4),
     }
 }

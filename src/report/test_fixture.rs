@@ -189,6 +189,7 @@ pub fn fixture(db: &SpeciesDb) -> FlowsheetResult {
                 figures,
                 equilibrium,
                 warnings: Vec::new(),
+                inlet_flows: Vec::new(),
             },
         }
     };
