@@ -201,7 +201,10 @@ impl Burning {
             .into_iter()
             .filter_map(|i| {
                 let s = db.by_index(i);
-                let cho = s.elements.iter().all(|(e, _)| matches!(e.as_str(), "C" | "H" | "O"));
+                let cho = s
+                    .elements
+                    .iter()
+                    .all(|(e, _)| matches!(e.as_str(), "C" | "H" | "O"));
                 let (c, h, o) = (s.atoms("C"), s.atoms("H"), s.atoms("O"));
                 let demand = c + h / 4.0 - o / 2.0;
                 (s.phase == Phase::Gas && cho && demand > 0.0).then_some((i, demand, c, h / 2.0))
@@ -299,7 +302,8 @@ impl Autothermal {
         self.higher.reform(name, key, combusted)?;
         check_temperature(db, name, "inlet 1", combusted, t_ref)?;
         let context = || format!("unit '{name}', inlet enthalpy");
-        let h_in = process.enthalpy_w(db).context(context)? + oxidant.enthalpy_w(db).context(context)?;
+        let h_in =
+            process.enthalpy_w(db).context(context)? + oxidant.enthalpy_w(db).context(context)?;
         let h_combusted = mixture::enthalpy(db, combusted, t_ref).context(context)?;
         let mode = EnergyMode::FixedDuty {
             duty_w: h_in - h_combusted,
@@ -375,7 +379,12 @@ impl Autothermal {
         }
         let (h2, co) = (out_flows[key.h2], out_flows[key.co]);
         if co > 0.0 {
-            figures.push(figure("h2-to-co", "H2/CO, outlet", h2 / co, FigureKind::Number));
+            figures.push(figure(
+                "h2-to-co",
+                "H2/CO, outlet",
+                h2 / co,
+                FigureKind::Number,
+            ));
         }
         // Air-blown units only (nitrogen in the oxidant): the ammonia syngas figures.
         let air_n2 = db
@@ -383,7 +392,12 @@ impl Autothermal {
             .filter(|i| oxidant.flows[*i] > 0.0)
             .map(|i| out_flows[i]);
         if let Some(n2) = air_n2 {
-            figures.push(figure("h2-to-n2", "H2/N2, outlet", h2 / n2, FigureKind::Number));
+            figures.push(figure(
+                "h2-to-n2",
+                "H2/N2, outlet",
+                h2 / n2,
+                FigureKind::Number,
+            ));
             figures.push(figure(
                 "h2-co-to-n2",
                 "(H2 + CO)/N2, outlet",
@@ -395,11 +409,11 @@ impl Autothermal {
         let min_k = spec.limits.outlet_min_k.unwrap_or(AUTOTHERMAL_OUTLET_MIN_K);
         outlet_warnings(name, t_out, min_k, max_k, &mut out.warnings);
         let points = Some(spec.limits.carbon_path_points.unwrap_or(0.0));
-        self.carbon
-            .report(db, &self.core, process, combusted, points, options, carbon, out)?;
-        let burns = |i: usize| {
-            self.higher.converts(i) || self.burning.fuels.iter().any(|f| f.0 == i)
-        };
+        self.carbon.report(
+            db, &self.core, process, combusted, points, options, carbon, out,
+        )?;
+        let burns =
+            |i: usize| self.higher.converts(i) || self.burning.fuels.iter().any(|f| f.0 == i);
         self.core.finish(db, combined, burns, approaches_k, out);
         Ok(())
     }
@@ -435,3 +449,263 @@ fn outlet_warnings(unit: &str, t_out: f64, min_k: f64, max_k: f64, warnings: &mu
     }
 }
 
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::units::common::temperature_at_enthalpy;
+    use crate::units::test_support::{assert_balances, db, equilibrium_gap, fig, gas};
+
+    fn spec(approaches: &[(&str, f64)], limits: OperatingLimits) -> AutothermalSpec {
+        AutothermalSpec {
+            pressure_drop_pa: 0.5e5,
+            approaches: approaches
+                .iter()
+                .map(|(n, a)| (n.to_string(), *a))
+                .collect(),
+            limits,
+        }
+    }
+
+    /// Pre-reformed natural gas at S/C 1.5 and 650 degC, 30 bar (an invented demo feed).
+    fn process(db: &SpeciesDb) -> Stream {
+        let pairs = [
+            ("CH4", 0.9),
+            ("H2O", 1.35),
+            ("H2", 0.12),
+            ("CO2", 0.08),
+            ("N2", 0.01),
+        ];
+        gas(db, &pairs, 923.15, 30e5)
+    }
+
+    fn oxygen(db: &SpeciesDb, o2: f64) -> Stream {
+        gas(db, &[("O2", o2)], 513.15, 31e5)
+    }
+
+    fn solve(db: &SpeciesDb, s: &AutothermalSpec, inlets: &[&Stream]) -> Result<UnitResult> {
+        Autothermal::new(db, "atr", s)?.solve(db, inlets, None)
+    }
+
+    #[test]
+    fn oxygen_is_consumed_and_the_outlet_is_at_equilibrium_adiabatically() {
+        let db = db();
+        let (p, o) = (process(&db), oxygen(&db, 0.5));
+        let r = solve(&db, &spec(&[], OperatingLimits::default()), &[&p, &o]).unwrap();
+        assert_balances(&db, &[&p, &o], &r);
+        let out = &r.outlets[0];
+        assert_eq!(out.flows[db.index_of("O2").unwrap()], 0.0);
+        assert_eq!(r.duty_w, 0.0);
+        // Lowest inlet pressure (30 bar) less 0.5 bar.
+        assert_eq!(out.pressure_pa, 29.5e5);
+        // Recomputed from the outlet alone: both reactions at equilibrium at its temperature.
+        for reaction in ["reforming", "shift"] {
+            let gap = equilibrium_gap(&db, reaction, out, out.temperature_k);
+            assert!(gap.abs() < 1e-9, "{reaction}: {gap:e}");
+        }
+        // Common practice: an oxygen-blown autothermal reformer at O2/C about 0.55 leaves at
+        // about 950-1100 degC with well under 1 % methane (dry).
+        let t = fig(&r, "outlet-temperature");
+        assert_eq!(t, out.temperature_k);
+        assert!((1223.15..1373.15).contains(&t), "{t}");
+        assert!(fig(&r, "methane-slip-dry") < 0.01);
+        assert!((fig(&r, "oxygen-to-carbon") - 0.5 / 0.9).abs() < 1e-15);
+        assert!((fig(&r, "steam-to-carbon") - 1.5).abs() < 1e-15);
+        assert!(fig(&r, "heat-released") > 0.0);
+        // Nitrogen from the process gas only: no ammonia syngas figures.
+        assert!(r.figures.iter().all(|f| f.key != "h2-to-n2"));
+        assert!(r.warnings.is_empty(), "{:?}", r.warnings);
+    }
+
+    #[test]
+    fn the_order_of_the_formal_burning_does_not_move_the_equilibrium() {
+        // The same elements and enthalpy reached with part of the methane burnt already
+        // (CH4 + 2 O2 = CO2 + 2 H2O) and the process gas at the temperature that keeps the
+        // total enthalpy: the unit then burns hydrogen with the oxygen left, a different
+        // combusted gas, and must land on the same outlet (one equilibrium per elements,
+        // enthalpy and pressure).
+        let db = db();
+        let (p, o) = (process(&db), oxygen(&db, 0.5));
+        let s = spec(&[], OperatingLimits::default());
+        let a = solve(&db, &s, &[&p, &o]).unwrap();
+        let h_total = p.enthalpy_w(&db).unwrap() + o.enthalpy_w(&db).unwrap();
+        let d = 0.1;
+        let mut burnt = p.clone();
+        burnt.flows[db.index_of("CH4").unwrap()] -= d;
+        burnt.flows[db.index_of("CO2").unwrap()] += d;
+        burnt.flows[db.index_of("H2O").unwrap()] += 2.0 * d;
+        let o2 = oxygen(&db, 0.5 - 2.0 * d);
+        let target = h_total - o2.enthalpy_w(&db).unwrap();
+        burnt.temperature_k =
+            temperature_at_enthalpy(&db, "t", &burnt.flows, target, 1000.0).unwrap();
+        assert!(burnt.temperature_k > p.temperature_k + 100.0);
+        let b = solve(&db, &s, &[&burnt, &o2]).unwrap();
+        let (x, y) = (&a.outlets[0], &b.outlets[0]);
+        assert!((x.temperature_k - y.temperature_k).abs() < 1e-7);
+        for (f, g) in x.flows.iter().zip(&y.flows) {
+            assert!((f - g).abs() < 1e-10, "{f} {g}");
+        }
+    }
+
+    #[test]
+    fn approaches_leave_more_methane_and_a_warm_start_agrees() {
+        let db = db();
+        let (p, o) = (process(&db), oxygen(&db, 0.5));
+        let unit = Autothermal::new(
+            &db,
+            "atr",
+            &spec(&[("reforming", 10.0)], OperatingLimits::default()),
+        )
+        .unwrap();
+        let r = unit.solve(&db, &[&p, &o], None).unwrap();
+        assert_balances(&db, &[&p, &o], &r);
+        let out = &r.outlets[0];
+        // Reforming takes its constant 10 K below the outlet (forward, endothermic).
+        let gap = equilibrium_gap(&db, "reforming", out, out.temperature_k - 10.0);
+        assert!(gap.abs() < 1e-9, "{gap:e}");
+        let close = solve(&db, &spec(&[], OperatingLimits::default()), &[&p, &o]).unwrap();
+        assert!(fig(&r, "methane-slip-dry") > fig(&close, "methane-slip-dry"));
+        // Less methane reformed: less heat taken, a hotter outlet.
+        assert!(out.temperature_k > close.outlets[0].temperature_k);
+        let guess = r.equilibrium.as_ref().unwrap().extents.clone();
+        let again = unit.solve(&db, &[&p, &o], Some(&guess)).unwrap();
+        assert!((again.outlets[0].temperature_k - out.temperature_k).abs() < 1e-8);
+    }
+
+    #[test]
+    fn outlet_limits_warn_beyond_and_not_at_their_defaults_or_set_values() {
+        // Common practice: about 850-1100 degC at the exit (module docs).
+        let db = db();
+        let p = process(&db);
+        let codes = |r: &UnitResult| -> Vec<f64> {
+            r.warnings
+                .iter()
+                .filter(|w| w.code == "reformer-temperature")
+                .map(|w| w.limit.unwrap())
+                .collect()
+        };
+        let default = spec(&[], OperatingLimits::default());
+        let lean = solve(&db, &default, &[&p, &oxygen(&db, 0.35)]).unwrap();
+        assert!(lean.outlets[0].temperature_k < AUTOTHERMAL_OUTLET_MIN_K);
+        assert_eq!(codes(&lean), vec![AUTOTHERMAL_OUTLET_MIN_K]);
+        let hot = solve(&db, &default, &[&p, &oxygen(&db, 0.6)]).unwrap();
+        assert!(hot.outlets[0].temperature_k > AUTOTHERMAL_OUTLET_MAX_K);
+        assert_eq!(codes(&hot), vec![AUTOTHERMAL_OUTLET_MAX_K]);
+        // At the limit set to the outlet itself: inside; 0.01 K tighter: a warning.
+        let o = oxygen(&db, 0.5);
+        let t = solve(&db, &default, &[&p, &o]).unwrap().outlets[0].temperature_k;
+        let at = |min: Option<f64>, max: Option<f64>| {
+            let limits = OperatingLimits {
+                outlet_min_k: min,
+                outlet_max_k: max,
+                ..Default::default()
+            };
+            codes(&solve(&db, &spec(&[], limits), &[&p, &o]).unwrap())
+        };
+        assert!(at(Some(t), Some(t)).is_empty());
+        assert_eq!(at(None, Some(t - 0.01)), vec![t - 0.01]);
+        assert_eq!(at(Some(t + 0.01), None), vec![t + 0.01]);
+    }
+
+    #[test]
+    fn carbon_is_checked_on_the_outlet_and_on_request_along_the_path() {
+        let db = db();
+        let (p, o) = (process(&db), oxygen(&db, 0.5));
+        let r = solve(&db, &spec(&[], OperatingLimits::default()), &[&p, &o]).unwrap();
+        // Outlet gas at reforming and shift equilibrium: both routes agree (design notes).
+        let a1 = fig(&r, "carbon-activity-methane-cracking");
+        let a2 = fig(&r, "carbon-activity-boudouard");
+        assert!((a1 / a2 - 1.0).abs() < 1e-6 && a1 < 1.0, "{a1} {a2}");
+        assert!((fig(&r, "carbon-margin") - (1.0 - a1.max(a2))).abs() < 1e-12);
+        // A lean-steam feed (S/C 0.4, O2/C 0.45, 600 degC): its outlet gas has no carbon
+        // potential, but the equilibrated gas of its elements can deposit carbon at the cool
+        // end of the path (Boudouard), which only the path check asked for sees.
+        let lean = gas(
+            &db,
+            &[("CH4", 1.0), ("H2O", 0.4), ("H2", 0.02)],
+            873.15,
+            30e5,
+        );
+        let carbon = |feed: &Stream, o2: f64, points: Option<f64>| {
+            let limits = OperatingLimits {
+                carbon_path_points: points,
+                ..Default::default()
+            };
+            let r = solve(&db, &spec(&[], limits), &[feed, &oxygen(&db, o2)]).unwrap();
+            let w = r.warnings.iter().find(|w| w.code == "carbon-formation");
+            (w.and_then(|w| w.value), fig(&r, "carbon-margin"))
+        };
+        let (w, margin) = carbon(&lean, 0.45, None);
+        assert!(w.is_none() && margin > 0.0, "{w:?} {margin}");
+        let (w, margin) = carbon(&lean, 0.45, Some(21.0));
+        assert!(w.is_some_and(|a| a > 1.0) && margin < 0.0, "{w:?} {margin}");
+        // Leaner still (S/C 0.2, O2/C 0.35, outlet about 920 degC): the outlet gas itself.
+        let leaner = gas(
+            &db,
+            &[("CH4", 1.0), ("H2O", 0.2), ("H2", 0.02)],
+            873.15,
+            30e5,
+        );
+        let (w, margin) = carbon(&leaner, 0.35, None);
+        assert!(w.is_some_and(|a| a > 1.0) && margin < 0.0, "{w:?} {margin}");
+    }
+
+    #[test]
+    fn air_gives_the_ammonia_syngas_figures() {
+        let db = db();
+        let primary = gas(
+            &db,
+            &[
+                ("CH4", 0.118),
+                ("H2O", 0.99),
+                ("H2", 0.62),
+                ("CO", 0.092),
+                ("CO2", 0.1),
+            ],
+            1063.15,
+            30e5,
+        );
+        let air = gas(
+            &db,
+            &[("N2", 0.3124), ("O2", 0.0838), ("Ar", 0.0038)],
+            853.15,
+            31e5,
+        );
+        let r = solve(
+            &db,
+            &spec(&[], OperatingLimits::default()),
+            &[&primary, &air],
+        )
+        .unwrap();
+        assert_balances(&db, &[&primary, &air], &r);
+        let out = &r.outlets[0];
+        let n = |s: &str| out.flows[db.index_of(s).unwrap()];
+        assert!((fig(&r, "h2-to-n2") - n("H2") / n("N2")).abs() < 1e-12);
+        assert!((fig(&r, "h2-co-to-n2") - (n("H2") + n("CO")) / n("N2")).abs() < 1e-12);
+        assert!((n("N2") - 0.3124).abs() < 1e-15 && (n("Ar") - 0.0038).abs() < 1e-15);
+    }
+
+    #[test]
+    fn impossible_inlets_are_refused() {
+        let db = db();
+        let s = spec(&[], OperatingLimits::default());
+        let p = process(&db);
+        // CH4 0.9 needs 1.8, H2 0.12 needs 0.06: 1.86 mol/s of O2 at most.
+        let e = solve(&db, &s, &[&p, &oxygen(&db, 1.9)])
+            .unwrap_err()
+            .to_string();
+        assert!(
+            e.contains("not enough combustibles") && e.contains("1.860000"),
+            "{e}"
+        );
+        let e = solve(&db, &s, &[&p, &gas(&db, &[("N2", 1.0)], 500.0, 30e5)])
+            .unwrap_err()
+            .to_string();
+        assert!(e.contains("carries no O2"), "{e}");
+        assert!(solve(&db, &s, &[&p]).is_err());
+        let too_much_drop = AutothermalSpec {
+            pressure_drop_pa: 40e5,
+            ..s.clone()
+        };
+        assert!(solve(&db, &too_much_drop, &[&p, &oxygen(&db, 0.5)]).is_err());
+    }
+}

@@ -4,7 +4,8 @@
 
 use super::unit::UnitType;
 use super::{
-    autothermal, knockout, methanator, mixer, prereformer, purifier, reformer, shift, splitter, thermal,
+    autothermal, knockout, methanator, mixer, prereformer, purifier, reformer, shift, splitter,
+    thermal,
 };
 
 /// Every unit type, in the order `unit-types` lists them (the order of a train).
