@@ -2,12 +2,54 @@
 //! Cantera's adiabatic (HP) equilibrium on the same species data (tests/data/
 //! cantera_autothermal.csv, tools/cantera_autothermal.py), the element and energy balances of
 //! its outlet, its outlet limits at and beyond their values, its refusals, and the two shipped
-//! examples.
+//! examples; and a warm solve of the unit that makes no heap allocation.
 
+use std::alloc::{GlobalAlloc, Layout, System};
+use std::cell::Cell;
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output, Stdio};
 
 use serde_json::Value;
+use syntrain::thermo::SpeciesDb;
+use syntrain::units::autothermal::{Autothermal, AutothermalSpec};
+use syntrain::units::unit::UnitScratch;
+use syntrain::units::{Stream, UnitKind, UnitResult};
+
+/// The system allocator, counting the allocations of each thread (so that tests running
+/// beside each other do not disturb the count).
+struct Counting;
+
+thread_local! {
+    static ALLOCATIONS: Cell<usize> = const { Cell::new(0) };
+}
+
+fn count_one() {
+    let _ = ALLOCATIONS.try_with(|n| n.set(n.get() + 1));
+}
+
+unsafe impl GlobalAlloc for Counting {
+    unsafe fn alloc(&self, layout: Layout) -> *mut u8 {
+        count_one();
+        unsafe { System.alloc(layout) }
+    }
+
+    unsafe fn alloc_zeroed(&self, layout: Layout) -> *mut u8 {
+        count_one();
+        unsafe { System.alloc_zeroed(layout) }
+    }
+
+    unsafe fn dealloc(&self, ptr: *mut u8, layout: Layout) {
+        unsafe { System.dealloc(ptr, layout) }
+    }
+
+    unsafe fn realloc(&self, ptr: *mut u8, layout: Layout, new_size: usize) -> *mut u8 {
+        count_one();
+        unsafe { System.realloc(ptr, layout, new_size) }
+    }
+}
+
+#[global_allocator]
+static GLOBAL: Counting = Counting;
 
 const SPECIES: [&str; 8] = ["CH4", "H2O", "CO", "CO2", "H2", "O2", "N2", "Ar"];
 /// Atoms of C, H, O, N, Ar in each of `SPECIES`.
@@ -333,4 +375,50 @@ fn the_shipped_examples_solve_cleanly_with_sensible_figures() {
         assert!(f(&b["element_residual"]) < 1e-12, "{b}");
         assert!(f(&b["energy_residual"]) < 1e-9, "{b}");
     }
+}
+
+#[test]
+fn a_warm_solve_makes_no_heap_allocation_and_repeats_the_cold_answer() {
+    // A property of the code (no outside reference): solved once on another inlet, then twice
+    // on the demo-like inlet; the second counts no allocation and equals a fresh solve.
+    let db = SpeciesDb::embedded().unwrap();
+    let stream = |pairs: &[(&str, f64)], t: f64| {
+        let mut flows = vec![0.0; db.len()];
+        for (s, n) in pairs {
+            flows[db.index_of(s).unwrap()] = *n;
+        }
+        Stream::vapour(flows, t, 30e5)
+    };
+    let process = stream(
+        &[
+            ("CH4", 0.9),
+            ("H2O", 1.35),
+            ("H2", 0.12),
+            ("CO2", 0.08),
+            ("N2", 0.01),
+        ],
+        923.15,
+    );
+    let other = stream(&[("CH4", 1.0), ("H2O", 1.0), ("H2", 0.05)], 900.0);
+    let oxygen = stream(&[("O2", 0.5)], 513.15);
+    let spec = AutothermalSpec {
+        pressure_drop_pa: 0.5e5,
+        approaches: vec![("reforming".into(), 10.0)],
+        ..Default::default()
+    };
+    let unit = Autothermal::new(&db, "atr", &spec).unwrap();
+    let (mut scratch, mut out) = (UnitScratch::default(), UnitResult::default());
+    for inlet in [&other, &process] {
+        unit.solve_into(&db, &[inlet, &oxygen], None, &mut scratch, &mut out)
+            .unwrap();
+    }
+    let before = ALLOCATIONS.with(|n| n.get());
+    unit.solve_into(&db, &[&process, &oxygen], None, &mut scratch, &mut out)
+        .unwrap();
+    let counted = ALLOCATIONS.with(|n| n.get()) - before;
+    assert_eq!(counted, 0, "a warm solve allocated {counted} times");
+    let fresh = unit.solve(&db, &[&process, &oxygen], None).unwrap();
+    assert_eq!(out.outlets[0].flows, fresh.outlets[0].flows);
+    assert_eq!(out.outlets[0].temperature_k, fresh.outlets[0].temperature_k);
+    assert_eq!(out.figures, fresh.figures);
 }
