@@ -9,7 +9,9 @@
 //! them. A unit can also be used on its own: `Reformer::new(db, name, &spec)?.solve(...)`.
 
 mod chemistry;
+pub mod combustion;
 mod common;
+pub mod furnace;
 pub mod knockout;
 pub mod limits;
 pub mod methanator;
@@ -27,6 +29,7 @@ mod test_support;
 pub mod thermal;
 pub mod unit;
 
+pub use furnace::{Furnace, FurnaceSpec};
 pub use knockout::{Knockout, KnockoutSpec};
 pub use limits::OperatingLimits;
 pub use methanator::{Methanator, MethanatorSpec};

@@ -4,7 +4,7 @@
 
 use super::unit::UnitType;
 use super::{
-    knockout, methanator, mixer, prereformer, purifier, reformer, shift, splitter, thermal,
+    furnace, knockout, methanator, mixer, prereformer, purifier, reformer, shift, splitter, thermal,
 };
 
 /// Every unit type, in the order `unit-types` lists them (the order of a train).
@@ -15,6 +15,7 @@ pub static UNIT_TYPES: &[&UnitType] = &[
     &thermal::COOLER,
     &prereformer::TYPE,
     &reformer::TYPE,
+    &furnace::TYPE,
     &shift::TYPE,
     &methanator::TYPE,
     &knockout::TYPE,
