@@ -75,7 +75,9 @@ impl<'de> Deserialize<'de> for SteamCredit {
         let value = serde_norway::Value::deserialize(d)?;
         let text = super::yaml::scalar_text(&value)
             .ok_or_else(|| serde::de::Error::custom("give a steam credit such as 2.9 GJ/t"))?;
-        parse_steam_credit(&text).map(SteamCredit).map_err(serde::de::Error::custom)
+        parse_steam_credit(&text)
+            .map(SteamCredit)
+            .map_err(serde::de::Error::custom)
     }
 }
 
@@ -165,7 +167,12 @@ fn dot(a: &[f64], b: &[f64]) -> f64 {
 }
 
 /// Set the energy figures of the summary of `result` (see the module docs). No allocation.
-pub(crate) fn summary(t: &EnergyTable, _db: &SpeciesDb, params: &[f64], result: &mut FlowsheetResult) {
+pub(crate) fn summary(
+    t: &EnergyTable,
+    _db: &SpeciesDb,
+    params: &[f64],
+    result: &mut FlowsheetResult,
+) {
     let (mut feed, mut fuel, mut steam) = (0.0, 0.0, 0.0);
     let pure_steam = |s: &crate::units::Stream| {
         t.water
@@ -304,7 +311,8 @@ pub fn heat_balance(db: &SpeciesDb, result: &FlowsheetResult) -> Result<HeatBala
                 b.heats_out.push(line("product LHV", l));
             }
             if flue.contains(&st.name.as_str()) {
-                b.heats_out.push(line("flue gas loss (above 25 degC)", sensible));
+                b.heats_out
+                    .push(line("flue gas loss (above 25 degC)", sensible));
             } else {
                 product_sensible += sensible;
             }
@@ -353,8 +361,12 @@ mod tests {
         assert_eq!(parse_steam_credit("2.9 GJ/t").unwrap(), 2.9e6);
         assert_eq!(parse_steam_credit("2.9 MJ/kg").unwrap(), 2.9e6);
         assert_eq!(parse_steam_credit("2900 kJ/kg").unwrap(), 2.9e6);
-        assert!(parse_steam_credit("2.9").unwrap_err().contains("give the unit"));
-        assert!(parse_steam_credit("2.9 GJ/h").unwrap_err().contains("unknown unit"));
+        assert!(parse_steam_credit("2.9")
+            .unwrap_err()
+            .contains("give the unit"));
+        assert!(parse_steam_credit("2.9 GJ/h")
+            .unwrap_err()
+            .contains("unknown unit"));
         assert!(parse_steam_credit("-1 GJ/t").is_err());
     }
 }

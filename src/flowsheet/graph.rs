@@ -232,7 +232,8 @@ fn heat_links(
             let Some(&h) = unit_names.get(name.as_str()) else {
                 return Err(graph_error(
                     format!(
-                        "unit '{}' heats '{name}', which is not a unit of this flowsheet (check                          the spelling)",
+                        "unit '{}' heats '{name}', which is not a unit of this flowsheet (check \
+                         the spelling)",
                         unit.name
                     ),
                     at(u, "heats", k),
@@ -247,7 +248,8 @@ fn heat_links(
             if let Some(other) = heater[h].replace(u) {
                 return Err(graph_error(
                     format!(
-                        "unit '{name}' is heated twice: by '{}' and by '{}'; one unit supplies                          its duty",
+                        "unit '{name}' is heated twice: by '{}' and by '{}'; one unit supplies \
+                         its duty",
                         units[other].name, unit.name
                     ),
                     at(u, "heats", k),
@@ -391,7 +393,11 @@ mod tests {
         furnace.heats = &wrong;
         let units = [furnace, ports("reformer", &r_in, &r_out)];
         let e = build(&["feed", "fuel"], &units).unwrap_err();
-        assert!(e.error.to_string().contains("heats 'reformr'"), "{}", e.error);
+        assert!(
+            e.error.to_string().contains("heats 'reformr'"),
+            "{}",
+            e.error
+        );
         assert_eq!(e.at, at(0, "heats", 0));
     }
 

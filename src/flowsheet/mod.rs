@@ -190,7 +190,8 @@ impl Flowsheet {
             None => *e.error,
         })?;
         let title = model.title.unwrap_or_else(|| origin.to_string());
-        let energy = energy::EnergyTable::new(db, &feeds, &units, &graph, &model.energy, &mut params);
+        let energy =
+            energy::EnergyTable::new(db, &feeds, &units, &graph, &model.energy, &mut params);
         let defaults = params.defaults();
         let layout = layout(&feeds, &units, &graph);
         let mut flowsheet = Flowsheet {

@@ -215,7 +215,11 @@ pub(crate) fn solve_in<'w>(
         let unit = &fs.units[u];
         let io = &fs.layout[k];
         // Heat the unit delivers to the units it heats (solved before it).
-        scratch[k].heat_demand_w = io.heated.iter().map(|&j| result.units[j].result.duty_w).sum();
+        scratch[k].heat_demand_w = io
+            .heated
+            .iter()
+            .map(|&j| result.units[j].result.duty_w)
+            .sum();
         let solved = &mut result.units[k];
         // Warm start: the extents of this workspace's previous solution of the unit.
         guess.clear();

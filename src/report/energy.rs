@@ -30,7 +30,9 @@ pub fn j_per_nm3_to_gj_per_1000nm3(x: f64) -> f64 {
 /// The energy figures of the summary as (label, value, unit) rows.
 pub fn summary_rows(s: &Summary) -> Vec<(String, String, &'static str)> {
     let specific = |x: Option<f64>| {
-        x.map_or("-".to_string(), |v| fixed(j_per_nm3_to_gj_per_1000nm3(v), 3))
+        x.map_or("-".to_string(), |v| {
+            fixed(j_per_nm3_to_gj_per_1000nm3(v), 3)
+        })
     };
     let credit = fixed(j_per_kg_to_gj_per_t(s.steam_credit_j_per_kg), 2);
     vec![

@@ -116,9 +116,8 @@ pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
     }
 
     let summary = summary_value(&result.summary);
-    let heat_balance = super::energy::heat_balance_value(
-        &crate::flowsheet::energy::heat_balance(db, result)?,
-    );
+    let heat_balance =
+        super::energy::heat_balance_value(&crate::flowsheet::energy::heat_balance(db, result)?);
 
     let mut top = Map::new();
     top.insert("title".into(), json!(result.title));

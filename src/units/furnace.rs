@@ -324,7 +324,9 @@ impl Furnace {
             if k == a || k == m {
                 continue;
             }
-            d0 += c.burn_into(db, &s.flows, 1.0, p0).context(|| format!("furnace {name}"))?;
+            d0 += c
+                .burn_into(db, &s.flows, 1.0, p0)
+                .context(|| format!("furnace {name}"))?;
             h0 += s.enthalpy_w(db)?;
             l0 += c.lhv_w(&s.flows);
             other_flow += s.total();
@@ -338,10 +340,14 @@ impl Furnace {
                 "the make-up fuel and the air need a composition with a positive flow",
             ));
         }
-        let dm = c.burn_into(db, &make_up.flows, 1.0 / n_m, pm).context(|| format!("furnace {name}"))?;
+        let dm = c
+            .burn_into(db, &make_up.flows, 1.0 / n_m, pm)
+            .context(|| format!("furnace {name}"))?;
         let hm = make_up.enthalpy_w(db)? / n_m;
         let lm = c.lhv_w(&make_up.flows) / n_m;
-        let o2_per_air = -c.burn_into(db, &air.flows, 1.0 / n_a, pa).context(|| format!("furnace {name}"))?;
+        let o2_per_air = -c
+            .burn_into(db, &air.flows, 1.0 / n_a, pa)
+            .context(|| format!("furnace {name}"))?;
         let ha = air.enthalpy_w(db)? / n_a;
         let la = c.lhv_w(&air.flows) / n_a;
         if !(o2_per_air > 0.0) {
@@ -447,7 +453,12 @@ impl Furnace {
             ),
             figure("air-flow", "combustion air", y, FigureKind::MolarFlow),
             figure("excess-air", "excess air (on O2)", e, FigureKind::Fraction),
-            figure("flue-o2-wet", "flue gas O2, wet", wet(c.o2), FigureKind::Fraction),
+            figure(
+                "flue-o2-wet",
+                "flue gas O2, wet",
+                wet(c.o2),
+                FigureKind::Fraction,
+            ),
             figure("flue-o2-dry", "flue gas O2, dry", dry, FigureKind::Fraction),
             figure(
                 "flue-co2-wet",
@@ -461,9 +472,19 @@ impl Furnace {
                 wet(c.h2o),
                 FigureKind::Fraction,
             ),
-            figure("flue-n2-wet", "flue gas N2, wet", wet(c.n2), FigureKind::Fraction),
+            figure(
+                "flue-n2-wet",
+                "flue gas N2, wet",
+                wet(c.n2),
+                FigureKind::Fraction,
+            ),
             figure("fired-duty", "fired duty (LHV)", fired, FigureKind::Power),
-            figure("heat-to-reformer", "heat to the reformer", q, FigureKind::Power),
+            figure(
+                "heat-to-reformer",
+                "heat to the reformer",
+                q,
+                FigureKind::Power,
+            ),
             figure(
                 "radiant-efficiency",
                 "radiant efficiency (on LHV)",

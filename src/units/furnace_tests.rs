@@ -46,7 +46,11 @@ fn methane_with_ten_percent_excess_air_gives_the_textbook_flue_gas() {
         ("flue-o2-dry", 0.2 / (total - 2.0)),
     ];
     for (key, y) in expect {
-        assert!((fig(&r, key) - y).abs() < 1e-12, "{key}: {} vs {y}", fig(&r, key));
+        assert!(
+            (fig(&r, key) - y).abs() < 1e-12,
+            "{key}: {} vs {y}",
+            fig(&r, key)
+        );
     }
     // Air per mol CH4: 2.2 / 0.21.
     let x = fig(&r, "make-up-fuel-flow");
@@ -90,7 +94,12 @@ fn tail_gas_with_make_up_closes_its_balances() {
     );
     let air = gas(
         &db,
-        &[("N2", 0.7720), ("O2", 0.2071), ("Ar", 0.0092), ("H2O", 0.0117)],
+        &[
+            ("N2", 0.7720),
+            ("O2", 0.2071),
+            ("Ar", 0.0092),
+            ("H2O", 0.0117),
+        ],
         523.15,
         1.05e5,
     );
@@ -117,8 +126,11 @@ fn tail_gas_with_make_up_closes_its_balances() {
     // Oxygen left is the excess on the stoichiometric oxygen of both fuels (by atoms).
     let flue = &r.outlets[0].flows;
     let mut products = vec![0.0; db.len()];
-    let stoich = c.burn_into(&db, &scaled[0].flows, 1.0, &mut products).unwrap()
-        + c.burn_into(&db, &scaled[1].flows, 1.0, &mut products).unwrap();
+    let stoich = c
+        .burn_into(&db, &scaled[0].flows, 1.0, &mut products)
+        .unwrap()
+        + c.burn_into(&db, &scaled[1].flows, 1.0, &mut products)
+            .unwrap();
     let o2 = flue[db.index_of("O2").unwrap()];
     assert!((o2 - 0.10 * stoich).abs() < 1e-12 * stoich);
     assert!(r.outlets[0].temperature_k == 1283.15);
@@ -128,7 +140,12 @@ fn tail_gas_with_make_up_closes_its_balances() {
 #[test]
 fn a_demand_the_fuels_cannot_meet_is_an_error_saying_by_how_much() {
     let db = db();
-    let tail = gas(&db, &[("H2", 60.0), ("CO2", 100.0), ("CH4", 30.0)], 303.15, 1.3e5);
+    let tail = gas(
+        &db,
+        &[("H2", 60.0), ("CO2", 100.0), ("CH4", 30.0)],
+        303.15,
+        1.3e5,
+    );
     let ng = gas(&db, &[("CH4", 1.0)], 288.15, 4.0e5);
     let air = gas(&db, &[("N2", 0.79), ("O2", 0.21)], 298.15, 1.05e5);
     let mut s = spec(0.10, 0.0);
@@ -147,7 +164,10 @@ fn a_demand_the_fuels_cannot_meet_is_an_error_saying_by_how_much() {
         .solve_for(&db, &[&tail, &n2, &air], 50.0e6)
         .unwrap_err()
         .to_string();
-    assert!(e.contains("brings no net heat") && e.contains("short by"), "{e}");
+    assert!(
+        e.contains("brings no net heat") && e.contains("short by"),
+        "{e}"
+    );
     // Air without oxygen.
     let bad = gas(&db, &[("N2", 1.0)], 298.15, 1.05e5);
     assert!(f.solve_for(&db, &[&tail, &ng, &bad], 50.0e6).is_err());

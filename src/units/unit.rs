@@ -131,11 +131,13 @@ impl ValueKind {
                     reason: "give a number not below zero, without a unit (e.g. 2.5)".into(),
                 }),
             },
-            ValueKind::Choice(_) | ValueKind::PerOutlet | ValueKind::Names => Err(Error::InvalidValue {
-                field: field.to_string(),
-                value: text.to_string(),
-                reason: "this key is not a number".into(),
-            }),
+            ValueKind::Choice(_) | ValueKind::PerOutlet | ValueKind::Names => {
+                Err(Error::InvalidValue {
+                    field: field.to_string(),
+                    value: text.to_string(),
+                    reason: "this key is not a number".into(),
+                })
+            }
         }
     }
 
