@@ -355,6 +355,120 @@ pub fn heat_balance(db: &SpeciesDb, result: &FlowsheetResult) -> Result<HeatBala
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::flowsheet::result::{SolvedStream, SolvedUnit, Summary};
+    use crate::units::{Figure, FigureKind, Stream, UnitResult};
+
+    fn stream(name: &str, feed: bool, to: Option<&str>, s: Stream) -> SolvedStream {
+        SolvedStream {
+            name: name.into(),
+            stream: s,
+            source: if feed {
+                StreamSource::Feed
+            } else {
+                StreamSource::Unit("u".into())
+            },
+            destination: to.map(str::to_string),
+        }
+    }
+
+    #[test]
+    fn steam_export_counts_products_raised_steam_and_imports() {
+        let db = SpeciesDb::embedded().unwrap();
+        let w = db.water().unwrap();
+        let m_w = db.by_index(w).molar_mass_kg_per_mol;
+        let pure = |n: f64, liquid: bool| {
+            let mut f = vec![0.0; db.len()];
+            f[w] = n;
+            if liquid {
+                Stream::liquid(f, 380.0, 40e5)
+            } else {
+                Stream::vapour(f, 700.0, 40e5)
+            }
+        };
+        let mut ch4 = vec![0.0; db.len()];
+        ch4[db.index_of("CH4").unwrap()] = 2.0;
+        let streams = vec![
+            // Process steam taken in (2 mol/s), boiler-feed water (liquid, not subtracted),
+            // natural gas to the process, make-up fuel to a fired unit.
+            stream("steam-in", true, Some("mix"), pure(2.0, false)),
+            stream("bfw", true, Some("boiler"), pure(5.0, true)),
+            stream(
+                "ng",
+                true,
+                Some("mix"),
+                Stream::vapour(ch4.clone(), 600.0, 30e5),
+            ),
+            stream(
+                "fuel",
+                true,
+                Some("furnace"),
+                Stream::vapour(ch4, 300.0, 3e5),
+            ),
+            // Steam leaving the plant (5 mol/s).
+            stream("steam-out", false, None, pure(5.0, false)),
+        ];
+        let unit = |name: &str, outlets: Vec<Stream>, raised: f64| SolvedUnit {
+            name: name.into(),
+            type_name: "x".into(),
+            inlets: Vec::new(),
+            outlets: Vec::new(),
+            result: UnitResult {
+                outlets,
+                figures: vec![Figure {
+                    key: "steam-raised",
+                    label: "steam raised",
+                    value: raised,
+                    kind: FigureKind::MassFlow,
+                }],
+                ..UnitResult::default()
+            },
+        };
+        let units = vec![
+            // A boiler with its steam side in the flowsheet: counted through its product.
+            unit("boiler", vec![pure(5.0, false)], 5.0 * m_w),
+            // One whose steam side lies outside: its 0.5 kg/s count.
+            unit(
+                "waste-heat",
+                vec![Stream::vapour(vec![1.0; db.len()], 900.0, 1e5)],
+                0.5,
+            ),
+        ];
+        let mut result = FlowsheetResult {
+            title: String::new(),
+            streams,
+            units,
+            summary: Summary {
+                hydrogen_made_mol_s: Some(10.0),
+                ..Summary::default()
+            },
+            warnings: Vec::new(),
+            element_balance_residual: 0.0,
+            energy_balance_residual: 0.0,
+            targets: Vec::new(),
+        };
+        let table = EnergyTable {
+            lhv: lhv_table(&db),
+            water: Some((w, m_w)),
+            fuel_feed: vec![false, false, false, true],
+            steam_credit: Param(0),
+        };
+        summary(&table, &db, &[2.9e6], &mut result);
+        let s = &result.summary;
+        let export = (5.0 - 2.0) * m_w + 0.5;
+        assert!(
+            (s.steam_export_kg_s - export).abs() < 1e-15,
+            "{}",
+            s.steam_export_kg_s
+        );
+        // 2 mol/s CH4 each; LHV 802.301 kJ/mol (NIST-JANAF, see units::combustion).
+        assert!((s.feed_lhv_w / 2.0 / 802_301.0 - 1.0).abs() < 1e-4);
+        assert_eq!(s.feed_lhv_w, s.fuel_lhv_w);
+        // Per Nm3 of hydrogen (10 mol/s x 0.022414 m3/mol, DIN 1343).
+        let nm3 = 10.0 * normal_molar_volume_m3_per_mol();
+        let net = (2.0 * s.feed_lhv_w - export * 2.9e6) / nm3;
+        assert!((s.net_specific_energy_j_per_nm3.unwrap() - net).abs() < 1e-9 * net);
+        assert_eq!(s.steam_credit_j_per_kg, 2.9e6);
+    }
 
     #[test]
     fn steam_credits_read_in_their_units() {
