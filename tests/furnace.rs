@@ -3,10 +3,45 @@
 //! plant's energy figures worked out by hand from the stream flows and heating values, the heat
 //! balance, and the errors of a fuel that cannot meet the duty and of a missing `heats`.
 
+use std::alloc::{GlobalAlloc, Layout, System};
+use std::cell::Cell;
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output, Stdio};
 
 use serde_json::Value;
+use syntrain::flowsheet::Flowsheet;
+use syntrain::thermo::SpeciesDb;
+
+/// Counts the heap allocations of the current thread (the tests of this binary run in parallel
+/// threads, so the count is kept per thread).
+struct Counting;
+
+thread_local! {
+    static ALLOCATIONS: Cell<usize> = const { Cell::new(0) };
+}
+
+fn count_one() {
+    let _ = ALLOCATIONS.try_with(|c| c.set(c.get() + 1));
+}
+
+unsafe impl GlobalAlloc for Counting {
+    unsafe fn alloc(&self, layout: Layout) -> *mut u8 {
+        count_one();
+        unsafe { System.alloc(layout) }
+    }
+
+    unsafe fn dealloc(&self, ptr: *mut u8, layout: Layout) {
+        unsafe { System.dealloc(ptr, layout) }
+    }
+
+    unsafe fn realloc(&self, ptr: *mut u8, layout: Layout, new_size: usize) -> *mut u8 {
+        count_one();
+        unsafe { System.realloc(ptr, layout, new_size) }
+    }
+}
+
+#[global_allocator]
+static GLOBAL: Counting = Counting;
 
 /// DIN 1343: molar volume of an ideal gas at 273.15 K and 101 325 Pa, m3/kmol.
 const NORMAL_MOLAR_VOLUME_M3_PER_KMOL: f64 = 22.414;
@@ -274,6 +309,32 @@ fn the_steam_credit_is_an_input_and_the_energy_figures_are_result_paths() {
     assert_eq!(a[n - 1], b[n - 1]);
     assert!(a[n - 3] > b[n - 3], "{text}");
     std::fs::remove_dir_all(dir).ok();
+}
+
+#[test]
+fn a_warm_solve_of_the_fired_train_allocates_nothing() {
+    let db = SpeciesDb::embedded().unwrap();
+    let fs = Flowsheet::from_yaml_str("fired.yaml", &fired_train(), &db).unwrap();
+    let params = fs.parameters();
+    let mut ws = fs.workspace(&db);
+    // The counter counts: a cold solve sizes its buffers.
+    let cold = ALLOCATIONS.with(Cell::get);
+    fs.solve_in(&db, &params, &mut ws).unwrap();
+    assert!(ALLOCATIONS.with(Cell::get) > cold);
+    for _ in 0..3 {
+        fs.solve_in(&db, &params, &mut ws).unwrap();
+    }
+    let before = ALLOCATIONS.with(Cell::get);
+    let r = fs.solve_in(&db, &params, &mut ws).unwrap();
+    let fuel = r.summary.fuel_lhv_w;
+    let after = ALLOCATIONS.with(Cell::get);
+    assert!(fuel > 0.0);
+    assert_eq!(
+        after - before,
+        0,
+        "a warm solve made {} allocations",
+        after - before
+    );
 }
 
 /// A reformer with a tail gas fed to its furnace (invented demo numbers).

@@ -371,17 +371,17 @@ impl Furnace {
         let f = spec.heat_loss_fraction;
         let g0 = h0 + y0 * ha - hp0 - y0 * hpa - f * (l0 + y0 * la);
         let g1 = hm + y1 * ha - hpm - y1 * hpa - f * (lm + y1 * la);
-        let bw = degc(t_bw);
         if !(g1 > 0.0) {
             return Err(spec_error(
                 name,
                 "make-up-fuel",
                 format!(
-                    "the make-up fuel '{}' brings no net heat at a bridgewall temperature of {bw} \
+                    "the make-up fuel '{}' brings no net heat at a bridgewall temperature of {} \
                      ({:.3} kJ per mol burnt); the {:.1} kW the heated units take cannot be met \
                      (short by {:.1} kW after the other fuels); use a fuel with a heating value \
                      or lower the bridgewall temperature",
                     spec.make_up_inlet.1,
+                    degc(t_bw),
                     g1 / 1e3,
                     q / 1e3,
                     (q - g0) / 1e3
@@ -395,11 +395,12 @@ impl Furnace {
                 "make-up-fuel",
                 format!(
                     "the fuels other than the make-up already give {:.1} kW more than the \
-                     {:.1} kW the heated units take (at a bridgewall temperature of {bw}, \
+                     {:.1} kW the heated units take (at a bridgewall temperature of {}, \
                      {:.1} % excess air): the make-up fuel would be negative; send less of \
                      that fuel to the furnace, or raise the duty or the bridgewall temperature",
                     (g0 - q) / 1e3,
                     q / 1e3,
+                    degc(t_bw),
                     100.0 * e
                 ),
             ));
