@@ -99,7 +99,7 @@ impl ValueKind {
             }
             ValueKind::PerSpecies => "species: fraction".into(),
             ValueKind::PerOutlet => "outlet stream: value".into(),
-            ValueKind::Names => "a name (stream or unit), or a list of names".into(),
+            ValueKind::Names => "stream or unit name(s) of this flowsheet".into(),
         }
     }
 
