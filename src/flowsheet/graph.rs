@@ -33,6 +33,8 @@ pub struct UnitPorts<'a> {
     pub inlets: &'a [String],
     /// Outlet stream names.
     pub outlets: &'a [String],
+    /// Names of the units it heats (`heats:`; a furnace firing a reformer).
+    pub heats: &'a [String],
 }
 
 /// The checked graph and the solve order.
@@ -44,6 +46,9 @@ pub struct FlowGraph {
     pub order: Vec<usize>,
     /// Product stream names, in the order they are made (feeds first, then solve order).
     pub products: Vec<String>,
+    /// For each unit (file order), the units it heats (file order indices); each heated unit
+    /// has an edge to its heater, so that it is solved first.
+    pub heats: Vec<Vec<usize>>,
 }
 
 /// Where in the file a graph error points: a unit's key (`name`, `from`, `to`) and the
@@ -190,6 +195,14 @@ pub fn build(feeds: &[&str], units: &[UnitPorts<'_>]) -> Result<FlowGraph, Graph
         }
     }
 
+    let heats = heat_links(&unit_names, units)?;
+    for (u, heated) in heats.iter().enumerate() {
+        for &h in heated {
+            let label = format!("heat from {} to {}", units[u].name, units[h].name);
+            graph.add_edge(unit_nodes[h], unit_nodes[u], label);
+        }
+    }
+
     let order = solve_order(&graph, &unit_nodes, units)?;
     // Products listed feeds first, then in solve order.
     let products: Vec<String> = feeds
@@ -202,7 +215,51 @@ pub fn build(feeds: &[&str], units: &[UnitPorts<'_>]) -> Result<FlowGraph, Graph
         graph,
         order,
         products,
+        heats,
     })
+}
+
+/// The `heats` links by unit index: each name must be another unit, heated by one unit only.
+fn heat_links(
+    unit_names: &HashMap<&str, usize>,
+    units: &[UnitPorts<'_>],
+) -> Result<Vec<Vec<usize>>, GraphError> {
+    let mut heater: Vec<Option<usize>> = vec![None; units.len()];
+    let mut out = Vec::with_capacity(units.len());
+    for (u, unit) in units.iter().enumerate() {
+        let mut list = Vec::with_capacity(unit.heats.len());
+        for (k, name) in unit.heats.iter().enumerate() {
+            let Some(&h) = unit_names.get(name.as_str()) else {
+                return Err(graph_error(
+                    format!(
+                        "unit '{}' heats '{name}', which is not a unit of this flowsheet (check \
+                         the spelling)",
+                        unit.name
+                    ),
+                    at(u, "heats", k),
+                ));
+            };
+            if h == u {
+                return Err(graph_error(
+                    format!("unit '{}' cannot heat itself", unit.name),
+                    at(u, "heats", k),
+                ));
+            }
+            if let Some(other) = heater[h].replace(u) {
+                return Err(graph_error(
+                    format!(
+                        "unit '{name}' is heated twice: by '{}' and by '{}'; one unit supplies \
+                         its duty",
+                        units[other].name, unit.name
+                    ),
+                    at(u, "heats", k),
+                ));
+            }
+            list.push(h);
+        }
+        out.push(list);
+    }
+    Ok(out)
 }
 
 /// Kahn's algorithm over the units, taking the first unit in file order among those ready.
@@ -290,6 +347,7 @@ mod tests {
             name,
             inlets,
             outlets,
+            heats: &[],
         }
     }
 
@@ -317,6 +375,30 @@ mod tests {
         let units = [ports("a", &a_in, &a_out), ports("b", &b_in, &b_out)];
         let e = build(&["feed"], &units).unwrap_err().error.to_string();
         assert!(e.contains("cycle through streams 'mid', 'back'"), "{e}");
+    }
+
+    #[test]
+    fn a_heated_unit_is_solved_before_its_heater() {
+        let (f_in, f_out) = (s(&["fuel"]), s(&["flue"]));
+        let (r_in, r_out) = (s(&["feed"]), s(&["out"]));
+        let heats = s(&["reformer"]);
+        let mut furnace = ports("furnace", &f_in, &f_out);
+        furnace.heats = &heats;
+        let units = [furnace, ports("reformer", &r_in, &r_out)];
+        let g = build(&["feed", "fuel"], &units).unwrap();
+        assert_eq!(g.order, vec![1, 0]);
+        assert_eq!(g.heats, vec![vec![1], vec![]]);
+        let wrong = s(&["reformr"]);
+        let mut furnace = ports("furnace", &f_in, &f_out);
+        furnace.heats = &wrong;
+        let units = [furnace, ports("reformer", &r_in, &r_out)];
+        let e = build(&["feed", "fuel"], &units).unwrap_err();
+        assert!(
+            e.error.to_string().contains("heats 'reformr'"),
+            "{}",
+            e.error
+        );
+        assert_eq!(e.at, at(0, "heats", 0));
     }
 
     #[test]

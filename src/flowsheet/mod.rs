@@ -18,6 +18,7 @@
 //! pressure are flammable and toxic: follow local codes and licensed engineering practice.
 
 mod checks;
+pub mod energy;
 pub mod feeds;
 pub mod graph;
 pub mod locate;
@@ -71,6 +72,8 @@ pub struct Flowsheet {
     targets: Vec<Target>,
     /// The file's `steam-feed`.
     steam_feed: Option<String>,
+    /// What the plant's energy figures need (`energy:`, heating values, which feeds are fuel).
+    energy: energy::EnergyTable,
 }
 
 /// Where a unit's inlets and outlets sit among the streams of a result.
@@ -78,6 +81,8 @@ pub struct Flowsheet {
 struct UnitIo {
     inlets: Vec<usize>,
     first_outlet: usize,
+    /// The units it heats, as positions in the solve order (solved before it).
+    heated: Vec<usize>,
 }
 
 impl Flowsheet {
@@ -161,16 +166,19 @@ impl Flowsheet {
         let feed_names: Vec<&str> = feeds.iter().map(|f| f.name.as_str()).collect();
         let ports: Vec<graph::UnitPorts<'_>> = units
             .iter()
-            .map(|u| graph::UnitPorts {
+            .zip(&model.units)
+            .map(|(u, m)| graph::UnitPorts {
                 name: &u.name,
                 inlets: &u.inlets,
                 outlets: &u.outlets,
+                heats: &m.heats,
             })
             .collect();
         let graph = graph::build(&feed_names, &ports).map_err(|e| match e.at {
             Some(at) => {
                 let path = [Key("units"), Index(at.unit), Key(at.key), Index(at.index)];
-                let location = locate::locate(text, &path);
+                let location =
+                    locate::locate(text, &path).or_else(|| locate::locate(text, &path[..3]));
                 let name = &units[at.unit].name;
                 locate::annotate(
                     *e.error,
@@ -182,6 +190,8 @@ impl Flowsheet {
             None => *e.error,
         })?;
         let title = model.title.unwrap_or_else(|| origin.to_string());
+        let energy =
+            energy::EnergyTable::new(db, &feeds, &units, &graph, &model.energy, &mut params);
         let defaults = params.defaults();
         let layout = layout(&feeds, &units, &graph);
         let mut flowsheet = Flowsheet {
@@ -198,6 +208,7 @@ impl Flowsheet {
             options: model.solver,
             targets: Vec::new(),
             steam_feed: model.steam_feed.clone(),
+            energy,
         };
         targets::check_steam_feed(&flowsheet, origin, text, model.steam_feed.as_deref())?;
         flowsheet.targets = targets::from_file(&flowsheet, origin, text, &model.targets)?;
@@ -321,9 +332,14 @@ fn layout(feeds: &[Feed], units: &[FlowsheetUnit], graph: &FlowGraph) -> Vec<Uni
             .iter()
             .map(|i| names.iter().position(|n| n == i).unwrap_or(usize::MAX))
             .collect();
+        let heated = graph.heats[u]
+            .iter()
+            .filter_map(|h| graph.order.iter().position(|o| o == h))
+            .collect();
         out.push(UnitIo {
             inlets,
             first_outlet: names.len(),
+            heated,
         });
         names.extend(unit.outlets.iter().map(String::as_str));
     }

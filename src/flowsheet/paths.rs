@@ -2,12 +2,15 @@
 //!
 //! Input paths (values in SI when set through the library): `feeds.NAME.temperature`,
 //! `feeds.NAME.pressure`, `feeds.NAME.total`, `feeds.NAME.flows.SPECIES`, `units.NAME.KEY` and
-//! `units.NAME.KEY.SUBKEY` (`units.hts.approach.shift`, `units.reformer.outlet-temperature`).
+//! `units.NAME.KEY.SUBKEY` (`units.hts.approach.shift`, `units.reformer.outlet-temperature`),
+//! and `energy.steam-credit` (J/kg).
 //!
 //! Result paths: `streams.NAME.temperature_K`, `streams.NAME.pressure_bar`,
 //! `streams.NAME.flow_kmol_h.SPECIES`, `streams.NAME.dry_mol_pct.SPECIES`, `units.NAME.duty_kW`,
 //! `units.NAME.outlet_temperature_K`, `units.NAME.figures.KEY` (in report units),
-//! `summary.KEY`.
+//! `summary.KEY` (the energy figures among them: `summary.feed_LHV_MW`, `summary.fuel_LHV_MW`,
+//! `summary.steam_export_t_h`, `summary.steam_credit_GJ_per_t`,
+//! `summary.net_specific_energy_GJ_per_1000Nm3` and the feed and fuel parts of it).
 //!
 //! A path that does not exist is an error listing the nearest valid ones, nearest by the
 //! Levenshtein edit distance (Levenshtein 1966) on the whole path.
@@ -63,7 +66,41 @@ pub enum ResultSlot {
     HeatingDuty,
     /// `summary.cooling_duty_kW`
     CoolingDuty,
+    /// `summary.feed_LHV_MW`
+    FeedLhv,
+    /// `summary.fuel_LHV_MW`
+    FuelLhv,
+    /// `summary.steam_export_t_h`
+    SteamExport,
+    /// `summary.steam_credit_GJ_per_t`
+    SteamCredit,
+    /// `summary.net_specific_energy_GJ_per_1000Nm3`
+    NetSpecificEnergy,
+    /// `summary.feed_specific_energy_GJ_per_1000Nm3`
+    FeedSpecificEnergy,
+    /// `summary.fuel_specific_energy_GJ_per_1000Nm3`
+    FuelSpecificEnergy,
 }
+
+/// The energy summary paths with their slots, in report order.
+const ENERGY_PATHS: [(&str, ResultSlot); 7] = [
+    ("summary.feed_LHV_MW", ResultSlot::FeedLhv),
+    ("summary.fuel_LHV_MW", ResultSlot::FuelLhv),
+    ("summary.steam_export_t_h", ResultSlot::SteamExport),
+    ("summary.steam_credit_GJ_per_t", ResultSlot::SteamCredit),
+    (
+        "summary.net_specific_energy_GJ_per_1000Nm3",
+        ResultSlot::NetSpecificEnergy,
+    ),
+    (
+        "summary.feed_specific_energy_GJ_per_1000Nm3",
+        ResultSlot::FeedSpecificEnergy,
+    ),
+    (
+        "summary.fuel_specific_energy_GJ_per_1000Nm3",
+        ResultSlot::FuelSpecificEnergy,
+    ),
+];
 
 /// A result path resolved once against a result of its flowsheet; [`ResultPath::get`] reads it
 /// from any other result of the same flowsheet.
@@ -122,6 +159,15 @@ impl ResultPath {
             ResultSlot::CarbonMargin { index } => pct(&s.carbon_margin, index, 1.0),
             ResultSlot::HeatingDuty => Some(w_to_kw(s.heating_duty_w)),
             ResultSlot::CoolingDuty => Some(w_to_kw(s.cooling_duty_w)),
+            ResultSlot::FeedLhv => Some(s.feed_lhv_w / 1e6),
+            ResultSlot::FuelLhv => Some(s.fuel_lhv_w / 1e6),
+            // kg/s to t/h: x 3600 / 1000.
+            ResultSlot::SteamExport => Some(s.steam_export_kg_s * 3.6),
+            ResultSlot::SteamCredit => Some(s.steam_credit_j_per_kg / 1e6),
+            // J/Nm3 to GJ per 1000 Nm3: x 1e3 / 1e9.
+            ResultSlot::NetSpecificEnergy => s.net_specific_energy_j_per_nm3.map(|x| x * 1e-6),
+            ResultSlot::FeedSpecificEnergy => s.feed_specific_energy_j_per_nm3.map(|x| x * 1e-6),
+            ResultSlot::FuelSpecificEnergy => s.fuel_specific_energy_j_per_nm3.map(|x| x * 1e-6),
         }
     }
 }
@@ -282,6 +328,9 @@ impl FlowsheetResult {
         }
         push("summary.heating_duty_kW".into(), ResultSlot::HeatingDuty);
         push("summary.cooling_duty_kW".into(), ResultSlot::CoolingDuty);
+        for (path, slot) in ENERGY_PATHS {
+            push(path.into(), slot);
+        }
         out
     }
 

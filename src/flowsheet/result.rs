@@ -66,6 +66,21 @@ pub struct Summary {
     pub heating_duty_w: f64,
     /// Sum of negative duties, W (a negative number).
     pub cooling_duty_w: f64,
+    /// LHV of the feeds that go to process units, W ([`super::energy`]).
+    pub feed_lhv_w: f64,
+    /// LHV of the feeds burnt in fired units (make-up fuel), W.
+    pub fuel_lhv_w: f64,
+    /// Steam leaving the plant less steam taken in, kg/s.
+    pub steam_export_kg_s: f64,
+    /// The steam credit used, J/kg (`energy.steam-credit`).
+    pub steam_credit_j_per_kg: f64,
+    /// (feed LHV + fuel LHV - steam export x steam credit) per Nm3 of hydrogen made, J/Nm3;
+    /// None without hydrogen made.
+    pub net_specific_energy_j_per_nm3: Option<f64>,
+    /// Feed LHV per Nm3 of hydrogen made, J/Nm3.
+    pub feed_specific_energy_j_per_nm3: Option<f64>,
+    /// Fuel LHV per Nm3 of hydrogen made, J/Nm3.
+    pub fuel_specific_energy_j_per_nm3: Option<f64>,
 }
 
 /// The whole solved flowsheet.

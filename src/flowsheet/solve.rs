@@ -214,6 +214,12 @@ pub(crate) fn solve_in<'w>(
     for (k, &u) in fs.graph.order.iter().enumerate() {
         let unit = &fs.units[u];
         let io = &fs.layout[k];
+        // Heat the unit delivers to the units it heats (solved before it).
+        scratch[k].heat_demand_w = io
+            .heated
+            .iter()
+            .map(|&j| result.units[j].result.duty_w)
+            .sum();
         let solved = &mut result.units[k];
         // Warm start: the extents of this workspace's previous solution of the unit.
         guess.clear();
@@ -268,6 +274,7 @@ pub(crate) fn solve_in<'w>(
     }
     summary(&mut result.summary, &result.units);
     hydrogen_made(&mut result.summary, &fs.elements, &result.streams);
+    super::energy::summary(&fs.energy, db, params, result);
     result.element_balance_residual = element_balance(&fs.elements, &result.streams)?;
     result.energy_balance_residual = energy_balance(db, &result.streams, &result.units)?;
     Ok(result)

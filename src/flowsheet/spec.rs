@@ -31,6 +31,7 @@ pub fn build(db: &SpeciesDb, model: &UnitModel, params: &mut ParamTable) -> Resu
         name: &model.name,
         unit_type: model.unit_type,
         outlets: &model.to,
+        inlets: &model.from,
         entry: &model.entry,
         params,
     };

@@ -43,6 +43,8 @@ pub struct FileModel {
     pub targets: Vec<TargetModel>,
     /// The feed a steam-to-carbon target scales (`steam-feed:`).
     pub steam_feed: Option<String>,
+    /// The plant's energy figures (`energy:`; defaults without).
+    pub energy: super::energy::EnergyModel,
 }
 
 /// A design target as written: vary one input between two values so that one result equals a
@@ -106,6 +108,9 @@ pub struct UnitModel {
     pub to: Vec<String>,
     /// The other keys, in file order.
     pub entry: Entry,
+    /// The units this one heats (`heats:`, a flowsheet-level link for a type that documents
+    /// the key, such as a furnace firing a reformer); empty for other types.
+    pub heats: Vec<String>,
 }
 
 /// A YAML value as a plain entry value (numbers and booleans keep their text).
@@ -224,7 +229,15 @@ fn yaml_error(origin: &str, err: &serde_norway::Error, previews: &[Preview]) -> 
     }
 }
 
-const FILE_KEYS: &[&str] = &["title", "solver", "feeds", "units", "targets", "steam-feed"];
+const FILE_KEYS: &[&str] = &[
+    "title",
+    "solver",
+    "feeds",
+    "units",
+    "targets",
+    "steam-feed",
+    "energy",
+];
 
 /// The `solver:` key: tolerances and iteration limits of the equilibrium stages, each optional
 /// (the defaults of [`SolverOptions`]).
@@ -290,7 +303,9 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
     type Value = FileModel;
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
-        f.write_str("a flowsheet with the keys title, solver, feeds, units, targets and steam-feed")
+        f.write_str(
+            "a flowsheet with the keys title, solver, feeds, units, targets, steam-feed and energy",
+        )
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> std::result::Result<FileModel, A::Error> {
@@ -300,6 +315,7 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
         let mut solver: Option<SolverOptions> = None;
         let mut targets: Option<Vec<TargetModel>> = None;
         let mut steam_feed: Option<String> = None;
+        let mut energy: Option<super::energy::EnergyModel> = None;
         while let Some(key) = map.next_key::<String>()? {
             match key.as_str() {
                 "solver" if solver.is_none() => {
@@ -320,7 +336,8 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
                 }
                 "targets" if targets.is_none() => targets = Some(map.next_value()?),
                 "steam-feed" if steam_feed.is_none() => steam_feed = Some(map.next_value()?),
-                "title" | "solver" | "feeds" | "units" | "targets" | "steam-feed" => {
+                "energy" if energy.is_none() => energy = Some(map.next_value()?),
+                "title" | "solver" | "feeds" | "units" | "targets" | "steam-feed" | "energy" => {
                     return Err(de::Error::custom(format!("duplicate key `{key}`")))
                 }
                 other => return Err(de::Error::unknown_field(other, FILE_KEYS)),
@@ -340,8 +357,50 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
             units,
             targets: targets.unwrap_or_default(),
             steam_feed,
+            energy: energy.unwrap_or_default(),
         })
     }
+}
+
+/// Take the flowsheet-level key `heats` out of a unit's entry, for a type that documents it
+/// (required when its documentation gives no default); other types leave it in the entry, where
+/// their reader refuses it as an unknown key.
+fn take_heats(unit_type: &UnitType, entry: &mut Entry) -> std::result::Result<Vec<String>, String> {
+    let Some(doc) = unit_type.keys.iter().find(|k| k.key == "heats") else {
+        return Ok(Vec::new());
+    };
+    let Some(at) = entry.fields.iter().position(|(k, _)| k == "heats") else {
+        if doc.default.is_none() {
+            return Err(format!(
+                "a {} needs `heats`: the name of the unit it heats, or a list of names",
+                unit_type.name
+            ));
+        }
+        return Ok(Vec::new());
+    };
+    let (_, value) = entry.fields.remove(at);
+    let name = |v: &EntryValue| match v {
+        EntryValue::Scalar(s) if !s.trim().is_empty() => Ok(s.trim().to_string()),
+        _ => Err("`heats` takes a unit name or a list of unit names".to_string()),
+    };
+    let names = match &value {
+        EntryValue::List(items) => items
+            .iter()
+            .map(name)
+            .collect::<std::result::Result<Vec<_>, _>>()?,
+        other => vec![name(other)?],
+    };
+    if names.is_empty() {
+        return Err("`heats` is empty; name the unit(s) it heats".into());
+    }
+    if let Some((_, n)) = names
+        .iter()
+        .enumerate()
+        .find(|(i, n)| names[..*i].contains(n))
+    {
+        return Err(format!("`heats` lists unit '{n}' twice"));
+    }
+    Ok(names)
 }
 
 struct UnitsSeed<'a> {
@@ -473,12 +532,14 @@ impl<'de> Visitor<'de> for UnitSeed {
                 )));
             }
         }
+        let heats = take_heats(unit_type, &mut entry).map_err(de::Error::custom)?;
         Ok(UnitModel {
             name,
             unit_type,
             from,
             to,
             entry,
+            heats,
         })
     }
 }

@@ -197,7 +197,7 @@ fn rows(solved: &[Solved]) -> Vec<(String, Vec<Option<f64>>)> {
 /// A short label, the unit and the decimals shown of a figure path.
 pub(crate) fn label(path: &str) -> (String, &'static str, usize) {
     let tail = |prefix: &str| path.strip_prefix(prefix).map(str::to_string);
-    let fixed_labels: [(&str, &str, &'static str, usize); 7] = [
+    let fixed_labels: [(&str, &str, &'static str, usize); 14] = [
         (
             "summary.hydrogen_product_kmol_h",
             "hydrogen product",
@@ -220,6 +220,28 @@ pub(crate) fn label(path: &str) -> (String, &'static str, usize) {
         ),
         ("summary.heating_duty_kW", "heating duties, sum", "kW", 1),
         ("summary.cooling_duty_kW", "cooling duties, sum", "kW", 1),
+        ("summary.feed_LHV_MW", "feed LHV", "MW", 3),
+        ("summary.fuel_LHV_MW", "fuel LHV", "MW", 3),
+        ("summary.steam_export_t_h", "steam export", "t/h", 2),
+        ("summary.steam_credit_GJ_per_t", "steam credit", "GJ/t", 2),
+        (
+            "summary.net_specific_energy_GJ_per_1000Nm3",
+            "net specific energy",
+            "GJ/1000 Nm3",
+            3,
+        ),
+        (
+            "summary.feed_specific_energy_GJ_per_1000Nm3",
+            "feed specific energy",
+            "GJ/1000 Nm3",
+            3,
+        ),
+        (
+            "summary.fuel_specific_energy_GJ_per_1000Nm3",
+            "fuel specific energy",
+            "GJ/1000 Nm3",
+            3,
+        ),
     ];
     if let Some((_, l, u, d)) = fixed_labels.iter().find(|(p, ..)| *p == path) {
         return (l.to_string(), u, *d);
@@ -464,6 +486,10 @@ mod tests {
             ("hts, outlet".to_string(), "degC", 1)
         );
         assert_eq!(label("summary.hydrogen_made_Nm3_h").1, "Nm3/h");
+        assert_eq!(
+            label("summary.net_specific_energy_GJ_per_1000Nm3").1,
+            "GJ/1000 Nm3"
+        );
         assert_eq!(signed(1.25, 1), "+1.2");
         assert_eq!(signed(-1.0, 1), "-1.0");
     }

@@ -34,7 +34,13 @@
 //!   without organic carbon fed),
 //!   `methane_slip_percent_dry` {unit: %}, `co_slip_percent_dry` {unit: %},
 //!   `steam_to_carbon` {unit: ratio}, `carbon_margin` {unit: smallest 1 - a of the carbon
-//!   activities checked at each reformer and pre-reformer}, `heating_duty_kW`, `cooling_duty_kW`
+//!   activities checked at each reformer and pre-reformer}, `heating_duty_kW`, `cooling_duty_kW`,
+//!   and the energy figures ([`crate::flowsheet::energy`]): `feed_LHV_MW`, `fuel_LHV_MW`,
+//!   `steam_export_t_h`, `steam_credit_GJ_per_t`, `net_specific_energy_GJ_per_1000Nm3`,
+//!   `feed_specific_energy_GJ_per_1000Nm3`, `fuel_specific_energy_GJ_per_1000Nm3` (the last
+//!   three null without hydrogen made)
+//! - `heat_balance`: `heats_in`, `heats_out`, `transfers` [{`label`, `name`, `kW`}],
+//!   `total_in_kW`, `total_out_kW`, `residual_kW` ([`super::energy`])
 //! - `balances`: `element_residual`, `energy_residual` (relative)
 //!
 //! Species maps list every species that flows in some stream, the same keys in every stream,
@@ -110,12 +116,15 @@ pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
     }
 
     let summary = summary_value(&result.summary);
+    let heat_balance =
+        super::energy::heat_balance_value(&crate::flowsheet::energy::heat_balance(db, result)?);
 
     let mut top = Map::new();
     top.insert("title".into(), json!(result.title));
     top.insert("streams".into(), Value::Object(streams));
     top.insert("units".into(), Value::Object(units));
     top.insert("summary".into(), summary);
+    top.insert("heat_balance".into(), heat_balance);
     top.insert("targets".into(), targets(&result.targets));
     top.insert(
         "balances".into(),
@@ -160,7 +169,7 @@ pub fn summary_value(s: &Summary) -> Value {
                 .collect(),
         )
     };
-    json!({
+    let mut v = json!({
         "hydrogen_product_kmol_h": s.hydrogen_product_mol_s.map(mol_s_to_kmol_h).map(number),
         "hydrogen_product_Nm3_h": s.hydrogen_product_mol_s.map(mol_s_to_nm3_h).map(number),
         "hydrogen_made_kmol_h": s.hydrogen_made_mol_s.map(mol_s_to_kmol_h).map(number),
@@ -172,7 +181,13 @@ pub fn summary_value(s: &Summary) -> Value {
         "carbon_margin": pairs(&s.carbon_margin, 1.0),
         "heating_duty_kW": number(w_to_kw(s.heating_duty_w)),
         "cooling_duty_kW": number(w_to_kw(s.cooling_duty_w)),
-    })
+    });
+    if let Value::Object(m) = &mut v {
+        for (key, value) in super::energy::summary_keys(s) {
+            m.insert(key.into(), value);
+        }
+    }
+    v
 }
 
 /// Warnings as objects `{unit, code, message, value, limit}`; value and limit in report units

@@ -32,6 +32,7 @@ pub fn layout(report: &SolveReport) -> String {
         out.push_str(&table_markdown(table));
     }
     out.push_str(&table_markdown(&report.summary));
+    out.push_str(&table_markdown(&report.heat_balance));
     if let Some(table) = &report.targets {
         out.push_str(&table_markdown(table));
     }

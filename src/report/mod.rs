@@ -4,6 +4,7 @@
 
 pub mod compare;
 pub mod csv;
+pub mod energy;
 pub mod evaluate;
 pub mod json;
 pub mod markdown;

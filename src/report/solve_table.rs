@@ -44,6 +44,8 @@ pub fn layout(report: &SolveReport) -> String {
     }
     out.push_str(&table_text(&report.summary));
     out.push('\n');
+    out.push_str(&table_text(&report.heat_balance));
+    out.push('\n');
     if let Some(table) = &report.targets {
         out.push_str(&table_text(table));
         out.push('\n');

@@ -103,6 +103,8 @@ pub struct SolveReport {
     pub equilibrium: Option<Table>,
     /// Plant summary and balance checks.
     pub summary: Table,
+    /// The plant heat balance ([`crate::flowsheet::energy::heat_balance`]).
+    pub heat_balance: Table,
     /// The design targets met (None without targets).
     pub targets: Option<Table>,
     /// Warnings of the units and the flowsheet, as text.
@@ -122,6 +124,9 @@ pub fn build(db: &SpeciesDb, result: &FlowsheetResult) -> Result<SolveReport> {
         figures: figure_table(result),
         equilibrium: equilibrium_table(result),
         summary: summary_table(db, result),
+        heat_balance: super::energy::heat_balance_table(&crate::flowsheet::energy::heat_balance(
+            db, result,
+        )?),
         targets: target_table(result),
         warnings: result.warnings.iter().map(|w| w.to_string()).collect(),
         cautions: super::CAUTIONS.to_string(),
@@ -664,6 +669,9 @@ fn summary_table(db: &SpeciesDb, result: &FlowsheetResult) -> Table {
         fixed(w_to_kw(s.cooling_duty_w), 1),
         "kW",
     );
+    for (label, value, unit) in super::energy::summary_rows(s) {
+        push(label, value, unit);
+    }
     push(
         "element balance, largest relative error".into(),
         residual(result.element_balance_residual),

@@ -304,6 +304,7 @@ pub fn fixture(db: &SpeciesDb) -> FlowsheetResult {
             carbon_margin: vec![("reformer".into(), 0.6)],
             heating_duty_w: duties.iter().filter(|d| **d > 0.0).sum(),
             cooling_duty_w: duties.iter().filter(|d| **d < 0.0).sum(),
+            ..Summary::default()
         },
         units,
         warnings: vec![crate::units::Warning::new(

@@ -85,6 +85,12 @@ pub fn unit_of(reference: &FlowsheetResult, path: &ResultPath) -> String {
         ResultSlot::MethaneSlip { .. } | ResultSlot::CoSlip { .. } => "mol % dry".into(),
         ResultSlot::SteamToCarbon { .. } => "mol/mol".into(),
         ResultSlot::CarbonMargin { .. } => String::new(),
+        ResultSlot::FeedLhv | ResultSlot::FuelLhv => "MW".into(),
+        ResultSlot::SteamExport => "t/h".into(),
+        ResultSlot::SteamCredit => "GJ/t".into(),
+        ResultSlot::NetSpecificEnergy
+        | ResultSlot::FeedSpecificEnergy
+        | ResultSlot::FuelSpecificEnergy => "GJ/1000 Nm3".into(),
     }
 }
 
@@ -221,6 +227,12 @@ mod tests {
         assert_eq!(unit("summary.hydrogen_per_carbon_fed"), "mol/mol");
         assert_eq!(unit("summary.cooling_duty_kW"), "kW");
         assert_eq!(unit("summary.heating_duty_kW"), "kW");
+        assert_eq!(unit("summary.feed_LHV_MW"), "MW");
+        assert_eq!(unit("summary.steam_export_t_h"), "t/h");
+        assert_eq!(
+            unit("summary.net_specific_energy_GJ_per_1000Nm3"),
+            "GJ/1000 Nm3"
+        );
         assert_eq!(
             last_co_slip(&db, &r).unwrap().path,
             "summary.co_slip_percent_dry.lts"

@@ -10,7 +10,9 @@
 
 pub mod autothermal;
 mod chemistry;
+pub mod combustion;
 mod common;
+pub mod furnace;
 pub mod knockout;
 pub mod limits;
 pub mod methanator;
@@ -28,6 +30,7 @@ mod test_support;
 pub mod thermal;
 pub mod unit;
 
+pub use furnace::{Furnace, FurnaceSpec};
 pub use knockout::{Knockout, KnockoutSpec};
 pub use limits::OperatingLimits;
 pub use methanator::{Methanator, MethanatorSpec};

@@ -4,8 +4,8 @@
 
 use super::unit::UnitType;
 use super::{
-    autothermal, knockout, methanator, mixer, prereformer, purifier, reformer, shift, splitter,
-    thermal,
+    autothermal, furnace, knockout, methanator, mixer, prereformer, purifier, reformer, shift,
+    splitter, thermal,
 };
 
 /// Every unit type, in the order `unit-types` lists them (the order of a train).
@@ -17,6 +17,7 @@ pub static UNIT_TYPES: &[&UnitType] = &[
     &prereformer::TYPE,
     &reformer::TYPE,
     &autothermal::TYPE,
+    &furnace::TYPE,
     &shift::TYPE,
     &methanator::TYPE,
     &knockout::TYPE,

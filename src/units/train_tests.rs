@@ -197,6 +197,7 @@ fn built(
         name: "u",
         unit_type,
         outlets: &outlets,
+        inlets: &[],
         entry: &entry,
         params,
     };

@@ -74,6 +74,8 @@ pub enum ValueKind {
     PerSpecies,
     /// A mapping of outlet stream names to values (one outlet may be left out).
     PerOutlet,
+    /// A name of this flowsheet (a stream or a unit), or a list of names.
+    Names,
 }
 
 impl ValueKind {
@@ -97,6 +99,7 @@ impl ValueKind {
             }
             ValueKind::PerSpecies => "species: fraction".into(),
             ValueKind::PerOutlet => "outlet stream: value".into(),
+            ValueKind::Names => "stream or unit name(s) of this flowsheet".into(),
         }
     }
 
@@ -128,11 +131,13 @@ impl ValueKind {
                     reason: "give a number not below zero, without a unit (e.g. 2.5)".into(),
                 }),
             },
-            ValueKind::Choice(_) | ValueKind::PerOutlet => Err(Error::InvalidValue {
-                field: field.to_string(),
-                value: text.to_string(),
-                reason: "this key is not a number".into(),
-            }),
+            ValueKind::Choice(_) | ValueKind::PerOutlet | ValueKind::Names => {
+                Err(Error::InvalidValue {
+                    field: field.to_string(),
+                    value: text.to_string(),
+                    reason: "this key is not a number".into(),
+                })
+            }
         }
     }
 
@@ -342,6 +347,8 @@ pub struct BuildInput<'a> {
     pub unit_type: &'static UnitType,
     /// Its outlet stream names, in order.
     pub outlets: &'a [String],
+    /// Its inlet stream names, in order.
+    pub inlets: &'a [String],
     /// Its entry.
     pub entry: &'a Entry,
     /// Where it registers its numeric inputs.
@@ -380,6 +387,11 @@ impl<'a, 'b, S: 'static> UnitBuilder<'a, 'b, S> {
         self.input.outlets
     }
 
+    /// The unit's inlet stream names.
+    pub fn inlets(&self) -> &'a [String] {
+        self.input.inlets
+    }
+
     /// True when the entry has this key.
     pub fn has(&self, key: &str) -> bool {
         self.input.entry.fields.iter().any(|(k, _)| k == key)
@@ -414,7 +426,10 @@ impl<'a, 'b, S: 'static> UnitBuilder<'a, 'b, S> {
 
     /// Parse a scalar of a numeric kind to SI.
     fn parse(&self, field: &str, kind: ValueKind, text: &str) -> Result<f64> {
-        if matches!(kind, ValueKind::Choice(_) | ValueKind::PerOutlet) {
+        if matches!(
+            kind,
+            ValueKind::Choice(_) | ValueKind::PerOutlet | ValueKind::Names
+        ) {
             return Err(self.error(field, "is not a number"));
         }
         kind.parse(field, text)
