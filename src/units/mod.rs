@@ -8,6 +8,7 @@
 //! entry once and solves it as often as needed, with new input values where a study changes
 //! them. A unit can also be used on its own: `Reformer::new(db, name, &spec)?.solve(...)`.
 
+pub mod boiler;
 mod chemistry;
 mod common;
 pub mod knockout;

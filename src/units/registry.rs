@@ -4,7 +4,7 @@
 
 use super::unit::UnitType;
 use super::{
-    knockout, methanator, mixer, prereformer, purifier, reformer, shift, splitter, thermal,
+    boiler, knockout, methanator, mixer, prereformer, purifier, reformer, shift, splitter, thermal,
 };
 
 /// Every unit type, in the order `unit-types` lists them (the order of a train).
@@ -13,6 +13,7 @@ pub static UNIT_TYPES: &[&UnitType] = &[
     &splitter::TYPE,
     &thermal::HEATER,
     &thermal::COOLER,
+    &boiler::TYPE,
     &prereformer::TYPE,
     &reformer::TYPE,
     &shift::TYPE,
