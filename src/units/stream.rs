@@ -20,7 +20,7 @@
 //! wet steam and saturated or superheated steam at the pressure.
 
 use super::common::temperature_at_enthalpy;
-use crate::error::{Error, Result};
+use crate::error::{Error, Result, ResultExt};
 use crate::thermo::{mixture, water, Phase, SpeciesDb};
 
 /// Phase of a whole stream.
@@ -187,16 +187,12 @@ fn pure_water_temperature_k(
     (lo, hi): (f64, f64),
 ) -> Result<f64> {
     let scale = n * 1.0e3;
-    crate::thermo::if97::increasing_root(
-        &format!("water energy balance of unit '{unit}'"),
-        lo,
-        hi,
-        1e-13,
-        |t| {
-            let (h, cp) = pure_water_molar(db, water, t, pressure_pa, phase)?;
-            Ok(((n * h - target_w) / scale, n * cp / scale))
-        },
-    )
+    // The unit is named only on an error (no allocation on the normal path).
+    crate::thermo::if97::increasing_root("water energy balance", lo, hi, 1e-13, |t| {
+        let (h, cp) = pure_water_molar(db, water, t, pressure_pa, phase)?;
+        Ok(((n * h - target_w) / scale, n * cp / scale))
+    })
+    .context(|| format!("unit '{unit}'"))
 }
 
 /// Check the phases of a unit's inlets for units that take gas or liquid water (mixer, heater,
