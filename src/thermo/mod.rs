@@ -3,6 +3,7 @@
 //! the water saturation line (IAPWS-IF97).
 
 pub mod database;
+pub mod if97;
 pub mod mixture;
 pub mod species;
 pub mod water;

@@ -412,6 +412,34 @@ pub fn is_liquid(temperature_k: f64, pressure_pa: f64) -> Result<bool> {
     Ok(true)
 }
 
+/// Molar enthalpy and heat capacity of pure water, liquid or steam, J/mol and J/(mol K):
+/// the ideal-gas enthalpy of the species record `water` (NASA polynomial, formation enthalpy
+/// basis shared with every process gas) plus the IAPWS-IF97 departure from the ideal gas at the
+/// same temperature, M_w [h_IF97(T, p) - h°_IF97(T)] ([`super::if97::departure`]: Region 1 for
+/// `liquid`, Region 2 for steam; h° is the ideal-gas part of Region 2). The departure holds the
+/// latent heat and the pressure effect on the liquid, and the residual enthalpy of steam at
+/// pressure. The heat capacity is the derivative at constant pressure, built the same way.
+///
+/// Returns `Error::InvalidValue` where IF97 Regions 1 and 2 do not reach (liquid above
+/// 623.15 K, steam above 1073.15 K, Region 3) or outside the record's range.
+pub fn pure_water_enthalpy_and_cp(
+    water: &crate::thermo::Species,
+    temperature_k: f64,
+    pressure_pa: f64,
+    liquid: bool,
+) -> Result<(f64, f64)> {
+    use super::if97::{departure, Region, MOLAR_MASS_KG_PER_MOL};
+    let region = if liquid {
+        Region::Liquid
+    } else {
+        Region::Steam
+    };
+    let (dh, dcp) = departure(region, temperature_k, pressure_pa)?;
+    let h = water.enthalpy(temperature_k)? + MOLAR_MASS_KG_PER_MOL * dh;
+    let cp = water.cp(temperature_k)? + MOLAR_MASS_KG_PER_MOL * dcp;
+    Ok((h, cp))
+}
+
 pub use saturation_enthalpy::{
     latent_heat_j_per_kg, latent_heat_j_per_mol, saturated_liquid_enthalpy_j_per_kg,
     saturated_vapour_enthalpy_j_per_kg,

@@ -5,9 +5,8 @@
 //! supersaturated, y_H2O = p_sat(T) / P with p_sat from IAPWS-IF97 eq. (30)
 //! ([`crate::thermo::water::saturation_pressure_pa`]), i.e. the gas keeps
 //! n_H2O = y_sat n_dry / (1 - y_sat) and the rest leaves as condensate. The condensate's
-//! enthalpy is the ideal-gas water enthalpy less the latent heat of vaporisation (IAPWS
-//! SR1-86(1992), [`crate::thermo::water::latent_heat_j_per_mol`]); the pressure effect on the
-//! liquid is neglected. Duty = H(gas) + H(condensate) - H(inlet).
+//! enthalpy is that of pure liquid water, IAPWS-IF97 Region 1 on the NASA ideal-gas basis
+//! ([`super::stream::pure_water_enthalpy_w`]). Duty = H(gas) + H(condensate) - H(inlet).
 
 use super::common::{
     check_inlets, check_pressure_drop, check_temperature, degc, dew_point_k, figure,
@@ -264,9 +263,12 @@ mod tests {
         let cond = r.outlets[1].flows[w];
         assert!(cond > 0.9, "{cond}");
         let sp = db.by_index(w);
-        let expected = sp.enthalpy(372.0).unwrap()
-            - sp.enthalpy(400.0).unwrap()
-            - cond * water::latent_heat_j_per_mol(372.0).unwrap()
+        // Condensate: IAPWS-IF97 Region 1 at 372 K, 1 bar on the NASA ideal-gas basis,
+        // h_NASA + M_w (h - h°); PyPI iapws 1.5.5: h(372 K, 0.1 MPa) = 414.249778930154 kJ/kg.
+        let (h0, _) = crate::thermo::if97::ideal_gas_enthalpy_and_cp(372.0).unwrap();
+        let departure = (414.249_778_930_154e3 - h0) * 0.018_015_268;
+        let expected = sp.enthalpy(372.0).unwrap() - sp.enthalpy(400.0).unwrap()
+            + cond * departure
             + db.get("N2").unwrap().enthalpy(372.0).unwrap() * 0.001
             - db.get("N2").unwrap().enthalpy(400.0).unwrap() * 0.001;
         assert!((r.duty_w - expected).abs() < 1e-9 * expected.abs());

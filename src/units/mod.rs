@@ -9,6 +9,7 @@
 //! them. A unit can also be used on its own: `Reformer::new(db, name, &spec)?.solve(...)`.
 
 pub mod autothermal;
+pub mod boiler;
 mod chemistry;
 pub mod combustion;
 mod common;

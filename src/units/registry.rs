@@ -4,8 +4,8 @@
 
 use super::unit::UnitType;
 use super::{
-    autothermal, furnace, knockout, methanator, mixer, prereformer, purifier, reformer, shift,
-    splitter, thermal,
+    autothermal, boiler, furnace, knockout, methanator, mixer, prereformer, purifier, reformer,
+    shift, splitter, thermal,
 };
 
 /// Every unit type, in the order `unit-types` lists them (the order of a train).
@@ -14,6 +14,7 @@ pub static UNIT_TYPES: &[&UnitType] = &[
     &splitter::TYPE,
     &thermal::HEATER,
     &thermal::COOLER,
+    &boiler::TYPE,
     &prereformer::TYPE,
     &reformer::TYPE,
     &autothermal::TYPE,

@@ -4,18 +4,23 @@
 //! Phase rule for pure water (water the only species flowing): liquid strictly below its
 //! saturation temperature T_s(P) on the IAPWS-IF97 saturation line, eq. (31)
 //! ([`crate::thermo::water::is_liquid`]); at exactly T_s(P) it is saturated steam. A liquid
-//! stream holds water only; its enthalpy is the ideal-gas value less the latent heat of
-//! vaporisation at its temperature (IAPWS SR1-86(1992),
-//! [`crate::thermo::water::latent_heat_j_per_mol`]); the pressure effect on the liquid is
-//! neglected. A gas mixture is vapour only above its water dew point: the units and the feeds
-//! refuse a mixture that would be partly condensed (a knockout condenses it).
+//! stream holds water only. A gas mixture is an ideal gas (NASA polynomials) and is vapour only
+//! above its water dew point: the units and the feeds refuse a mixture that would be partly
+//! condensed (a knockout condenses it).
+//!
+//! Pure water, liquid or steam, is real water: its enthalpy is the NASA ideal-gas value (the
+//! formation-enthalpy basis of every process gas) plus the IAPWS-IF97 departure from the ideal
+//! gas at the same temperature, M_w [h(T, p) - h°(T)] with Region 1 for liquid and Region 2 for
+//! steam ([`pure_water_enthalpy_w`]). The departure holds the latent heat, the pressure effect
+//! on the liquid and the residual enthalpy of steam at pressure; pure water outside IF97
+//! Regions 1 and 2 (steam above 800 degC, Region 3 near the critical point) is an error.
 //!
 //! When the state of pure water follows from its enthalpy (an adiabatic mixer, a heater or
 //! cooler given its duty), [`water_at_enthalpy`] decides between subcooled or saturated liquid,
 //! wet steam and saturated or superheated steam at the pressure.
 
 use super::common::temperature_at_enthalpy;
-use crate::error::{Error, Result};
+use crate::error::{Error, Result, ResultExt};
 use crate::thermo::{mixture, water, Phase, SpeciesDb};
 
 /// Phase of a whole stream.
@@ -23,8 +28,8 @@ use crate::thermo::{mixture, water, Phase, SpeciesDb};
 pub enum StreamPhase {
     /// Ideal-gas mixture.
     Vapour,
-    /// Liquid water (condensate, boiler-feed water): water only; its enthalpy is the ideal-gas
-    /// value less the latent heat at its temperature.
+    /// Liquid water (condensate, boiler-feed water): water only, its enthalpy from IAPWS-IF97
+    /// Region 1.
     Liquid,
 }
 
@@ -110,25 +115,84 @@ impl Stream {
         mixture::dry_mole_fraction(&self.flows, db.water(), species)
     }
 
-    /// Enthalpy flow, W, formation enthalpies included.
+    /// Enthalpy flow, W, formation enthalpies included. A gas mixture is an ideal gas (NASA
+    /// polynomials); pure water, liquid or steam, takes the IAPWS-IF97 departure from the ideal
+    /// gas besides ([`pure_water_enthalpy_w`]).
     pub fn enthalpy_w(&self, db: &SpeciesDb) -> Result<f64> {
-        let ideal = mixture::enthalpy(db, &self.flows, self.temperature_k)?;
-        match self.phase {
-            StreamPhase::Vapour => Ok(ideal),
-            StreamPhase::Liquid => {
-                let water = match db.water() {
-                    Some(w) => w,
-                    None => db.require("H2O", " (condensate)")?,
-                };
-                let n = self.flows[water];
-                if n == 0.0 {
-                    // No condensate: no latent heat (and no range check on the temperature).
-                    return Ok(ideal);
-                }
-                Ok(ideal - n * crate::thermo::water::latent_heat_j_per_mol(self.temperature_k)?)
+        let water = match (db.water(), self.phase) {
+            (Some(w), _) => Some(w),
+            (None, StreamPhase::Liquid) => Some(db.require("H2O", " (condensate)")?),
+            (None, StreamPhase::Vapour) => None,
+        };
+        if let Some(w) = water {
+            if self.is_pure_water(w) {
+                return pure_water_enthalpy_w(
+                    db,
+                    w,
+                    self.flows[w],
+                    self.temperature_k,
+                    self.pressure_pa,
+                    self.phase,
+                );
             }
         }
+        // A gas, or a liquid stream with nothing flowing.
+        mixture::enthalpy(db, &self.flows, self.temperature_k)
     }
+}
+
+/// Enthalpy flow of `n` mol/s of pure water (database index `water`) at a temperature,
+/// pressure and phase, W: n [h_NASA(T) + M_w (h_IF97(T, p) - h°_IF97(T))]
+/// ([`water::pure_water_enthalpy_and_cp`]; Region 1 for liquid, Region 2 for steam). The one
+/// function for the enthalpy of a pure-water stream.
+pub fn pure_water_enthalpy_w(
+    db: &SpeciesDb,
+    water: usize,
+    n: f64,
+    temperature_k: f64,
+    pressure_pa: f64,
+    phase: StreamPhase,
+) -> Result<f64> {
+    Ok(n * pure_water_molar(db, water, temperature_k, pressure_pa, phase)?.0)
+}
+
+/// (h, cp) of pure water per mole, J/mol and J/(mol K).
+fn pure_water_molar(
+    db: &SpeciesDb,
+    water: usize,
+    temperature_k: f64,
+    pressure_pa: f64,
+    phase: StreamPhase,
+) -> Result<(f64, f64)> {
+    water::pure_water_enthalpy_and_cp(
+        db.by_index(water),
+        temperature_k,
+        pressure_pa,
+        phase == StreamPhase::Liquid,
+    )
+}
+
+/// Temperature of `n` mol/s of pure water in a phase at a pressure whose enthalpy flow is
+/// `target_w`, searched on [lo, hi] K by the safeguarded Newton of
+/// [`crate::thermo::if97::increasing_root`] with the IF97 heat capacity.
+#[allow(clippy::too_many_arguments)]
+fn pure_water_temperature_k(
+    db: &SpeciesDb,
+    unit: &str,
+    water: usize,
+    n: f64,
+    target_w: f64,
+    pressure_pa: f64,
+    phase: StreamPhase,
+    (lo, hi): (f64, f64),
+) -> Result<f64> {
+    let scale = n * 1.0e3;
+    // The unit is named only on an error (no allocation on the normal path).
+    crate::thermo::if97::increasing_root("water energy balance", lo, hi, 1e-13, |t| {
+        let (h, cp) = pure_water_molar(db, water, t, pressure_pa, phase)?;
+        Ok(((n * h - target_w) / scale, n * cp / scale))
+    })
+    .context(|| format!("unit '{unit}'"))
 }
 
 /// Check the phases of a unit's inlets for units that take gas or liquid water (mixer, heater,
@@ -201,12 +265,12 @@ pub enum WaterState {
 
 /// The state of `flows` of pure water (water index `water`) at `pressure_pa` whose enthalpy is
 /// `target_w`: liquid when the enthalpy is at most that of saturated liquid at T_s(P), steam
-/// when at least that of saturated steam, wet steam in between. Saturated steam is the
-/// ideal-gas water enthalpy at T_s(P) and saturated liquid that less the latent heat there
-/// (IAPWS-IF97 eq. 31 and IAPWS SR1-86(1992)). The liquid temperature is found by the Illinois
-/// variant of the false-position method on [0.01 degC, T_s(P)]; the steam temperature by
-/// Newton's method on the ideal-gas enthalpy. Outside the saturation line (below 611.213 Pa or
-/// above the critical pressure) the water is treated as steam, as [`water_phase`] does.
+/// when at least that of saturated steam, wet steam in between. Enthalpies are those of
+/// [`pure_water_enthalpy_w`] (IAPWS-IF97 Regions 1 and 2 on the NASA ideal-gas basis), T_s(P)
+/// is IAPWS-IF97 eq. (31); the temperature is found by a safeguarded Newton search inside the
+/// phase's range. Outside the saturation line (below 611.213 Pa, above the critical pressure)
+/// the water is steam, as [`water_phase`] does. Saturation above 16.53 MPa (350 degC), where
+/// saturated liquid lies in IF97 Region 3, is not modelled: an error.
 pub(crate) fn water_at_enthalpy(
     db: &SpeciesDb,
     unit: &str,
@@ -216,21 +280,57 @@ pub(crate) fn water_at_enthalpy(
     pressure_pa: f64,
     start_k: f64,
 ) -> Result<WaterState> {
+    use crate::thermo::if97::{self, Region};
     let n = flows[water];
-    let on_the_line =
-        (water::SATURATION_MIN_PRESSURE_PA..=water::CRITICAL_PRESSURE_PA).contains(&pressure_pa);
-    if !on_the_line || n <= 0.0 {
+    if n <= 0.0 {
         let t = temperature_at_enthalpy(db, unit, flows, target_w, start_k)?;
-        water_phase(t, pressure_pa)?;
         return Ok(WaterState::Vapour(t));
     }
-    let species = db.by_index(water);
+    let context = |e: Error| Error::UnitSpec {
+        unit: unit.to_string(),
+        field: "energy balance".to_string(),
+        reason: format!("the water outlet: {e}"),
+    };
+    let on_the_line =
+        (water::SATURATION_MIN_PRESSURE_PA..=water::CRITICAL_PRESSURE_PA).contains(&pressure_pa);
+    if !on_the_line {
+        let range = if97::temperature_range_k(Region::Steam, pressure_pa).map_err(context)?;
+        let t = pure_water_temperature_k(
+            db,
+            unit,
+            water,
+            n,
+            target_w,
+            pressure_pa,
+            StreamPhase::Vapour,
+            range,
+        )
+        .map_err(context)?;
+        return Ok(WaterState::Vapour(t));
+    }
     let t_s = water::saturation_temperature_k(pressure_pa)?;
-    let h_vapour = n * species.enthalpy(t_s)?;
-    let h_liquid = h_vapour - n * water::latent_heat_j_per_mol(t_s)?;
+    if t_s > if97::REGION1_MAX_TEMPERATURE_K {
+        return Err(context(Error::InvalidValue {
+            field: "pressure".to_string(),
+            value: format!("{:.4} bar", pressure_pa / 1e5),
+            reason: "saturated water above 165.3 bar (350 degC) lies in IAPWS-IF97 Region 3,                      which is not modelled; give a lower pressure"
+                .to_string(),
+        }));
+    }
+    let h_vapour = pure_water_enthalpy_w(db, water, n, t_s, pressure_pa, StreamPhase::Vapour)?;
+    let h_liquid = pure_water_enthalpy_w(db, water, n, t_s, pressure_pa, StreamPhase::Liquid)?;
     if target_w >= h_vapour {
-        let t = temperature_at_enthalpy(db, unit, flows, target_w, start_k.max(t_s))?;
-        // Rounding can leave Newton's root a hair below T_s: it is saturated steam.
+        let t = pure_water_temperature_k(
+            db,
+            unit,
+            water,
+            n,
+            target_w,
+            pressure_pa,
+            StreamPhase::Vapour,
+            (t_s, if97::REGION2_MAX_TEMPERATURE_K),
+        )
+        .map_err(context)?;
         return Ok(WaterState::Vapour(t.max(t_s)));
     }
     if target_w > h_liquid {
@@ -241,14 +341,9 @@ pub(crate) fn water_at_enthalpy(
             saturated_vapour_w: h_vapour,
         });
     }
-    let liquid_h = |t: f64| -> Result<f64> {
-        Ok(n * (species.enthalpy(t)? - water::latent_heat_j_per_mol(t)?))
-    };
-    let mut lo = water::TRIPLE_POINT_TEMPERATURE_K;
-    let mut hi = t_s;
-    let mut f_lo = liquid_h(lo)? - target_w;
-    let mut f_hi = h_liquid - target_w;
-    if f_lo > 0.0 {
+    let lo = water::TRIPLE_POINT_TEMPERATURE_K;
+    let h_lo = pure_water_enthalpy_w(db, water, n, lo, pressure_pa, StreamPhase::Liquid)?;
+    if target_w < h_lo {
         return Err(Error::UnitSpec {
             unit: unit.to_string(),
             field: "energy balance".to_string(),
@@ -257,42 +352,18 @@ pub(crate) fn water_at_enthalpy(
                 .to_string(),
         });
     }
-    if f_hi == 0.0 {
-        return Ok(WaterState::Liquid(t_s));
-    }
-    // Illinois false position: the bracket keeps a sign change, and the retained end's value
-    // is halved when the same end is kept twice (superlinear, never leaves the bracket).
-    let scale = target_w.abs().max(n * 1.0e3);
-    let mut side = 0;
-    for _ in 0..200 {
-        let t = (lo * f_hi - hi * f_lo) / (f_hi - f_lo);
-        let t = if t > lo && t < hi { t } else { 0.5 * (lo + hi) };
-        let f = liquid_h(t)? - target_w;
-        if f.abs() <= 1e-14 * scale || hi - lo <= 1e-12 * t {
-            return Ok(WaterState::Liquid(t));
-        }
-        if f < 0.0 {
-            lo = t;
-            f_lo = f;
-            if side == -1 {
-                f_hi *= 0.5;
-            }
-            side = -1;
-        } else {
-            hi = t;
-            f_hi = f;
-            if side == 1 {
-                f_lo *= 0.5;
-            }
-            side = 1;
-        }
-    }
-    Err(Error::NotConverged {
-        what: format!("liquid-water energy balance of unit '{unit}'"),
-        iterations: 200,
-        residual: f64::NAN,
-        hint: String::new(),
-    })
+    let t = pure_water_temperature_k(
+        db,
+        unit,
+        water,
+        n,
+        target_w,
+        pressure_pa,
+        StreamPhase::Liquid,
+        (lo, t_s),
+    )
+    .map_err(context)?;
+    Ok(WaterState::Liquid(t))
 }
 
 #[cfg(test)]
@@ -301,15 +372,35 @@ mod tests {
     use crate::units::test_support::{db, flows};
 
     #[test]
-    fn liquid_enthalpy_is_the_gas_less_the_latent_heat() {
-        // IAPWS SR1-86(1992) via PyPI iapws 1.5.5: h''(423.15 K) - h'(423.15 K)
-        // = 2746.047455 - 632.147355 kJ/kg = 2113.900 kJ/kg = 38.0826 kJ/mol (18.015268 g/mol).
+    fn liquid_and_steam_enthalpies_follow_if97() {
+        // IAPWS-IF97 via PyPI iapws 1.5.5 (tests/data/iapws97_points.csv): h(423.15 K, 0.1 MPa,
+        // Region 2) - h(423.15 K, 3 MPa, Region 1) = 2776.591815449922 - 633.8126255186869
+        // kJ/kg; at one temperature the NASA ideal-gas part cancels, so the difference is
+        // exactly IF97's (x 18.015268 g/mol), checked at 1e-9.
         let db = db();
         let n = flows(&db, &[("H2O", 2.0)]);
-        let gas = Stream::vapour(n.clone(), 423.15, 30e5);
-        let liquid = Stream::liquid(n, 423.15, 30e5);
-        let dh = gas.enthalpy_w(&db).unwrap() - liquid.enthalpy_w(&db).unwrap();
-        assert!((dh / 2.0 - 38_082.6).abs() < 1.0, "{dh}");
+        let steam = Stream::vapour(n.clone(), 423.15, 1e5);
+        let liquid = Stream::liquid(n.clone(), 423.15, 30e5);
+        let dh = steam.enthalpy_w(&db).unwrap() - liquid.enthalpy_w(&db).unwrap();
+        let want = 2.0 * (2_776.591_815_449_922 - 633.812_625_518_686_9) * 18.015_268;
+        assert!(((dh - want) / want).abs() < 1e-9, "{dh} vs {want}");
+        // Steam at pressure lies below the ideal gas by its residual enthalpy: IAPWS-IF97 via
+        // PyPI iapws 1.5.5, h(660 K, 3.1 MPa) - h°(660 K) = -53.29452101016386 kJ/kg.
+        let sp = db.get("H2O").unwrap();
+        let h = Stream::vapour(n.clone(), 660.0, 31e5)
+            .enthalpy_w(&db)
+            .unwrap();
+        let residual = h / 2.0 - sp.enthalpy(660.0).unwrap();
+        let want = -53.294_521_010_163_86 * 18.015_268;
+        assert!(
+            ((residual - want) / want).abs() < 1e-9,
+            "{residual} vs {want}"
+        );
+        // Out of IF97 Regions 1 and 2: an error, not an extrapolation.
+        assert!(Stream::vapour(n.clone(), 1200.0, 1e5)
+            .enthalpy_w(&db)
+            .is_err());
+        assert!(Stream::liquid(n, 500.0, 1e5).enthalpy_w(&db).is_err());
         let w = db.index_of("H2O").unwrap();
         assert!(liquid.is_pure_water(w));
         let wet = Stream::vapour(flows(&db, &[("H2O", 1.0), ("H2", 1e-9)]), 400.0, 1e5);
