@@ -22,10 +22,12 @@ pub mod feeds;
 pub mod graph;
 pub mod locate;
 pub mod paths;
+pub mod recycle;
 pub mod result;
 mod solve;
 pub mod spec;
 pub mod targets;
+pub mod tears;
 pub mod values;
 pub mod yaml;
 
@@ -35,7 +37,11 @@ pub use feeds::Feed;
 pub use feeds::FeedInputs;
 pub use graph::FlowGraph;
 pub use paths::{ResultPath, ResultSlot};
-pub use result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Summary};
+pub use recycle::RecycleOptions;
+pub use result::{
+    FlowsheetResult, RecycleRecord, RecycleTermination, SolvedStream, SolvedUnit, StreamSource,
+    Summary,
+};
 pub use solve::{Workspace, ELEMENT_BALANCE_TOLERANCE, ENERGY_BALANCE_TOLERANCE};
 pub use spec::FlowsheetUnit;
 pub use targets::{Target, TargetOutcome};
@@ -71,13 +77,24 @@ pub struct Flowsheet {
     targets: Vec<Target>,
     /// The file's `steam-feed`.
     steam_feed: Option<String>,
+    /// The tears and the iterated range of a flowsheet with cycles; `None` without.
+    recycle: Option<recycle::RecyclePlan>,
 }
 
 /// Where a unit's inlets and outlets sit among the streams of a result.
 #[derive(Debug, Clone)]
 struct UnitIo {
-    inlets: Vec<usize>,
+    inlets: Vec<Inlet>,
     first_outlet: usize,
+}
+
+/// Where a unit reads an inlet: a stream of the result made before it, or a tear slot.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Inlet {
+    /// Index among the streams of a result.
+    Stream(usize),
+    /// Index among the tear streams.
+    Tear(usize),
 }
 
 impl Flowsheet {
@@ -167,23 +184,25 @@ impl Flowsheet {
                 outlets: &u.outlets,
             })
             .collect();
-        let graph = graph::build(&feed_names, &ports).map_err(|e| match e.at {
-            Some(at) => {
-                let path = [Key("units"), Index(at.unit), Key(at.key), Index(at.index)];
-                let location = locate::locate(text, &path);
-                let name = &units[at.unit].name;
-                locate::annotate(
-                    *e.error,
-                    origin,
-                    location,
-                    &format!("units.{name}.{}", at.key),
-                )
-            }
-            None => *e.error,
-        })?;
+        let graph = graph::build_with(&feed_names, &ports, &model.recycle.tear_streams).map_err(
+            |e| match e.at {
+                Some(at) => {
+                    let path = [Key("units"), Index(at.unit), Key(at.key), Index(at.index)];
+                    let location = locate::locate(text, &path);
+                    let name = &units[at.unit].name;
+                    locate::annotate(
+                        *e.error,
+                        origin,
+                        location,
+                        &format!("units.{name}.{}", at.key),
+                    )
+                }
+                None => *e.error,
+            },
+        )?;
         let title = model.title.unwrap_or_else(|| origin.to_string());
         let defaults = params.defaults();
-        let layout = layout(&feeds, &units, &graph);
+        let (layout, recycle) = layout(&feeds, &units, &graph, &model.recycle);
         let mut flowsheet = Flowsheet {
             title,
             origin: origin.to_string(),
@@ -198,6 +217,7 @@ impl Flowsheet {
             options: model.solver,
             targets: Vec::new(),
             steam_feed: model.steam_feed.clone(),
+            recycle,
         };
         targets::check_steam_feed(&flowsheet, origin, text, model.steam_feed.as_deref())?;
         flowsheet.targets = targets::from_file(&flowsheet, origin, text, &model.targets)?;
@@ -278,6 +298,12 @@ impl Flowsheet {
         &self.options
     }
 
+    /// The tear streams of the flowsheet's cycles (named under `solver: tear-streams` or
+    /// chosen, [`tears`]); empty without cycles.
+    pub fn tear_streams(&self) -> &[String] {
+        &self.graph.tearing.tears
+    }
+
     /// The title (the file's `title`, else its name).
     pub fn title(&self) -> &str {
         &self.title
@@ -310,8 +336,15 @@ impl Flowsheet {
 }
 
 /// Stream indices of each unit's inlets and first outlet, in solve order (the streams of a
-/// result are the feeds in file order, then each unit's outlets in solve order).
-fn layout(feeds: &[Feed], units: &[FlowsheetUnit], graph: &FlowGraph) -> Vec<UnitIo> {
+/// result are the feeds in file order, then each unit's outlets in solve order; a tear stream
+/// is read from its slot), and the recycle plan where the graph has tears.
+fn layout(
+    feeds: &[Feed],
+    units: &[FlowsheetUnit],
+    graph: &FlowGraph,
+    options: &RecycleOptions,
+) -> (Vec<UnitIo>, Option<recycle::RecyclePlan>) {
+    let tears = &graph.tearing.tears;
     let mut names: Vec<&str> = feeds.iter().map(|f| f.name.as_str()).collect();
     let mut out = Vec::with_capacity(units.len());
     for &u in &graph.order {
@@ -319,7 +352,10 @@ fn layout(feeds: &[Feed], units: &[FlowsheetUnit], graph: &FlowGraph) -> Vec<Uni
         let inlets = unit
             .inlets
             .iter()
-            .map(|i| names.iter().position(|n| n == i).unwrap_or(usize::MAX))
+            .map(|i| match tears.iter().position(|t| t == i) {
+                Some(t) => Inlet::Tear(t),
+                None => Inlet::Stream(names.iter().position(|n| n == i).unwrap_or(usize::MAX)),
+            })
             .collect();
         out.push(UnitIo {
             inlets,
@@ -327,5 +363,27 @@ fn layout(feeds: &[Feed], units: &[FlowsheetUnit], graph: &FlowGraph) -> Vec<Uni
         });
         names.extend(unit.outlets.iter().map(String::as_str));
     }
-    out
+    if tears.is_empty() {
+        return (out, None);
+    }
+    let looped = &graph.tearing.looped_units;
+    let positions = || {
+        graph
+            .order
+            .iter()
+            .enumerate()
+            .filter(|(_, u)| looped.contains(u))
+            .map(|(k, _)| k)
+    };
+    let plan = recycle::RecyclePlan {
+        options: options.clone(),
+        tears: tears.clone(),
+        stream_index: tears
+            .iter()
+            .map(|t| names.iter().position(|n| n == t).unwrap_or(usize::MAX))
+            .collect(),
+        first: positions().min().unwrap_or(0),
+        last: positions().max().unwrap_or(0),
+    };
+    (out, Some(plan))
 }
