@@ -19,8 +19,12 @@
 //! (Wegstein 1958, "Accelerating convergence of iterative processes", Communications of the
 //! ACM 1(6)) for each flow and the temperature on its own: with the slope
 //! s = (g_k - g_{k-1}) / (x_k - x_{k-1}) of the last two iterations, q = s / (s - 1) bounded to
-//! [[`Q_MIN`], [`Q_MAX`]] = [-5, 0] (the usual bounds of process simulation; q = 0 is direct
-//! substitution, negative q accelerates), x <- q x + (1 - q) g, flows kept non-negative. The
+//! [[`Q_MIN`], [`Q_MAX`]] = [-5, 0] by default (`solver: wegstein-bounds`; the usual bounds
+//! of process simulation, common practice; q = 0 is direct substitution, negative q
+//! accelerates, 0 < q < 1 damps), x <- q x + (1 - q) g, flows kept non-negative. For a linear
+//! loop of slope s the error shrinks by q (1 - s) + s a pass: a splitter returning 90 % of its
+//! flow (s = 0.9, q = -9 bounded to -5) converges by 0.4 a pass, one returning 99 % by only
+//! 0.94; a lower bound of -100 or more iterations suits such loops. The
 //! pressure is taken by direct substitution (it follows from the units' pressure rules, not
 //! from a slowly converging balance).
 //!
@@ -52,6 +56,8 @@ pub struct RecycleOptions {
     pub iteration_limit: usize,
     /// Tear streams named by the user; empty: chosen ([`super::tears`]).
     pub tear_streams: Vec<String>,
+    /// Bounds of Wegstein's factor q, lower and upper. Default [[`Q_MIN`], [`Q_MAX`]].
+    pub wegstein_bounds: [f64; 2],
 }
 
 impl Default for RecycleOptions {
@@ -60,14 +66,22 @@ impl Default for RecycleOptions {
             tolerance: DEFAULT_TOLERANCE,
             iteration_limit: DEFAULT_ITERATION_LIMIT,
             tear_streams: Vec::new(),
+            wegstein_bounds: [Q_MIN, Q_MAX],
         }
     }
 }
 
 impl RecycleOptions {
-    /// True when the tolerance is positive and finite and the limit at least one.
+    /// True when the tolerance is positive and finite, the limit at least one, and the
+    /// Wegstein bounds finite with lower <= upper < 1.
     pub fn is_valid(&self) -> bool {
-        self.tolerance > 0.0 && self.tolerance.is_finite() && self.iteration_limit >= 1
+        let [low, high] = self.wegstein_bounds;
+        self.tolerance > 0.0
+            && self.tolerance.is_finite()
+            && self.iteration_limit >= 1
+            && low.is_finite()
+            && low <= high
+            && high < 1.0
     }
 }
 
@@ -166,7 +180,12 @@ impl RecycleState {
 
     /// Update the slots from the tears as computed: direct substitution when `direct`, else
     /// bounded Wegstein per flow and temperature (pressure always by direct substitution).
-    pub fn update<'s>(&mut self, computed: impl Fn(usize) -> &'s Stream, direct: bool) {
+    pub fn update<'s>(
+        &mut self,
+        computed: impl Fn(usize) -> &'s Stream,
+        direct: bool,
+        bounds: [f64; 2],
+    ) {
         for (t, x) in self.slots.iter_mut().enumerate() {
             let g = computed(t);
             let n = g.flows.len();
@@ -182,7 +201,7 @@ impl RecycleState {
                 let q = if direct {
                     0.0
                 } else {
-                    wegstein_q(xj - px[j], gj - pg[j])
+                    wegstein_q(xj - px[j], gj - pg[j], bounds)
                 };
                 px[j] = xj;
                 pg[j] = gj;
@@ -212,8 +231,9 @@ impl RecycleState {
 }
 
 /// Wegstein's factor from the last change of a variable (`dx`) and of its computed value
-/// (`dg`), bounded to [Q_MIN, Q_MAX]; direct substitution (0) where the slope is undefined.
-pub(crate) fn wegstein_q(dx: f64, dg: f64) -> f64 {
+/// (`dg`), bounded to `bounds` (lower, upper); direct substitution (0) where the slope is
+/// undefined.
+pub(crate) fn wegstein_q(dx: f64, dg: f64, bounds: [f64; 2]) -> f64 {
     if dx == 0.0 || !dx.is_finite() || !dg.is_finite() {
         return 0.0;
     }
@@ -222,7 +242,7 @@ pub(crate) fn wegstein_q(dx: f64, dg: f64) -> f64 {
     if q.is_nan() {
         0.0
     } else {
-        q.clamp(Q_MIN, Q_MAX)
+        q.clamp(bounds[0], bounds[1])
     }
 }
 
@@ -262,6 +282,8 @@ pub(crate) fn finish(
 mod tests {
     use super::*;
 
+    const B: [f64; 2] = [Q_MIN, Q_MAX];
+
     #[test]
     fn wegstein_is_exact_for_a_linear_map_within_its_bounds() {
         // x = g(x) = a + s x has the fixed point a / (1 - s); with the slope known, one
@@ -269,7 +291,7 @@ mod tests {
         let (a, s) = (3.0, 0.6);
         let g = |x: f64| a + s * x;
         let (x0, x1) = (0.0, g(0.0));
-        let q = wegstein_q(x1 - x0, g(x1) - g(x0));
+        let q = wegstein_q(x1 - x0, g(x1) - g(x0), B);
         assert!((q - s / (s - 1.0)).abs() < 1e-15);
         let x2 = q * x1 + (1.0 - q) * g(x1);
         assert!((x2 - a / (1.0 - s)).abs() < 1e-12, "{x2}");
@@ -279,12 +301,12 @@ mod tests {
     fn the_factor_is_bounded() {
         // s = 0.9: q = -9 unbounded, -5 bounded; s = 2 (diverging): q = 2 -> 0; s = 1: q
         // infinite -> bound; no slope: direct substitution.
-        assert_eq!(wegstein_q(1.0, 0.9), Q_MIN);
-        assert_eq!(wegstein_q(1.0, 2.0), Q_MAX);
-        assert_eq!(wegstein_q(1.0, 1.0), Q_MAX);
-        assert_eq!(wegstein_q(0.0, 1.0), 0.0);
-        assert_eq!(wegstein_q(1.0, f64::NAN), 0.0);
-        assert!((wegstein_q(1.0, 0.5) + 1.0).abs() < 1e-15);
+        assert_eq!(wegstein_q(1.0, 0.9, B), Q_MIN);
+        assert_eq!(wegstein_q(1.0, 2.0, B), Q_MAX);
+        assert_eq!(wegstein_q(1.0, 1.0, B), Q_MAX);
+        assert_eq!(wegstein_q(0.0, 1.0, B), 0.0);
+        assert_eq!(wegstein_q(1.0, f64::NAN, B), 0.0);
+        assert!((wegstein_q(1.0, 0.5, B) + 1.0).abs() < 1e-15);
     }
 
     #[test]
@@ -313,17 +335,17 @@ mod tests {
         assert_eq!(st.slots[0].flows, vec![0.0]);
         assert_eq!(st.slots[0].pressure_pa, 2e6);
         let g1 = Stream::vapour(vec![4.0], 400.0, 1.9e6);
-        st.update(|_| &g1, true);
+        st.update(|_| &g1, true, B);
         assert_eq!(st.slots[0].flows, vec![4.0]);
         assert_eq!(st.slots[0].pressure_pa, 1.9e6);
         // Slope (1 - 4) / (4 - 0) = -0.75: q = 0.43 bounded to 0, direct substitution to 1.
         let g2 = Stream::vapour(vec![1.0], 400.0, 1.9e6);
-        st.update(|_| &g2, false);
+        st.update(|_| &g2, false, B);
         assert_eq!(st.slots[0].flows, vec![1.0]);
         // Slope (3 - 1)/(1 - 4) = -2/3, q = 0.4 -> 0. A steep rise (s = 0.9) extrapolates by
         // q = -5 and could go negative; it is held at zero.
         let g3 = Stream::vapour(vec![1.0 - 0.9 * 3.0], 400.0, 1.9e6);
-        st.update(|_| &g3, false);
+        st.update(|_| &g3, false, B);
         assert!(st.slots[0].flows[0] >= 0.0);
     }
 }

@@ -395,7 +395,7 @@ fn solve_loops(
             converged = true;
             break;
         }
-        state.update(computed, iterations == 1);
+        state.update(computed, iterations == 1, plan.options.wegstein_bounds);
     }
     if let Some(record) = parts.result.recycle.as_mut() {
         recycle::finish(record, iterations, residual, converged);

@@ -253,6 +253,8 @@ pub struct SolverModel {
     pub recycle_iterations: Option<usize>,
     /// Tear streams (chosen when not given).
     pub tear_streams: Option<Names>,
+    /// Bounds of Wegstein's factor q: [lower, upper].
+    pub wegstein_bounds: Option<[f64; 2]>,
 }
 
 impl SolverModel {
@@ -293,11 +295,16 @@ impl SolverModel {
                 .tear_streams
                 .as_ref()
                 .map_or_else(Vec::new, |n| n.0.clone()),
+            wegstein_bounds: self.wegstein_bounds.unwrap_or(d.wegstein_bounds),
         };
         if o.is_valid() {
             Ok(o)
         } else {
-            Err("every tolerance must be positive and finite and every limit at least 1".into())
+            Err(
+                "every tolerance must be positive and finite, every limit at least 1, and \
+                 `wegstein-bounds` two finite numbers, lower first, below 1"
+                    .into(),
+            )
         }
     }
 }
