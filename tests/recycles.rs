@@ -11,12 +11,44 @@
 //!   gas, cp = 5/2 R; NIST-JANAF (Chase 1998), table Ar-001, lists Cp = 20.786 J/(mol K) at every
 //!   temperature.
 
+use std::alloc::{GlobalAlloc, Layout, System};
+use std::cell::Cell;
 use std::path::Path;
 use std::process::{Command, Output, Stdio};
 
 use serde_json::Value;
 use syntrain::flowsheet::Flowsheet;
 use syntrain::thermo::SpeciesDb;
+
+/// A global allocator counting the allocations of the current thread (tests run in parallel).
+struct Counting;
+
+thread_local! {
+    static ALLOCATIONS: Cell<usize> = const { Cell::new(0) };
+}
+
+fn count() {
+    let _ = ALLOCATIONS.try_with(|c| c.set(c.get() + 1));
+}
+
+unsafe impl GlobalAlloc for Counting {
+    unsafe fn alloc(&self, layout: Layout) -> *mut u8 {
+        count();
+        unsafe { System.alloc(layout) }
+    }
+
+    unsafe fn dealloc(&self, ptr: *mut u8, layout: Layout) {
+        unsafe { System.dealloc(ptr, layout) }
+    }
+
+    unsafe fn realloc(&self, ptr: *mut u8, layout: Layout, new_size: usize) -> *mut u8 {
+        count();
+        unsafe { System.realloc(ptr, layout, new_size) }
+    }
+}
+
+#[global_allocator]
+static GLOBAL: Counting = Counting;
 
 /// NIST-JANAF (Chase 1998), Ar-001: Cp of argon, J/(mol K), constant.
 const ARGON_CP: f64 = 20.786;
@@ -199,6 +231,23 @@ fn temperature_iterates_through_a_heated_loop() {
 }
 
 #[test]
+fn a_design_target_is_met_around_a_recycle() {
+    // The heater duty for a product at 500 K: energy balance (analytic) Q = F cp (T - T_F).
+    let text = heated_loop(0.6)
+        + "targets:\n  - vary: units.heater.duty\n    between: [10 kW, 500 kW]\n    \
+           so-that: streams.out.temperature_K\n    equals: 500\n";
+    let v = solve_json(&text);
+    let expected_kw = 100.0 / 3.6 * ARGON_CP * (500.0 - 373.15) / 1e3;
+    let duty = f(&v["units"]["heater"]["duty_kW"]);
+    assert!(
+        (duty - expected_kw).abs() < 1e-3,
+        "{duty} kW against {expected_kw}"
+    );
+    assert_eq!(v["targets"][0]["met"], Value::Bool(true));
+    assert_eq!(v["recycles"]["converged"], Value::Bool(true));
+}
+
+#[test]
 fn a_loop_that_cannot_converge_in_time_is_an_error_naming_the_tear() {
     let e = solve_error(&mixer_splitter(0.999, "recycle-iterations: 3"));
     assert!(
@@ -320,4 +369,24 @@ fn a_workspace_starts_from_its_converged_tears_until_it_forgets_them() {
     let rec = once.recycle.unwrap();
     assert_eq!(rec.tear_streams, vec!["back"]);
     assert!(rec.termination.is_converged());
+}
+
+#[test]
+fn recycle_iterations_allocate_nothing_once_warm() {
+    let db = SpeciesDb::embedded().unwrap();
+    let fs = Flowsheet::from_yaml_str("loop", &mixer_splitter(0.9, "{}"), &db).unwrap();
+    let params = fs.parameters();
+    let mut ws = fs.workspace(&db);
+    for _ in 0..2 {
+        ws.forget();
+        fs.solve_in(&db, &params, &mut ws).unwrap();
+    }
+    // From the first guess again: every pass of the iteration, with the buffers sized.
+    ws.forget();
+    let before = ALLOCATIONS.with(Cell::get);
+    fs.solve_in(&db, &params, &mut ws).unwrap();
+    let after = ALLOCATIONS.with(Cell::get);
+    let iterations = ws.result().recycle.as_ref().unwrap().iterations;
+    assert!(iterations > 10, "{iterations}");
+    assert_eq!(after - before, 0, "{iterations} passes allocated");
 }
