@@ -269,6 +269,19 @@ fn a_loop_that_cannot_converge_in_time_is_an_error_naming_the_tear() {
 }
 
 #[test]
+fn a_pressure_falling_around_the_loop_is_named() {
+    // The mixer leaves at its lowest inlet pressure, so 0.5 bar lost in the heater is lost
+    // again on every pass: the loop has no steady state.
+    let text = heated_loop(0.5).replace("duty: 100 kW", "duty: 100 kW\n    pressure-drop: 0.5 bar");
+    let e = solve_error(&text);
+    assert!(
+        e.contains("pressure of tear stream 'back' fell on each of the last")
+            && e.contains("by 0.5000 bar"),
+        "{e}"
+    );
+}
+
+#[test]
 fn named_tear_streams_are_honoured_and_checked() {
     let v = solve_json(&mixer_splitter(0.5, "tear-streams: [mid]"));
     assert_eq!(v["recycles"]["tear_streams"], serde_json::json!(["mid"]));

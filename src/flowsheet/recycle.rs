@@ -123,6 +123,8 @@ pub(crate) struct RecycleState {
     pub warm: bool,
     /// The variable that changed most in the last iteration.
     pub worst: Worst,
+    /// Passes in a row in which the pressure of a tear fell, that tear and its last fall, Pa.
+    pressure_falls: (usize, usize, f64),
 }
 
 impl RecycleState {
@@ -136,6 +138,7 @@ impl RecycleState {
             previous_g: vec![0.0; tears * (species + 1)],
             warm: false,
             worst: Worst::Nothing,
+            pressure_falls: (0, 0, 0.0),
         }
     }
 
@@ -159,8 +162,12 @@ impl RecycleState {
         let mut worst = 0.0f64;
         self.worst = Worst::Nothing;
         let floor = (1e-12 * feed_total).max(f64::MIN_POSITIVE);
+        let mut fell = None;
         for (t, x) in self.slots.iter().enumerate() {
             let g = computed(t);
+            if g.pressure_pa < x.pressure_pa * (1.0 - 1e-12) && fell.is_none() {
+                fell = Some((t, x.pressure_pa - g.pressure_pa));
+            }
             let scale = g.total().min(feed_total).max(floor);
             let mut note = |r: f64, w: Worst| {
                 if !(r <= worst) {
@@ -175,7 +182,27 @@ impl RecycleState {
             note(rel(g.temperature_k, x.temperature_k), Worst::Temperature(t));
             note(rel(g.pressure_pa, x.pressure_pa), Worst::Pressure(t));
         }
+        self.pressure_falls = match fell {
+            Some((t, dp)) => (self.pressure_falls.0 + 1, t, dp),
+            None => (0, 0, 0.0),
+        };
         worst
+    }
+
+    /// Why a loop whose tear pressure fell on each of the last three or more passes cannot
+    /// converge (a loop whose inlet takes the lowest pressure loses its pressure drops on every
+    /// pass); `None` otherwise.
+    pub fn pressure_note(&self, tears: &[String]) -> Option<String> {
+        let (passes, t, dp) = self.pressure_falls;
+        (passes >= 3).then(|| {
+            format!(
+                "the pressure of tear stream '{}' fell on each of the last {passes} passes (by \
+                 {:.4} bar on the last): the pressure drops around the loop are never made up (a \
+                 mixer leaves at its lowest inlet pressure); take them out of the loop",
+                tears.get(t).map_or("?", String::as_str),
+                dp / 1e5
+            )
+        })
     }
 
     /// Update the slots from the tears as computed: direct substitution when `direct`, else
@@ -326,6 +353,16 @@ mod tests {
         assert!((r - 50.0 / 550.0).abs() < 1e-12);
         let words = st.describe_worst(&["back".into()], |i| format!("s{i}"));
         assert_eq!(words, "the temperature of 'back'");
+        // A pressure falling by 0.3 bar on three passes in a row is named.
+        let tears = ["back".to_string()];
+        for k in 0..3 {
+            st.slots[0].pressure_pa = 1e6 - k as f64 * 0.3e5;
+            let g = Stream::vapour(vec![1.0, 2.0], 550.0, st.slots[0].pressure_pa - 0.3e5);
+            assert_eq!(st.pressure_note(&tears).is_some(), k == 3);
+            st.residual(|_| &g, 1.0);
+        }
+        let note = st.pressure_note(&tears).unwrap();
+        assert!(note.contains("'back' fell on each of the last 3 passes (by 0.3000 bar"));
     }
 
     #[test]

@@ -245,10 +245,13 @@ pub(crate) fn solve_in<'w>(
         }
         Some(plan) => {
             let outcome = solve_loops(fs, db, params, plan, &mut parts, recycle);
-            if outcome.is_err() {
+            if let Err(e) = outcome {
                 recycle.warm = false;
+                return Err(match recycle.pressure_note(&plan.tears) {
+                    Some(note) => e.context(note),
+                    None => e,
+                });
             }
-            outcome?;
         }
     }
     let result = parts.result;
