@@ -377,11 +377,14 @@ fn a_workspace_starts_from_its_converged_tears_until_it_forgets_them() {
     ws.forget();
     fs.solve_in(&db, &params, &mut ws).unwrap();
     assert_eq!(iterations(&ws), cold);
-    // The one-off solve agrees.
+    // The one-off solve agrees; started from a previous result, it starts from its tears.
     let once = fs.solve(&db).unwrap();
-    let rec = once.recycle.unwrap();
+    let rec = once.recycle.as_ref().unwrap();
     assert_eq!(rec.tear_streams, vec!["back"]);
     assert!(rec.termination.is_converged());
+    assert_eq!(rec.iterations, cold);
+    let again = fs.solve_with(&db, &params, Some(&once)).unwrap();
+    assert_eq!(again.recycle.unwrap().iterations, 1);
 }
 
 #[test]

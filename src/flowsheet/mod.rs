@@ -8,6 +8,11 @@
 //! within 1e-9 and the energy balance within 1e-6 (relative); a flowsheet that does not close
 //! is an error, never a result.
 //!
+//! Recycles: a flowsheet whose units form cycles is torn ([`tears`]: the fewest tear streams,
+//! or those named under `solver: tear-streams`), solved in the order of the graph without its
+//! tears, and the tears converged by bounded Wegstein iteration ([`recycle`]); the result holds
+//! a [`RecycleRecord`]. A flowsheet without cycles is solved in one pass, as before.
+//!
 //! Design targets ([`targets`]): the file's `targets:` (and any built in code) adjust one input
 //! each so that one result meets a value, by Brent's method around the whole solve; several are
 //! met in file order, each with the others held, in rounds until all hold at once (at most
