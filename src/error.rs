@@ -134,6 +134,27 @@ pub enum Error {
         reason: String,
     },
 
+    /// The recycle iteration of a flowsheet with cycles did not converge within its limit.
+    #[error(
+        "the recycle did not converge: after {iterations} iterations the tear streams \
+         {tear_streams} still change by {residual:.3e} (scaled; at most {tolerance:e} allowed), \
+         most in {worst}; allow more iterations (`solver: recycle-iterations`), tear the loop \
+         at another stream (`solver: tear-streams`), or check the loop (a recycle that grows \
+         without bound, a pressure that falls on every pass)"
+    )]
+    RecycleNotConverged {
+        /// The tear streams, quoted and comma separated.
+        tear_streams: String,
+        /// Iterations taken.
+        iterations: usize,
+        /// Largest scaled change in the last iteration.
+        residual: f64,
+        /// The tolerance it had to meet.
+        tolerance: f64,
+        /// The variable that changed most, in words.
+        worst: String,
+    },
+
     /// A YAML file could not be read into the model.
     #[error("{path}{}: {message}", Position::suffix(position))]
     Yaml {

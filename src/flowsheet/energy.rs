@@ -445,6 +445,7 @@ mod tests {
             element_balance_residual: 0.0,
             energy_balance_residual: 0.0,
             targets: Vec::new(),
+            recycle: None,
         };
         let table = EnergyTable {
             lhv: lhv_table(&db),

@@ -4,14 +4,15 @@
 //!
 //! The solve order is a topological order (Kahn 1962, "Topological sorting of large networks",
 //! Communications of the ACM 5(11)) that keeps the file order wherever the connections allow it.
-//! A cycle is reported with its streams, found as a strongly connected component (Tarjan 1972,
-//! "Depth-first search and linear graph algorithms", SIAM J. Computing 1(2)).
+//! Cycles (recycles) are torn ([`super::tears`]): the solve order is the topological order of
+//! the graph without its tear streams, and the recycle iteration converges the tears.
 
 use std::collections::HashMap;
 
 use petgraph::graph::{DiGraph, NodeIndex};
 use petgraph::Direction;
 
+use super::tears::Tearing;
 use crate::error::Error;
 
 /// A node of the flowsheet graph.
@@ -49,6 +50,8 @@ pub struct FlowGraph {
     /// For each unit (file order), the units it heats (file order indices); each heated unit
     /// has an edge to its heater, so that it is solved first.
     pub heats: Vec<Vec<usize>>,
+    /// Tear streams and the units on cycles ([`super::tears`]); empty without a cycle.
+    pub tearing: Tearing,
 }
 
 /// Where in the file a graph error points: a unit's key (`name`, `from`, `to`) and the
@@ -85,8 +88,18 @@ enum Maker {
     Unit(usize),
 }
 
-/// Build and check the graph of `feeds` (names) and `units`.
+/// Build and check the graph of `feeds` (names) and `units`, tearing its cycles where it has
+/// any ([`super::tears`]).
 pub fn build(feeds: &[&str], units: &[UnitPorts<'_>]) -> Result<FlowGraph, GraphError> {
+    build_with(feeds, units, &[])
+}
+
+/// [`build`], with the tear streams named by the user (`solver: tear-streams`; empty: chosen).
+pub fn build_with(
+    feeds: &[&str],
+    units: &[UnitPorts<'_>],
+    named_tears: &[String],
+) -> Result<FlowGraph, GraphError> {
     let mut unit_names: HashMap<&str, usize> = HashMap::new();
     for (i, unit) in units.iter().enumerate() {
         if unit_names.insert(unit.name, i).is_some() {
@@ -196,14 +209,19 @@ pub fn build(feeds: &[&str], units: &[UnitPorts<'_>]) -> Result<FlowGraph, Graph
     }
 
     let heats = heat_links(&unit_names, units)?;
+    let mut links = Vec::new();
     for (u, heated) in heats.iter().enumerate() {
         for &h in heated {
             let label = format!("heat from {} to {}", units[u].name, units[h].name);
-            graph.add_edge(unit_nodes[h], unit_nodes[u], label);
+            links.push(graph.add_edge(unit_nodes[h], unit_nodes[u], label));
         }
     }
 
-    let order = solve_order(&graph, &unit_nodes, units)?;
+    let tearing = super::tears::tear(&graph, named_tears, &links).map_err(|e| GraphError {
+        error: Box::new(e),
+        at: None,
+    })?;
+    let order = solve_order(&graph, &unit_nodes, units, &tearing.tears)?;
     // Products listed feeds first, then in solve order.
     let products: Vec<String> = feeds
         .iter()
@@ -216,6 +234,7 @@ pub fn build(feeds: &[&str], units: &[UnitPorts<'_>]) -> Result<FlowGraph, Graph
         order,
         products,
         heats,
+        tearing,
     })
 }
 
@@ -262,18 +281,22 @@ fn heat_links(
     Ok(out)
 }
 
-/// Kahn's algorithm over the units, taking the first unit in file order among those ready.
+/// Kahn's algorithm over the units, taking the first unit in file order among those ready; the
+/// `tears` do not count as connections.
 fn solve_order(
     graph: &DiGraph<Node, String>,
     unit_nodes: &[NodeIndex],
     units: &[UnitPorts<'_>],
+    tears: &[String],
 ) -> Result<Vec<usize>, GraphError> {
+    let torn = |e: &petgraph::graph::EdgeReference<'_, String>| tears.contains(e.weight());
     let mut waiting: Vec<usize> = unit_nodes
         .iter()
         .map(|&n| {
             graph
                 .edges_directed(n, Direction::Incoming)
                 .filter(|e| matches!(graph[petgraph::visit::EdgeRef::source(e)], Node::Unit(_)))
+                .filter(|e| !torn(e))
                 .count()
         })
         .collect();
@@ -283,6 +306,9 @@ fn solve_order(
         done[next] = true;
         order.push(next);
         for edge in graph.edges_directed(unit_nodes[next], Direction::Outgoing) {
+            if torn(&edge) {
+                continue;
+            }
             if let Node::Unit(user) = graph[petgraph::visit::EdgeRef::target(&edge)] {
                 waiting[user] -= 1;
             }
@@ -317,8 +343,8 @@ fn cycle_error(graph: &DiGraph<Node, String>) -> Error {
         cycles.push(names.join(", "));
     }
     flowsheet_error(format!(
-        "the units form a cycle through streams {}; recycles are not supported yet: break the \
-         loop with a feed that stands for the recycled stream",
+        "the units form a cycle through streams {} that the tear streams do not break \
+         (internal error)",
         cycles.join("; and through ")
     ))
 }
@@ -369,12 +395,21 @@ mod tests {
     }
 
     #[test]
-    fn a_cycle_names_its_streams() {
+    fn a_cycle_is_torn_and_ordered_without_its_tear() {
         let (a_in, a_out) = (s(&["feed", "back"]), s(&["mid"]));
         let (b_in, b_out) = (s(&["mid"]), s(&["back", "out"]));
         let units = [ports("a", &a_in, &a_out), ports("b", &b_in, &b_out)];
-        let e = build(&["feed"], &units).unwrap_err().error.to_string();
-        assert!(e.contains("cycle through streams 'mid', 'back'"), "{e}");
+        let g = build(&["feed"], &units).unwrap();
+        assert_eq!(g.tearing.tears, vec!["back"]);
+        assert_eq!(g.order, vec![0, 1]);
+        // Torn at `mid` instead, unit b comes first.
+        let g = build_with(&["feed"], &units, &s(&["mid"])).unwrap();
+        assert_eq!(g.order, vec![1, 0]);
+        let e = build_with(&["feed"], &units, &s(&["out"]))
+            .unwrap_err()
+            .error
+            .to_string();
+        assert!(e.contains("'out'") && e.contains("not in a cycle"), "{e}");
     }
 
     #[test]

@@ -8,6 +8,11 @@
 //! within 1e-9 and the energy balance within 1e-6 (relative); a flowsheet that does not close
 //! is an error, never a result.
 //!
+//! Recycles: a flowsheet whose units form cycles is torn ([`tears`]: the fewest tear streams,
+//! or those named under `solver: tear-streams`), solved in the order of the graph without its
+//! tears, and the tears converged by bounded Wegstein iteration ([`recycle`]); the result holds
+//! a [`RecycleRecord`]. A flowsheet without cycles is solved in one pass, as before.
+//!
 //! Design targets ([`targets`]): the file's `targets:` (and any built in code) adjust one input
 //! each so that one result meets a value, by Brent's method around the whole solve; several are
 //! met in file order, each with the others held, in rounds until all hold at once (at most
@@ -23,10 +28,12 @@ pub mod feeds;
 pub mod graph;
 pub mod locate;
 pub mod paths;
+pub mod recycle;
 pub mod result;
 mod solve;
 pub mod spec;
 pub mod targets;
+pub mod tears;
 pub mod values;
 pub mod yaml;
 
@@ -36,7 +43,11 @@ pub use feeds::Feed;
 pub use feeds::FeedInputs;
 pub use graph::FlowGraph;
 pub use paths::{ResultPath, ResultSlot};
-pub use result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Summary};
+pub use recycle::RecycleOptions;
+pub use result::{
+    FlowsheetResult, RecycleRecord, RecycleTermination, SolvedStream, SolvedUnit, StreamSource,
+    Summary,
+};
 pub use solve::{Workspace, ELEMENT_BALANCE_TOLERANCE, ENERGY_BALANCE_TOLERANCE};
 pub use spec::FlowsheetUnit;
 pub use targets::{Target, TargetOutcome};
@@ -74,15 +85,26 @@ pub struct Flowsheet {
     steam_feed: Option<String>,
     /// What the plant's energy figures need (`energy:`, heating values, which feeds are fuel).
     energy: energy::EnergyTable,
+    /// The tears and the iterated range of a flowsheet with cycles; `None` without.
+    recycle: Option<recycle::RecyclePlan>,
 }
 
 /// Where a unit's inlets and outlets sit among the streams of a result.
 #[derive(Debug, Clone)]
 struct UnitIo {
-    inlets: Vec<usize>,
+    inlets: Vec<Inlet>,
     first_outlet: usize,
     /// The units it heats, as positions in the solve order (solved before it).
     heated: Vec<usize>,
+}
+
+/// Where a unit reads an inlet: a stream of the result made before it, or a tear slot.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Inlet {
+    /// Index among the streams of a result.
+    Stream(usize),
+    /// Index among the tear streams.
+    Tear(usize),
 }
 
 impl Flowsheet {
@@ -174,26 +196,28 @@ impl Flowsheet {
                 heats: &m.heats,
             })
             .collect();
-        let graph = graph::build(&feed_names, &ports).map_err(|e| match e.at {
-            Some(at) => {
-                let path = [Key("units"), Index(at.unit), Key(at.key), Index(at.index)];
-                let location =
-                    locate::locate(text, &path).or_else(|| locate::locate(text, &path[..3]));
-                let name = &units[at.unit].name;
-                locate::annotate(
-                    *e.error,
-                    origin,
-                    location,
-                    &format!("units.{name}.{}", at.key),
-                )
-            }
-            None => *e.error,
-        })?;
+        let graph = graph::build_with(&feed_names, &ports, &model.recycle.tear_streams).map_err(
+            |e| match e.at {
+                Some(at) => {
+                    let path = [Key("units"), Index(at.unit), Key(at.key), Index(at.index)];
+                    let location =
+                        locate::locate(text, &path).or_else(|| locate::locate(text, &path[..3]));
+                    let name = &units[at.unit].name;
+                    locate::annotate(
+                        *e.error,
+                        origin,
+                        location,
+                        &format!("units.{name}.{}", at.key),
+                    )
+                }
+                None => *e.error,
+            },
+        )?;
         let title = model.title.unwrap_or_else(|| origin.to_string());
         let energy =
             energy::EnergyTable::new(db, &feeds, &units, &graph, &model.energy, &mut params);
         let defaults = params.defaults();
-        let layout = layout(&feeds, &units, &graph);
+        let (layout, recycle) = layout(&feeds, &units, &graph, &model.recycle);
         let mut flowsheet = Flowsheet {
             title,
             origin: origin.to_string(),
@@ -209,6 +233,7 @@ impl Flowsheet {
             targets: Vec::new(),
             steam_feed: model.steam_feed.clone(),
             energy,
+            recycle,
         };
         targets::check_steam_feed(&flowsheet, origin, text, model.steam_feed.as_deref())?;
         flowsheet.targets = targets::from_file(&flowsheet, origin, text, &model.targets)?;
@@ -289,6 +314,12 @@ impl Flowsheet {
         &self.options
     }
 
+    /// The tear streams of the flowsheet's cycles (named under `solver: tear-streams` or
+    /// chosen, [`tears`]); empty without cycles.
+    pub fn tear_streams(&self) -> &[String] {
+        &self.graph.tearing.tears
+    }
+
     /// The title (the file's `title`, else its name).
     pub fn title(&self) -> &str {
         &self.title
@@ -321,8 +352,15 @@ impl Flowsheet {
 }
 
 /// Stream indices of each unit's inlets and first outlet, in solve order (the streams of a
-/// result are the feeds in file order, then each unit's outlets in solve order).
-fn layout(feeds: &[Feed], units: &[FlowsheetUnit], graph: &FlowGraph) -> Vec<UnitIo> {
+/// result are the feeds in file order, then each unit's outlets in solve order; a tear stream
+/// is read from its slot), and the recycle plan where the graph has tears.
+fn layout(
+    feeds: &[Feed],
+    units: &[FlowsheetUnit],
+    graph: &FlowGraph,
+    options: &RecycleOptions,
+) -> (Vec<UnitIo>, Option<recycle::RecyclePlan>) {
+    let tears = &graph.tearing.tears;
     let mut names: Vec<&str> = feeds.iter().map(|f| f.name.as_str()).collect();
     let mut out = Vec::with_capacity(units.len());
     for &u in &graph.order {
@@ -330,7 +368,10 @@ fn layout(feeds: &[Feed], units: &[FlowsheetUnit], graph: &FlowGraph) -> Vec<Uni
         let inlets = unit
             .inlets
             .iter()
-            .map(|i| names.iter().position(|n| n == i).unwrap_or(usize::MAX))
+            .map(|i| match tears.iter().position(|t| t == i) {
+                Some(t) => Inlet::Tear(t),
+                None => Inlet::Stream(names.iter().position(|n| n == i).unwrap_or(usize::MAX)),
+            })
             .collect();
         let heated = graph.heats[u]
             .iter()
@@ -343,5 +384,27 @@ fn layout(feeds: &[Feed], units: &[FlowsheetUnit], graph: &FlowGraph) -> Vec<Uni
         });
         names.extend(unit.outlets.iter().map(String::as_str));
     }
-    out
+    if tears.is_empty() {
+        return (out, None);
+    }
+    let looped = &graph.tearing.looped_units;
+    let positions = || {
+        graph
+            .order
+            .iter()
+            .enumerate()
+            .filter(|(_, u)| looped.contains(u))
+            .map(|(k, _)| k)
+    };
+    let plan = recycle::RecyclePlan {
+        options: options.clone(),
+        tears: tears.clone(),
+        stream_index: tears
+            .iter()
+            .map(|t| names.iter().position(|n| n == t).unwrap_or(usize::MAX))
+            .collect(),
+        first: positions().min().unwrap_or(0),
+        last: positions().max().unwrap_or(0),
+    };
+    (out, Some(plan))
 }

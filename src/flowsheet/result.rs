@@ -106,4 +106,48 @@ pub struct FlowsheetResult {
     /// The design targets this solve met (file targets first, then those added in code); empty
     /// without targets.
     pub targets: Vec<super::targets::TargetOutcome>,
+    /// How the recycles converged; `None` for a flowsheet without cycles.
+    pub recycle: Option<RecycleRecord>,
+}
+
+/// How a flowsheet's recycle iteration ended ([`super::recycle`]).
+#[derive(Debug, Clone, PartialEq)]
+pub struct RecycleRecord {
+    /// The tear streams, in the order they were named or chosen.
+    pub tear_streams: Vec<String>,
+    /// Iterations taken (each solves every unit on a cycle once).
+    pub iterations: usize,
+    /// Largest scaled change of the tears in the last iteration (dimensionless).
+    pub residual: f64,
+    /// Why the iteration stopped.
+    pub termination: RecycleTermination,
+}
+
+/// Why a recycle iteration stopped.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum RecycleTermination {
+    /// Not solved yet (a fresh workspace).
+    #[default]
+    NotSolved,
+    /// Every tear changed by no more than the tolerance.
+    Converged,
+    /// The iteration limit was reached first (a solve reports this as an error).
+    IterationLimit,
+}
+
+impl RecycleTermination {
+    /// True for [`RecycleTermination::Converged`].
+    pub fn is_converged(self) -> bool {
+        self == RecycleTermination::Converged
+    }
+}
+
+impl std::fmt::Display for RecycleTermination {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(match self {
+            RecycleTermination::NotSolved => "not solved",
+            RecycleTermination::Converged => "converged",
+            RecycleTermination::IterationLimit => "iteration limit reached",
+        })
+    }
 }

@@ -10,9 +10,13 @@
 //! A flowsheet that fails either check is an error, never a result. The plant summary reads the
 //! figures the units publish.
 
-use super::result::{FlowsheetResult, SolvedStream, SolvedUnit, StreamSource, Summary};
+use super::recycle::{self, RecyclePlan, RecycleState};
+use super::result::{
+    FlowsheetResult, RecycleRecord, RecycleTermination, SolvedStream, SolvedUnit, StreamSource,
+    Summary,
+};
 use super::targets::TargetOutcome;
-use super::Flowsheet;
+use super::{Flowsheet, Inlet};
 use crate::error::{Error, Result};
 use crate::reaction::organic_carbon_atoms;
 use crate::thermo::{mixture, water, SpeciesDb};
@@ -84,6 +88,8 @@ pub struct Workspace {
     guess: Vec<f64>,
     /// Whether each unit (solve order) holds a converged solution to start from.
     warm: Vec<bool>,
+    /// The tear slots and Wegstein memory of a flowsheet with cycles (empty without).
+    recycle: RecycleState,
 }
 
 impl Workspace {
@@ -97,6 +103,7 @@ impl Workspace {
     pub fn forget(&mut self) {
         self.warm.iter_mut().for_each(|w| *w = false);
         self.scratch.iter_mut().for_each(|s| s.carbon.forget());
+        self.recycle.warm = false;
     }
 
     /// The last result written, owned.
@@ -157,12 +164,24 @@ pub(crate) fn workspace(fs: &Flowsheet, db: &SpeciesDb) -> Workspace {
             element_balance_residual: 0.0,
             energy_balance_residual: 0.0,
             targets: Vec::new(),
+            recycle: fs.recycle.as_ref().map(|plan| RecycleRecord {
+                tear_streams: plan.tears.clone(),
+                iterations: 0,
+                residual: 0.0,
+                termination: RecycleTermination::NotSolved,
+            }),
         },
         scratch: (0..fs.units.len())
             .map(|_| UnitScratch::default())
             .collect(),
         guess: Vec::new(),
         warm: vec![false; fs.units.len()],
+        recycle: fs
+            .recycle
+            .as_ref()
+            .map_or_else(RecycleState::default, |plan| {
+                RecycleState::new(plan.tears.len(), db.len())
+            }),
     }
 }
 
@@ -191,11 +210,12 @@ pub(crate) fn solve_in<'w>(
         scratch,
         guess,
         warm,
+        recycle,
     } = ws;
     result.warnings.clear();
     result.targets.clear();
-    for (k, (feed, inputs)) in fs.feeds.iter().zip(&fs.feed_inputs).enumerate() {
-        feed.stream_into(db, inputs, params, defaults, &mut result.streams[k].stream)?;
+    load_feeds(fs, db, params, &mut result.streams)?;
+    for (k, feed) in fs.feeds.iter().enumerate() {
         if result.streams[k].destination.is_none() {
             result.warnings.push(
                 Warning::new(
@@ -211,67 +231,30 @@ pub(crate) fn solve_in<'w>(
             result.warnings.push(w);
         }
     }
-    for (k, &u) in fs.graph.order.iter().enumerate() {
-        let unit = &fs.units[u];
-        let io = &fs.layout[k];
-        // Heat the unit delivers to the units it heats (solved before it).
-        scratch[k].heat_demand_w = io
-            .heated
-            .iter()
-            .map(|&j| result.units[j].result.duty_w)
-            .sum();
-        let solved = &mut result.units[k];
-        // Warm start: the extents of this workspace's previous solution of the unit.
-        guess.clear();
-        if warm[k] {
-            if let Some(e) = &solved.result.equilibrium {
-                guess.extend_from_slice(&e.extents);
+    let mut parts = Parts {
+        result,
+        scratch,
+        guess,
+        warm,
+    };
+    match &fs.recycle {
+        None => {
+            for k in 0..fs.graph.order.len() {
+                solve_unit(fs, db, params, k, &mut parts, &[])?;
             }
         }
-        warm[k] = false;
-        let (before, after) = result.streams.split_at_mut(io.first_outlet);
-        let cx = UnitContext {
-            db,
-            name: &unit.name,
-            params,
-            defaults,
-        };
-        let g = (!guess.is_empty()).then_some(guess.as_slice());
-        scratch[k].options = fs.options;
-        let outcome = with_inlets(before, &io.inlets, |inlets| {
-            unit.unit
-                .solve_into(&cx, inlets, g, &mut scratch[k], &mut solved.result)
-        });
-        outcome.map_err(|e| {
-            e.context(format!(
-                "solving unit '{}' ({})",
-                unit.name, unit.unit_type.name
-            ))
-        })?;
-        let r = &solved.result;
-        set_inlet_flows(fs, &unit.name, &io.inlets, &r.inlet_flows, before)?;
-        if r.outlets.len() != unit.outlets.len() {
-            return Err(Error::Flowsheet {
-                reason: format!(
-                    "unit '{}' made {} outlet streams but lists {} in `to` (internal error)",
-                    unit.name,
-                    r.outlets.len(),
-                    unit.outlets.len()
-                ),
-            });
+        Some(plan) => {
+            let outcome = solve_loops(fs, db, params, plan, &mut parts, recycle);
+            if let Err(e) = outcome {
+                recycle.warm = false;
+                return Err(match recycle.pressure_note(&plan.tears) {
+                    Some(note) => e.context(note),
+                    None => e,
+                });
+            }
         }
-        for (j, outlet) in r.outlets.iter().enumerate() {
-            let target = &mut after[j].stream;
-            target.flows.clear();
-            target.flows.extend_from_slice(&outlet.flows);
-            target.temperature_k = outlet.temperature_k;
-            target.pressure_pa = outlet.pressure_pa;
-            target.phase = outlet.phase;
-            check_phase(db, &unit.name, &after[j].name, target)?;
-        }
-        result.warnings.extend(r.warnings.iter().cloned());
-        warm[k] = true;
     }
+    let result = parts.result;
     summary(&mut result.summary, &result.units);
     hydrogen_made(&mut result.summary, &fs.elements, &result.streams);
     super::energy::summary(&fs.energy, db, params, result);
@@ -280,29 +263,211 @@ pub(crate) fn solve_in<'w>(
     Ok(result)
 }
 
+/// The parts of a workspace a unit solve writes.
+struct Parts<'w> {
+    result: &'w mut FlowsheetResult,
+    scratch: &'w mut [UnitScratch],
+    guess: &'w mut Vec<f64>,
+    warm: &'w mut [bool],
+}
+
+/// Write every feed stream from the parameter vector.
+fn load_feeds(
+    fs: &Flowsheet,
+    db: &SpeciesDb,
+    params: &[f64],
+    streams: &mut [SolvedStream],
+) -> Result<()> {
+    for (k, (feed, inputs)) in fs.feeds.iter().zip(&fs.feed_inputs).enumerate() {
+        feed.stream_into(db, inputs, params, &fs.defaults, &mut streams[k].stream)?;
+    }
+    Ok(())
+}
+
+/// Solve the unit at solve-order position `k` from its inlets (tear inlets from `tears`) and
+/// write its outlets, warnings and the flows it sets.
+fn solve_unit(
+    fs: &Flowsheet,
+    db: &SpeciesDb,
+    params: &[f64],
+    k: usize,
+    parts: &mut Parts<'_>,
+    tears: &[Stream],
+) -> Result<()> {
+    let defaults = &fs.defaults;
+    let unit = &fs.units[fs.graph.order[k]];
+    let io = &fs.layout[k];
+    let result = &mut *parts.result;
+    // Heat the unit delivers to the units it heats (solved before it, in this pass).
+    let heat_demand_w: f64 = io
+        .heated
+        .iter()
+        .map(|&j| result.units[j].result.duty_w)
+        .sum();
+    let solved = &mut result.units[k];
+    let guess = &mut *parts.guess;
+    // Warm start: the extents of this workspace's previous solution of the unit.
+    guess.clear();
+    if parts.warm[k] {
+        if let Some(e) = &solved.result.equilibrium {
+            guess.extend_from_slice(&e.extents);
+        }
+    }
+    parts.warm[k] = false;
+    let (before, after) = result.streams.split_at_mut(io.first_outlet);
+    let cx = UnitContext {
+        db,
+        name: &unit.name,
+        params,
+        defaults,
+    };
+    let g = (!guess.is_empty()).then_some(guess.as_slice());
+    let scratch = &mut parts.scratch[k];
+    scratch.options = fs.options;
+    scratch.heat_demand_w = heat_demand_w;
+    let outcome = with_inlets(before, tears, &io.inlets, |inlets| {
+        unit.unit
+            .solve_into(&cx, inlets, g, scratch, &mut solved.result)
+    });
+    outcome.map_err(|e| {
+        e.context(format!(
+            "solving unit '{}' ({})",
+            unit.name, unit.unit_type.name
+        ))
+    })?;
+    let r = &solved.result;
+    set_inlet_flows(fs, &unit.name, &io.inlets, &r.inlet_flows, before)?;
+    if r.outlets.len() != unit.outlets.len() {
+        return Err(Error::Flowsheet {
+            reason: format!(
+                "unit '{}' made {} outlet streams but lists {} in `to` (internal error)",
+                unit.name,
+                r.outlets.len(),
+                unit.outlets.len()
+            ),
+        });
+    }
+    for (j, outlet) in r.outlets.iter().enumerate() {
+        let target = &mut after[j].stream;
+        target.flows.clear();
+        target.flows.extend_from_slice(&outlet.flows);
+        target.temperature_k = outlet.temperature_k;
+        target.pressure_pa = outlet.pressure_pa;
+        target.phase = outlet.phase;
+        check_phase(db, &unit.name, &after[j].name, target)?;
+    }
+    result.warnings.extend(r.warnings.iter().cloned());
+    parts.warm[k] = true;
+    Ok(())
+}
+
+/// Solve a flowsheet with cycles ([`recycle`]): the units before the first unit on a cycle
+/// once, the range of units on cycles until the tears converge, the units after it once.
+fn solve_loops(
+    fs: &Flowsheet,
+    db: &SpeciesDb,
+    params: &[f64],
+    plan: &RecyclePlan,
+    parts: &mut Parts<'_>,
+    state: &mut RecycleState,
+) -> Result<()> {
+    for k in 0..plan.first {
+        solve_unit(fs, db, params, k, parts, &state.slots)?;
+    }
+    let feeds = fs.feeds.len();
+    let feed_total: f64 = parts.result.streams[..feeds]
+        .iter()
+        .map(|s| s.stream.total())
+        .sum();
+    state.start(&parts.result.streams[0].stream);
+    let mark = parts.result.warnings.len();
+    let tolerance = plan.options.tolerance;
+    let limit = plan.options.iteration_limit;
+    let (mut iterations, mut residual, mut converged) = (0, f64::INFINITY, false);
+    while iterations < limit {
+        iterations += 1;
+        parts.result.warnings.truncate(mark);
+        if iterations > 1 {
+            // Feeds a unit rescaled start each pass from the file's values again.
+            load_feeds(fs, db, params, &mut parts.result.streams)?;
+        }
+        for k in plan.first..=plan.last {
+            solve_unit(fs, db, params, k, parts, &state.slots).map_err(|e| {
+                e.context(format!(
+                    "recycle iteration {iterations} of at most {limit} (tear streams {})",
+                    quoted(&plan.tears)
+                ))
+            })?;
+        }
+        let streams = &parts.result.streams;
+        let computed = |t: usize| &streams[plan.stream_index[t]].stream;
+        residual = state.residual(computed, feed_total);
+        if residual <= tolerance {
+            converged = true;
+            break;
+        }
+        state.update(computed, iterations == 1, plan.options.wegstein_bounds);
+    }
+    if let Some(record) = parts.result.recycle.as_mut() {
+        recycle::finish(record, iterations, residual, converged);
+        if !converged {
+            let worst = state.describe_worst(&plan.tears, |i| {
+                db.all()
+                    .get(i)
+                    .map_or_else(|| format!("species {i}"), |s| s.name.clone())
+            });
+            return Err(recycle::not_converged(record, tolerance, worst));
+        }
+    }
+    state.warm = true;
+    for k in plan.last + 1..fs.graph.order.len() {
+        solve_unit(fs, db, params, k, parts, &state.slots)?;
+    }
+    Ok(())
+}
+
+/// Names quoted and comma separated.
+fn quoted(names: &[String]) -> String {
+    names
+        .iter()
+        .map(|n| format!("'{n}'"))
+        .collect::<Vec<_>>()
+        .join(", ")
+}
+
 /// Rescale the feeds whose flow a unit set ([`UnitResult::inlet_flows`]) to that flow, keeping
 /// their composition; an inlet that is not a feed is an error naming it.
 fn set_inlet_flows(
     fs: &Flowsheet,
     unit: &str,
-    inlets: &[usize],
+    inlets: &[Inlet],
     flows: &[(usize, f64)],
     streams: &mut [SolvedStream],
 ) -> Result<()> {
     for &(k, flow_mol_s) in flows {
-        let Some(&index) = inlets.get(k) else {
+        let Some(&inlet) = inlets.get(k) else {
             continue;
+        };
+        let made = |name: &str| Error::Flowsheet {
+            reason: format!(
+                "unit '{unit}' sets the flow of its inlet '{name}', which is made by another \
+                 unit; give that inlet as a feed (its composition, temperature and pressure; \
+                 the unit sets its flow)"
+            ),
+        };
+        let index = match inlet {
+            Inlet::Stream(index) => index,
+            Inlet::Tear(t) => {
+                let plan = fs.recycle.as_ref();
+                let name = plan
+                    .and_then(|p| p.tears.get(t))
+                    .map_or("?", String::as_str);
+                return Err(made(name));
+            }
         };
         let stream = &mut streams[index];
         if index >= fs.feeds.len() {
-            return Err(Error::Flowsheet {
-                reason: format!(
-                    "unit '{unit}' sets the flow of its inlet '{}', which is made by another \
-                     unit; give that inlet as a feed (its composition, temperature and \
-                     pressure; the unit sets its flow)",
-                    stream.name
-                ),
-            });
+            return Err(made(&stream.name));
         }
         let total = stream.stream.total();
         if !(total > 0.0) || !flow_mol_s.is_finite() || flow_mol_s < 0.0 {
@@ -321,23 +486,28 @@ fn set_inlet_flows(
     Ok(())
 }
 
-/// Call `f` with the inlet streams at `indices` of `streams`, without a heap allocation for up
-/// to eight inlets.
+/// Call `f` with the inlet streams `inlets` (from `streams` or the tear slots `tears`), without
+/// a heap allocation for up to eight inlets.
 fn with_inlets<T>(
     streams: &[SolvedStream],
-    indices: &[usize],
+    tears: &[Stream],
+    inlets: &[Inlet],
     f: impl FnOnce(&[&Stream]) -> T,
 ) -> T {
     const STACK: usize = 8;
-    if indices.len() <= STACK {
-        let first = &streams[indices[0]].stream;
+    let at = |inlet: &Inlet| match *inlet {
+        Inlet::Stream(i) => &streams[i].stream,
+        Inlet::Tear(t) => &tears[t],
+    };
+    if inlets.len() <= STACK {
+        let first = at(&inlets[0]);
         let mut refs: [&Stream; STACK] = [first; STACK];
-        for (slot, &i) in refs.iter_mut().zip(indices) {
-            *slot = &streams[i].stream;
+        for (slot, inlet) in refs.iter_mut().zip(inlets) {
+            *slot = at(inlet);
         }
-        f(&refs[..indices.len()])
+        f(&refs[..inlets.len()])
     } else {
-        let refs: Vec<&Stream> = indices.iter().map(|&i| &streams[i].stream).collect();
+        let refs: Vec<&Stream> = inlets.iter().map(at).collect();
         f(&refs)
     }
 }
@@ -363,6 +533,22 @@ pub(crate) fn warm_workspace(
 ) -> Workspace {
     let mut ws = workspace(fs, db);
     if let Some(p) = previous {
+        // Tears start from the previous result's streams where it has them all.
+        if let Some(plan) = &fs.recycle {
+            let found: Option<Vec<&Stream>> = plan
+                .tears
+                .iter()
+                .map(|t| p.streams.iter().find(|s| &s.name == t).map(|s| &s.stream))
+                .collect();
+            if let Some(found) = found {
+                for (slot, s) in ws.recycle.slots.iter_mut().zip(found) {
+                    if s.flows.len() == slot.flows.len() {
+                        slot.clone_from(s);
+                    }
+                }
+                ws.recycle.warm = true;
+            }
+        }
         for (k, solved) in ws.result.units.iter_mut().enumerate() {
             if let Some(old) = p.units.iter().find(|u| u.name == solved.name) {
                 if old.result.equilibrium.is_some() {

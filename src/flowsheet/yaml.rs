@@ -20,6 +20,7 @@ use serde::Deserialize;
 use serde_norway::Value;
 
 use super::checks::Checked;
+use super::recycle::RecycleOptions;
 use super::values::{
     FlowRate, Fraction, Names, OrderedMap, Pressure, Temperature, TemperatureDifference,
 };
@@ -35,6 +36,9 @@ pub struct FileModel {
     pub title: Option<String>,
     /// Tolerances and iteration limits of the equilibrium stages (`solver:`).
     pub solver: SolverOptions,
+    /// How recycles are solved (`solver:` keys `recycle-tolerance`, `recycle-iterations`,
+    /// `tear-streams`).
+    pub recycle: RecycleOptions,
     /// Feeds, in file order.
     pub feeds: OrderedMap<FeedModel>,
     /// Units, in file order.
@@ -240,8 +244,8 @@ const FILE_KEYS: &[&str] = &[
 ];
 
 /// The `solver:` key: tolerances and iteration limits of the equilibrium stages, each optional
-/// (the defaults of [`SolverOptions`]).
-#[derive(Debug, Clone, Copy, Default, Deserialize)]
+/// (the defaults of [`SolverOptions`]), and of the recycle iteration ([`RecycleOptions`]).
+#[derive(Debug, Clone, Default, Deserialize)]
 #[serde(deny_unknown_fields, rename_all = "kebab-case")]
 pub struct SolverModel {
     /// Working residual of the extent Newton iteration (ln-space).
@@ -256,6 +260,14 @@ pub struct SolverModel {
     pub temperature_step_tolerance: Option<TemperatureDifference>,
     /// Equilibrium evaluations of one temperature search.
     pub temperature_iteration_limit: Option<usize>,
+    /// Largest scaled change of the tear streams of a converged recycle.
+    pub recycle_tolerance: Option<f64>,
+    /// Recycle iterations allowed.
+    pub recycle_iterations: Option<usize>,
+    /// Tear streams (chosen when not given).
+    pub tear_streams: Option<Names>,
+    /// Bounds of Wegstein's factor q: [lower, upper].
+    pub wegstein_bounds: Option<[f64; 2]>,
 }
 
 impl SolverModel {
@@ -283,6 +295,29 @@ impl SolverModel {
             Ok(o)
         } else {
             Err("every tolerance must be positive and finite and every limit at least 1".into())
+        }
+    }
+
+    /// The recycle options: the defaults with the values given, checked as [`Self::options`].
+    pub fn recycle_options(&self) -> std::result::Result<RecycleOptions, String> {
+        let d = RecycleOptions::default();
+        let o = RecycleOptions {
+            tolerance: self.recycle_tolerance.unwrap_or(d.tolerance),
+            iteration_limit: self.recycle_iterations.unwrap_or(d.iteration_limit),
+            tear_streams: self
+                .tear_streams
+                .as_ref()
+                .map_or_else(Vec::new, |n| n.0.clone()),
+            wegstein_bounds: self.wegstein_bounds.unwrap_or(d.wegstein_bounds),
+        };
+        if o.is_valid() {
+            Ok(o)
+        } else {
+            Err(
+                "every tolerance must be positive and finite, every limit at least 1, and \
+                 `wegstein-bounds` two finite numbers, lower first, below 1"
+                    .into(),
+            )
         }
     }
 }
@@ -313,6 +348,7 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
         let mut feeds: Option<OrderedMap<FeedModel>> = None;
         let mut units: Option<Vec<UnitModel>> = None;
         let mut solver: Option<SolverOptions> = None;
+        let mut recycle = RecycleOptions::default();
         let mut targets: Option<Vec<TargetModel>> = None;
         let mut steam_feed: Option<String> = None;
         let mut energy: Option<super::energy::EnergyModel> = None;
@@ -321,6 +357,7 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
                 "solver" if solver.is_none() => {
                     let model: SolverModel = map.next_value()?;
                     solver = Some(model.options().map_err(de::Error::custom)?);
+                    recycle = model.recycle_options().map_err(de::Error::custom)?;
                 }
                 "title" if title.is_none() => title = Some(map.next_value()?),
                 "feeds" if feeds.is_none() => {
@@ -353,6 +390,7 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
         Ok(FileModel {
             title,
             solver: solver.unwrap_or_default(),
+            recycle,
             feeds,
             units,
             targets: targets.unwrap_or_default(),

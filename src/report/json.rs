@@ -13,6 +13,10 @@
 //!   path's own unit, `met` a boolean, `input_value` the input found in the report unit of its
 //!   kind (degC, K, bar abs, kmol/h, %), `iterations` the flowsheet solves it took; beside them
 //!   `input_unit` (the name of that report unit), `equals` and `tolerance` (result's unit)
+//! - `recycles` (only for a flowsheet with cycles): {`tear_streams` [stream names],
+//!   `iterations`, `residual` (largest scaled change of the tears in the last iteration),
+//!   `converged` (a boolean; always true in a result, a recycle that does not converge is an
+//!   error), `termination` (in words)}
 //!
 //! Beside them:
 //! - top level: `title`, `summary`, `balances`, `cautions` (a result exists only when every unit
@@ -51,7 +55,7 @@ use serde_json::{json, Map, Value};
 
 use super::tables::{figure_value, phase_name, present_species, source_name};
 use crate::error::{Result, ResultExt};
-use crate::flowsheet::result::{FlowsheetResult, SolvedStream, Summary};
+use crate::flowsheet::result::{FlowsheetResult, RecycleRecord, SolvedStream, Summary};
 use crate::flowsheet::TargetOutcome;
 use crate::quantity::{
     kelvin_to_degc, kg_s_to_kg_h, mol_s_to_kmol_h, mol_s_to_nm3_h, pa_to_bar, w_to_kw,
@@ -126,6 +130,9 @@ pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
     top.insert("summary".into(), summary);
     top.insert("heat_balance".into(), heat_balance);
     top.insert("targets".into(), targets(&result.targets));
+    if let Some(r) = &result.recycle {
+        top.insert("recycles".into(), recycles(r));
+    }
     top.insert(
         "balances".into(),
         json!({
@@ -136,6 +143,17 @@ pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
     top.insert("warnings".into(), warnings(&result.warnings));
     top.insert("cautions".into(), json!(super::CAUTIONS));
     Ok(Value::Object(top))
+}
+
+/// The recycle record (see the module docs).
+fn recycles(r: &RecycleRecord) -> Value {
+    json!({
+        "tear_streams": r.tear_streams,
+        "iterations": r.iterations,
+        "residual": number(r.residual),
+        "converged": r.termination.is_converged(),
+        "termination": r.termination.to_string(),
+    })
 }
 
 /// Design targets as objects (see the module docs).

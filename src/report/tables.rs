@@ -118,7 +118,7 @@ pub fn build(db: &SpeciesDb, result: &FlowsheetResult) -> Result<SolveReport> {
     let species = present_species(result);
     Ok(SolveReport {
         title: result.title.clone(),
-        status: STATUS_LINE.to_string(),
+        status: status_line(result),
         streams: stream_blocks(db, result, &species),
         units: unit_table(result),
         figures: figure_table(result),
@@ -274,6 +274,24 @@ fn yes_no(flag: bool) -> String {
 /// A result exists only when every unit converged and the balances closed (anything else is an
 /// error), so the status line says so and points to the residuals.
 const STATUS_LINE: &str = "Every unit converged; balances below.";
+
+/// The status line, with a sentence on the recycle where the flowsheet has cycles.
+fn status_line(result: &FlowsheetResult) -> String {
+    match &result.recycle {
+        None => STATUS_LINE.to_string(),
+        Some(r) => {
+            let tears: Vec<String> = r.tear_streams.iter().map(|t| format!("'{t}'")).collect();
+            format!(
+                "{STATUS_LINE}\nRecycle {} after {} iterations (tear streams {}; largest \
+                 scaled change {:.1e}).",
+                r.termination,
+                r.iterations,
+                tears.join(", "),
+                r.residual
+            )
+        }
+    }
+}
 
 /// Stream columns split into blocks that fit a terminal.
 fn stream_blocks(db: &SpeciesDb, result: &FlowsheetResult, species: &[usize]) -> Vec<Table> {

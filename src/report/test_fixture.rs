@@ -327,5 +327,6 @@ pub fn fixture(db: &SpeciesDb) -> FlowsheetResult {
             input_kind: crate::units::FigureKind::Temperature,
             tolerance: 1e-4,
         }],
+        recycle: None,
     }
 }
