@@ -169,14 +169,22 @@ impl Flowsheet {
             .collect();
         let graph = graph::build(&feed_names, &ports).map_err(|e| match e.at {
             Some(at) => {
-                let path = [Key("units"), Index(at.unit), Key(at.key), Index(at.index)];
+                // A unit with named ports: the key of that port, holding one name.
+                let named = units
+                    .get(at.unit)
+                    .and_then(|u| u.unit_type.named_ports)
+                    .and_then(|n| n.key_of(at.key, at.index));
+                let path = match named {
+                    Some(key) => vec![Key("units"), Index(at.unit), Key(key)],
+                    None => vec![Key("units"), Index(at.unit), Key(at.key), Index(at.index)],
+                };
                 let location = locate::locate(text, &path);
                 let name = &units[at.unit].name;
                 locate::annotate(
                     *e.error,
                     origin,
                     location,
-                    &format!("units.{name}.{}", at.key),
+                    &format!("units.{name}.{}", named.unwrap_or(at.key)),
                 )
             }
             None => *e.error,

@@ -255,6 +255,59 @@ impl Ports {
     }
 }
 
+/// Ports written as named keys (`hot-from`, `hot-to`, ...) instead of `from` and `to`: each key
+/// holds one stream name; the flowsheet reader makes the inlet list of `inlets` and the outlet
+/// list of `outlets` followed by those of `optional_outlets` that are given, in this order.
+#[derive(Debug, Clone, Copy)]
+pub struct NamedPorts {
+    /// Inlet keys, in inlet order (all required).
+    pub inlets: &'static [&'static str],
+    /// Outlet keys, in outlet order (all required).
+    pub outlets: &'static [&'static str],
+    /// Outlet keys that may be left out, after the required ones, in order.
+    pub optional_outlets: &'static [&'static str],
+}
+
+impl NamedPorts {
+    /// Every port key: inlets, outlets, optional outlets.
+    pub fn keys(&self) -> impl Iterator<Item = &'static str> + '_ {
+        self.inlets
+            .iter()
+            .chain(self.outlets)
+            .chain(self.optional_outlets)
+            .copied()
+    }
+
+    /// The key written for position `index` of the inlet (`list` = "from") or outlet ("to")
+    /// list (exact when the optional outlets given are the first of them, as with one).
+    pub fn key_of(&self, list: &str, index: usize) -> Option<&'static str> {
+        if list == "from" {
+            return self.inlets.get(index).copied();
+        }
+        self.outlets
+            .iter()
+            .chain(self.optional_outlets)
+            .nth(index)
+            .copied()
+    }
+
+    /// "hot-from, cold-from" style list of the keys, optional ones marked.
+    pub fn describe(&self) -> String {
+        let mut keys: Vec<String> = self
+            .inlets
+            .iter()
+            .chain(self.outlets)
+            .map(|k| k.to_string())
+            .collect();
+        keys.extend(
+            self.optional_outlets
+                .iter()
+                .map(|k| format!("{k} (optional)")),
+        );
+        keys.join(", ")
+    }
+}
+
 /// A unit type: its documentation and its constructor. One static per unit file.
 pub struct UnitType {
     /// The type as written in flowsheets (`shift`).
@@ -265,6 +318,8 @@ pub struct UnitType {
     pub inlets: Ports,
     /// Its outlets (`to`).
     pub outlets: Ports,
+    /// Ports written as named keys instead of `from` and `to` (`None`: `from` and `to`).
+    pub named_ports: Option<&'static NamedPorts>,
     /// Its keys.
     pub keys: &'static [KeyDoc],
     /// A short example entry (YAML).
@@ -574,10 +629,13 @@ impl<'a, 'b, S: 'static> UnitBuilder<'a, 'b, S> {
         for (key, _) in &self.input.entry.fields {
             if !t.keys.iter().any(|k| k.key == key) {
                 let known: Vec<&str> = t.keys.iter().map(|k| k.key).collect();
+                let ports = t
+                    .named_ports
+                    .map_or_else(|| "from, to".to_string(), |n| n.describe());
                 return Err(self.error(
                     key,
                     format!(
-                        "unknown key for a {}; its keys are: name, type, from, to, {} (see \
+                        "unknown key for a {}; its keys are: name, type, {ports}, {} (see \
                          `syntrain unit-types {}`)",
                         t.name,
                         known.join(", "),
