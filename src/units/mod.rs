@@ -10,6 +10,7 @@
 
 mod chemistry;
 mod common;
+pub mod exchanger;
 pub mod knockout;
 pub mod limits;
 pub mod methanator;
@@ -27,6 +28,7 @@ mod test_support;
 pub mod thermal;
 pub mod unit;
 
+pub use exchanger::{Exchanger, ExchangerSpec, ExchangerTarget};
 pub use knockout::{Knockout, KnockoutSpec};
 pub use limits::OperatingLimits;
 pub use methanator::{Methanator, MethanatorSpec};

@@ -4,7 +4,8 @@
 
 use super::unit::UnitType;
 use super::{
-    knockout, methanator, mixer, prereformer, purifier, reformer, shift, splitter, thermal,
+    exchanger, knockout, methanator, mixer, prereformer, purifier, reformer, shift, splitter,
+    thermal,
 };
 
 /// Every unit type, in the order `unit-types` lists them (the order of a train).
@@ -13,6 +14,7 @@ pub static UNIT_TYPES: &[&UnitType] = &[
     &splitter::TYPE,
     &thermal::HEATER,
     &thermal::COOLER,
+    &exchanger::TYPE,
     &prereformer::TYPE,
     &reformer::TYPE,
     &shift::TYPE,
