@@ -37,8 +37,8 @@ pub fn table(name: Option<&str>) -> Result<String> {
         out.push_str(&wrap(t.summary, 96, ""));
         match t.named_ports {
             Some(named) => out.push_str(&format!(
-                "\n  ports (one stream name each, in place of from and to): {}\n  inlets: {}\n  \
-                 outlets: {}\n  keys (besides name, type and the ports):\n",
+                "\n  ports (one stream name each, in place of from and to):\n    {}\n  inlets: \
+                 {}\n  outlets: {}\n  keys (besides name, type and the ports):\n",
                 named.describe(),
                 t.inlets.meaning,
                 t.outlets.meaning
@@ -158,6 +158,13 @@ mod tests {
         assert_eq!(v.as_array().unwrap().len(), UNIT_TYPES.len());
         let one: Value = serde_json::from_str(&json(Some("purifier")).unwrap()).unwrap();
         assert_eq!(one[0]["outlets"]["min"], 2);
+        assert!(one[0]["named_ports"].is_null());
+        let x: Value = serde_json::from_str(&json(Some("exchanger")).unwrap()).unwrap();
+        assert_eq!(x[0]["named_ports"]["inlets"][1], "cold-from");
+        assert_eq!(x[0]["named_ports"]["optional_outlets"][0], "condensate-to");
+        assert!(table(Some("exchanger"))
+            .unwrap()
+            .contains("hot-from, cold-from, hot-to, cold-to, condensate-to (optional)"));
         assert!(table(Some("shfit"))
             .unwrap_err()
             .to_string()

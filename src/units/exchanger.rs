@@ -112,12 +112,11 @@ pub static TYPE: UnitType = UnitType {
     summary: "Counter-current heat exchange between a hot and a cold stream (gas or water) at a \
               hot or cold outlet temperature, a duty or a minimum approach; water condensing \
               from the hot gas leaves through `condensate-to`.",
-    inlets: Ports::exactly(2, "hot side (`hot-from`), cold side (`cold-from`)"),
+    inlets: Ports::exactly(2, "hot side, cold side"),
     outlets: Ports {
         min: 2,
         max: Some(3),
-        meaning: "hot side (`hot-to`), cold side (`cold-to`), condensate of the hot side \
-                  (`condensate-to`, optional)",
+        meaning: "hot side, cold side, condensate of the hot side (optional)",
     },
     named_ports: Some(&PORTS),
     keys: &[

@@ -4,8 +4,8 @@
 
 use super::unit::UnitType;
 use super::{
-    exchanger, knockout, methanator, mixer, prereformer, purifier, reformer, shift, splitter,
-    thermal,
+    exchanger, knockout, methanator, mixer, prereformer, purifier, reformer, separator, shift,
+    splitter, thermal,
 };
 
 /// Every unit type, in the order `unit-types` lists them (the order of a train).
@@ -20,6 +20,7 @@ pub static UNIT_TYPES: &[&UnitType] = &[
     &shift::TYPE,
     &methanator::TYPE,
     &knockout::TYPE,
+    &separator::TYPE,
     &purifier::TYPE,
 ];
 

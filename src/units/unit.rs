@@ -62,6 +62,8 @@ pub enum ValueKind {
     Duty,
     /// A molar flow ("120 kmol/h", "2700 Nm3/h").
     MolarFlow,
+    /// Heat per mass ("2.5 GJ/t", "2.5 MJ/kg"), J/kg.
+    SpecificEnergy,
     /// A fraction 0..1 (0.88, "88 %", "50 ppm").
     Fraction,
     /// A pure number not below zero (a ratio such as steam-to-carbon, 2.5).
@@ -86,6 +88,7 @@ impl ValueKind {
             ValueKind::PressureDifference => "pressure difference (bar, kPa, mbar)".into(),
             ValueKind::Duty => "duty, heat added to the stream (kW, MW, Gcal/h)".into(),
             ValueKind::MolarFlow => "molar flow (kmol/h, mol/s, Nm3/h)".into(),
+            ValueKind::SpecificEnergy => "heat per mass (GJ/t, MJ/kg, kJ/kg)".into(),
             ValueKind::Fraction => "fraction (0.88, 88 %, 50 ppm)".into(),
             ValueKind::Ratio => "number (2.5)".into(),
             ValueKind::Choice(options) => format!("one of: {}", options.join(", ")),
@@ -111,6 +114,7 @@ impl ValueKind {
             ValueKind::Pressure => quantity::parse_pressure(field, text),
             ValueKind::PressureDifference => quantity::parse_pressure_difference(field, text),
             ValueKind::Duty => quantity::parse_duty(field, text),
+            ValueKind::SpecificEnergy => quantity::parse_specific_energy(field, text),
             ValueKind::MolarFlow => match quantity::parse_flow(field, text)? {
                 Flow::Molar(n) => Ok(n),
                 Flow::Mass(_) => Err(Error::InvalidValue {
