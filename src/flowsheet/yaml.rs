@@ -227,7 +227,8 @@ fn check_port_keys(
                         key,
                         locate_key(text, &entry, key),
                         format!(
-                            "a {} names its streams by port, not in `from` and `to`: write {}",
+                            "{} {} names its streams by port, not in `from` and `to`: write {}",
+                            article(t.name),
                             t.name,
                             named.describe()
                         ),
@@ -240,7 +241,8 @@ fn check_port_keys(
                         key,
                         locate(text, &entry),
                         format!(
-                            "a {} needs `{key}` (one stream name); its ports are: {}",
+                            "{} {} needs `{key}` (one stream name); its ports are: {}",
+                            article(t.name),
                             t.name,
                             named.describe()
                         ),
@@ -273,9 +275,12 @@ fn check_port_keys(
                         key,
                         locate_key(text, &entry, key),
                         format!(
-                            "`{key}` is a port of a {}; a {} takes its streams in `from` and \
-                             `to`",
-                            other.name, t.name
+                            "`{key}` is a port of {} {}; {} {} takes its streams in `from` \
+                             and `to`",
+                            article(other.name),
+                            other.name,
+                            article(t.name),
+                            t.name
                         ),
                     ));
                 }
@@ -583,6 +588,15 @@ impl<'de> Visitor<'de> for UnitSeed {
     }
 }
 
+/// "an" before a vowel, else "a" (for unit type names in messages).
+fn article(word: &str) -> &'static str {
+    if word.starts_with(['a', 'e', 'i', 'o', 'u']) {
+        "an"
+    } else {
+        "a"
+    }
+}
+
 /// The inlets and outlets of a unit with named ports, taken out of its entry (the first pass
 /// checked them where they are written; these errors are the fallback).
 fn named_ports<E: de::Error>(
@@ -594,7 +608,8 @@ fn named_ports<E: de::Error>(
 ) -> std::result::Result<(Vec<String>, Vec<String>), E> {
     if from.is_some() || to.is_some() {
         return Err(E::custom(format!(
-            "a {type_name} names its streams by port, not in `from` and `to`: write {}",
+            "{} {type_name} names its streams by port, not in `from` and `to`: write {}",
+            article(type_name),
             named.describe()
         )));
     }
@@ -605,7 +620,8 @@ fn named_ports<E: de::Error>(
                 _ => Err(E::custom(format!("`{key}`: expected one stream name"))),
             },
             None if required => Err(E::custom(format!(
-                "a {type_name} needs `{key}` (one stream name); its ports are: {}",
+                "{} {type_name} needs `{key}` (one stream name); its ports are: {}",
+                article(type_name),
                 named.describe()
             ))),
             None => Ok(None),
