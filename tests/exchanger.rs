@@ -93,7 +93,6 @@ fn exchanger_and_separator_solve_and_balance() {
     let rise = f(&s["hot-water"]["temperature_K"]) - 378.15;
     let expected = q * 1e3 / (3000.0 / 3.6 * 75.5);
     assert!((rise / expected - 1.0).abs() < 0.2, "{rise} vs {expected}");
-    assert_eq!(s["hot-water"]["temperature_K"].is_number(), true);
     // The separator: CO2 by fraction, the rest in the product; removal heat by hand.
     let flow = |name: &str, sp: &str| f(&s[name]["flow_kmol_h"][sp]);
     assert!((flow("removed-co2", "CO2") - 0.99 * 288.0).abs() < 1e-9);
