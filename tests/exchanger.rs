@@ -192,3 +192,49 @@ fn ports_are_named_for_an_exchanger_only() {
         "{err}"
     );
 }
+
+#[test]
+fn numeric_keys_are_inputs_a_study_can_vary() {
+    use syntrain::flowsheet::Flowsheet;
+    use syntrain::thermo::SpeciesDb;
+    let db = SpeciesDb::embedded().unwrap();
+    let units = UNITS.replace(
+        "hot-outlet-temperature: 250 degC",
+        "minimum-approach: 100 K",
+    );
+    let sheet = Flowsheet::from_yaml_str("demo", &format!("{FEEDS}{units}"), &db).unwrap();
+    let figure = |r: &syntrain::flowsheet::FlowsheetResult, unit: &str, key: &str| {
+        let u = r.units.iter().find(|u| u.name == unit).unwrap();
+        u.result
+            .figures
+            .iter()
+            .find(|f| f.key == key)
+            .unwrap()
+            .value
+    };
+    let smaller = |r: &syntrain::flowsheet::FlowsheetResult| {
+        let a = figure(r, "gas-water-exchanger", "hot-end-difference");
+        let b = figure(r, "gas-water-exchanger", "cold-end-difference");
+        a.min(b)
+    };
+    let base = sheet.solve(&db).unwrap();
+    assert!((smaller(&base) - 100.0).abs() < 1e-6);
+    let mut params = sheet.parameters();
+    let approach = sheet
+        .input("units.gas-water-exchanger.minimum-approach")
+        .unwrap();
+    let removal = sheet.input("units.co2-removal.removal.CO2").unwrap();
+    params[approach.0] = 120.0;
+    params[removal.0] = 0.5;
+    let r = sheet.solve_with(&db, &params, None).unwrap();
+    assert!((smaller(&r) - 120.0).abs() < 1e-6);
+    // Less heat at the larger approach; half the CO2 removed: 144 kmol/h x 44.0095 kg/kmol.
+    let q = |r| figure(r, "gas-water-exchanger", "heat-transferred");
+    assert!(q(&r) < q(&base));
+    let kg_s = figure(&r, "co2-removal", "co2-removed");
+    assert!(
+        (kg_s * 3600.0 / (144.0 * 44.0095) - 1.0).abs() < 1e-4,
+        "{kg_s}"
+    );
+    assert!(sheet.input("units.co2-removal.duty-per-tonne-co2").is_ok());
+}

@@ -25,10 +25,14 @@
 //! - `minimum-approach`: Q is found by the same safeguarded search on Q between zero and the
 //!   largest heat either side could take (hot side cooled to the cold inlet, cold side heated to
 //!   the hot inlet), on the smaller terminal difference. Only the terminal differences are set;
-//!   with condensation or boiling the pinch can lie inside. The exchanger therefore also looks
-//!   at nine points inside, at 10 %, 20 %, ... 90 % of Q (the hot side having given q, the cold
-//!   side at the same section having taken Q - q), reports the smallest difference found, ends
-//!   and inside, as `minimum-difference`, and refuses a temperature cross inside.
+//!   with condensation or boiling the pinch can lie inside. When a side changes phase the
+//!   exchanger therefore also looks inside (the hot side having given q, the cold side at the
+//!   same section having taken Q - q): at 10 %, 20 %, ... 90 % of Q and at the kinks of the
+//!   curves (the hot gas at its dew point, pure water at saturated steam or saturated liquid),
+//!   reports the smallest difference found, ends and inside, as `minimum-difference`, and
+//!   refuses a temperature cross inside. Between these points a pinch can still hide on a
+//!   strongly curved condensing-gas curve; the search for `minimum-approach` itself sets the
+//!   ends only.
 //!
 //! Terminal differences: hot end = T_hot,in - T_cold,out, cold end = T_hot,out - T_cold,in; both
 //! must be positive (a temperature cross is an error naming the two temperatures). The
@@ -460,8 +464,9 @@ impl Exchanger {
         let mut smallest = hot_end.min(cold_end);
         let mut inside: Option<(f64, f64, f64)> = None;
         if s.hot_water || s.cold_water || condensed > 0.0 {
-            for k in 1..INTERNAL_SECTIONS {
-                let qk = q * k as f64 / INTERNAL_SECTIONS as f64;
+            let kinks = s.kinks(q, hot_out, cold_out)?;
+            let sections = (1..INTERNAL_SECTIONS).map(|k| q * k as f64 / INTERNAL_SECTIONS as f64);
+            for qk in sections.chain(kinks.into_iter().flatten()) {
                 s.hot_at_duty(qk, hot_out, cond)?;
                 s.cold_at_duty(q - qk, cold_out)?;
                 let d = hot_out.temperature_k - cold_out.temperature_k;
@@ -662,6 +667,48 @@ struct Sides<'a> {
 }
 
 impl Sides<'_> {
+    /// Heat given by the hot side (0 < q < `q_total`) at the kinks of the two curves, where
+    /// the pinch of a phase change sits: the hot gas reaching its dew point, pure water on
+    /// either side reaching saturated steam or saturated liquid. `a` and `b` are work buffers.
+    fn kinks(&self, q_total: f64, a: &mut Stream, b: &mut Stream) -> Result<[Option<f64>; 4]> {
+        let mut out = [None; 4];
+        let inside = |q: f64| (q > 0.0 && q < q_total).then_some(q);
+        let saturated = |inlet: &Stream, p: f64, s: &mut Stream| -> Result<Option<(f64, f64)>> {
+            if !(water::SATURATION_MIN_PRESSURE_PA..=water::CRITICAL_PRESSURE_PA).contains(&p) {
+                return Ok(None);
+            }
+            let t_s = water::saturation_temperature_k(p)?;
+            s.flows.copy_from_slice(&inlet.flows);
+            s.temperature_k = t_s;
+            s.pressure_pa = p;
+            s.phase = StreamPhase::Vapour;
+            let vapour = s.enthalpy_w(self.db)?;
+            s.phase = StreamPhase::Liquid;
+            Ok(Some((vapour, s.enthalpy_w(self.db)?)))
+        };
+        if self.hot_water {
+            if let Some((hv, hl)) = saturated(self.hot, self.p_hot, a)? {
+                out[0] = inside(self.h_hot_in - hv);
+                out[1] = inside(self.h_hot_in - hl);
+            }
+        } else if let Some(dew) = dew_point_k(self.key, &self.hot.flows, self.p_hot) {
+            if dew < self.hot.temperature_k {
+                a.flows.copy_from_slice(&self.hot.flows);
+                a.temperature_k = dew;
+                a.pressure_pa = self.p_hot;
+                a.phase = StreamPhase::Vapour;
+                out[0] = inside(self.h_hot_in - a.enthalpy_w(self.db)?);
+            }
+        }
+        if self.cold_water {
+            if let Some((hv, hl)) = saturated(self.cold, self.p_cold, b)? {
+                out[2] = inside(q_total - (hl - self.h_cold_in));
+                out[3] = inside(q_total - (hv - self.h_cold_in));
+            }
+        }
+        Ok(out)
+    }
+
     /// The hot side's outlet at temperature `t` into `gas` and `cond` (the condensate, empty
     /// unless water condenses from a gas); returns their enthalpy, W.
     fn hot_at_temperature(

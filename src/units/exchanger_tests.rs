@@ -233,3 +233,50 @@ fn condensing_duty_and_approach_find_the_same_outlet() {
     assert!((by_q.outlets[2].flows[w] - by_t.outlets[2].flows[w]).abs() < 1e-9);
     assert!(fig(&by_q, "minimum-difference") <= fig(&by_q, "cold-end-difference"));
 }
+
+#[test]
+fn condensing_steam_can_pinch_inside_and_gas_heats_gas() {
+    let db = db();
+    // Steam at 200 degC, 10 bar (T_s(1 MPa) = 453.035632 K, IAPWS-IF97 Table 35) heating
+    // nitrogen from 30 degC (invented demo flows, mol/s).
+    let steam = gas(&db, &[("H2O", 1.0)], 473.15, 10e5);
+    let n2 = gas(&db, &[("N2", 10.0)], 303.15, 5e5);
+    // 10 K at the ends leaves the cold gas at 190 degC, above the condensing steam at
+    // 179.9 degC for part of the length: a cross inside, refused.
+    let e = unit(&db, ExchangerTarget::MinimumApproach(10.0), false)
+        .solve(&db, &[&steam, &n2], None)
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("inside"), "{e}");
+    // Condensed and subcooled to 150 degC, liquid, with the cold side's heat closing the
+    // balance (and the cold outlet below the condensing steam).
+    let n2 = gas(&db, &[("N2", 30.0)], 303.15, 5e5);
+    let r = unit(&db, ExchangerTarget::HotOutletTemperature(423.15), false)
+        .solve(&db, &[&steam, &n2], None)
+        .unwrap();
+    assert_balances(&db, &[&steam, &n2], &r);
+    assert_eq!(r.outlets[0].phase, StreamPhase::Liquid);
+    let (given, taken) = sides(&db, &steam, &n2, &r);
+    assert!((given - taken).abs() <= 1e-9 * given);
+    // The smallest difference lies inside, at the start of condensation (453.04 K on the hot
+    // side), below both ends.
+    let inside = fig(&r, "minimum-difference");
+    assert!(inside < fig(&r, "hot-end-difference") && inside < fig(&r, "cold-end-difference"));
+    assert!(inside > 0.0);
+    // Condensing only part way down is wet steam, refused.
+    let q_wet = 0.1 * given;
+    let e = unit(&db, ExchangerTarget::Duty(q_wet), false)
+        .solve(&db, &[&steam, &n2], None)
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("wet steam") && e.contains("hot side"), "{e}");
+    // Gas against gas by minimum approach: no phase change, the ends set.
+    let hot = hot_gas(&db);
+    let cold = gas(&db, &[("CH4", 0.3), ("H2", 0.02)], 303.15, 30e5);
+    let r = unit(&db, ExchangerTarget::MinimumApproach(25.0), false)
+        .solve(&db, &[&hot, &cold], None)
+        .unwrap();
+    assert_balances(&db, &[&hot, &cold], &r);
+    let smaller = fig(&r, "hot-end-difference").min(fig(&r, "cold-end-difference"));
+    assert!((smaller - 25.0).abs() < 1e-6, "{smaller}");
+}
