@@ -773,11 +773,13 @@ impl Sides<'_> {
         }
         // Above the dew point (or without water): all vapour, Newton on temperature.
         let dew = dew_point_k(self.key, &inlet.flows, self.p_hot);
+        // A saturated inlet (after a knockout) condenses from the start: its own temperature.
         let h_dew = match dew {
-            Some(d) if d < inlet.temperature_k => {
+            Some(d) => {
+                let d = d.min(inlet.temperature_k);
                 Some((d, self.hot_at_temperature("duty", d, gas, cond)?))
             }
-            _ => None,
+            None => None,
         };
         if h_dew.is_none_or(|(_, h)| target >= h) {
             let t = temperature_at_enthalpy(db, name, &inlet.flows, target, inlet.temperature_k)?;
