@@ -169,6 +169,19 @@ const DUTY: Kind<f64> = Kind {
     hints: &[],
 };
 
+const SPECIFIC_ENERGY: Kind<f64> = Kind {
+    what: "specific energy",
+    example: "2.5 GJ/t",
+    units: &[
+        unit(&["J/kg"], |x| x),
+        unit(&["kJ/kg", "MJ/t"], |x| x * 1.0e3),
+        unit(&["MJ/kg", "GJ/t"], |x| x * 1.0e6),
+        unit(&["kWh/t"], |x| x * 3.6e3),
+        unit(&["Gcal/t"], |x| x * CALORIE_IT_J * 1.0e6),
+    ],
+    hints: &[("GJ/tonne", "write the tonne as t (1 t = 1000 kg)")],
+};
+
 const FLOW: Kind<Flow> = Kind {
     what: "flow",
     example: "1200 kmol/h",
@@ -399,6 +412,23 @@ pub fn parse_pressure_difference(field: &str, text: &str) -> Result<f64> {
 /// added to the process.
 pub fn parse_duty(field: &str, text: &str) -> Result<f64> {
     parse_kind(field, text, &DUTY)
+}
+
+/// Read a specific energy (heat per mass, such as the regeneration heat of a solvent per tonne
+/// of CO2 removed), J/kg.
+///
+/// Units: J/kg, kJ/kg, MJ/t (1e3 J/kg), MJ/kg, GJ/t (1e6 J/kg), kWh/t (3.6e3 J/kg), Gcal/t
+/// (International Table calorie, 4.1868e6 J/kg). The value must be zero or positive.
+pub fn parse_specific_energy(field: &str, text: &str) -> Result<f64> {
+    let e = parse_kind(field, text, &SPECIFIC_ENERGY)?;
+    if e < 0.0 {
+        return invalid(
+            field,
+            text,
+            "a specific energy here is heat needed, zero or positive".into(),
+        );
+    }
+    Ok(e)
 }
 
 /// Read a flow rate: molar (mol/s) or mass (kg/s).
@@ -781,6 +811,23 @@ mod tests {
         for (got, expected) in round_trips {
             close(got, expected, 1e-9 * expected, "round trip");
         }
+    }
+
+    #[test]
+    fn specific_energies_read_per_kilogram() {
+        // 1 t = 1000 kg (SI), 1 kWh = 3.6 MJ, 1 cal(IT) = 4.1868 J (NIST SP 811).
+        let e = |t: &str| parse_specific_energy("f", t).unwrap();
+        assert_eq!(e("2.5 GJ/t"), 2.5e6);
+        assert_eq!(e("2.5 MJ/kg"), 2.5e6);
+        assert_eq!(e("2500 kJ/kg"), 2.5e6);
+        assert_eq!(e("100 kWh/t"), 3.6e5);
+        assert!((e("0.6 Gcal/t") - 0.6 * 4.1868e6).abs() < 1e-6);
+        assert!(parse_specific_energy("f", "2.5 GJ").is_err());
+        assert!(parse_specific_energy("f", "-1 GJ/t").is_err());
+        let msg = parse_specific_energy("f", "2.5 GJ/tonne")
+            .unwrap_err()
+            .to_string();
+        assert!(msg.contains("as t"), "{msg}");
     }
 
     #[test]

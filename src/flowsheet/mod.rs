@@ -199,7 +199,15 @@ impl Flowsheet {
         let graph = graph::build_with(&feed_names, &ports, &model.recycle.tear_streams).map_err(
             |e| match e.at {
                 Some(at) => {
-                    let path = [Key("units"), Index(at.unit), Key(at.key), Index(at.index)];
+                    // A unit with named ports: the key of that port, holding one name.
+                    let named = units
+                        .get(at.unit)
+                        .and_then(|u| u.unit_type.named_ports)
+                        .and_then(|n| n.key_of(at.key, at.index));
+                    let path = match named {
+                        Some(key) => vec![Key("units"), Index(at.unit), Key(key)],
+                        None => vec![Key("units"), Index(at.unit), Key(at.key), Index(at.index)],
+                    };
                     let location =
                         locate::locate(text, &path).or_else(|| locate::locate(text, &path[..3]));
                     let name = &units[at.unit].name;
@@ -207,7 +215,7 @@ impl Flowsheet {
                         *e.error,
                         origin,
                         location,
-                        &format!("units.{name}.{}", at.key),
+                        &format!("units.{name}.{}", named.unwrap_or(at.key)),
                     )
                 }
                 None => *e.error,

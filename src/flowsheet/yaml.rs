@@ -27,7 +27,7 @@ use super::values::{
 use crate::equilibrium::SolverOptions;
 use crate::error::{Error, Position, Result};
 use crate::units::registry;
-use crate::units::unit::{Entry, EntryValue, UnitType};
+use crate::units::unit::{Entry, EntryValue, NamedPorts, UnitType};
 
 /// The whole file as written (quantities already in SI).
 #[derive(Debug, Clone)]
@@ -190,13 +190,113 @@ fn preview(origin: &str, text: &str) -> Result<Vec<Preview>> {
         Some(units) => units,
         None => return Ok(Vec::new()),
     };
-    Ok(units
+    let previews: Vec<Preview> = units
         .iter()
         .map(|unit| Preview {
             name: unit.get("name").and_then(Value::as_str).map(str::to_string),
             type_name: unit.get("type").and_then(Value::as_str).map(str::to_string),
         })
-        .collect())
+        .collect();
+    for (i, (unit, p)) in units.iter().zip(&previews).enumerate() {
+        check_port_keys(origin, text, i, unit, p)?;
+    }
+    Ok(previews)
+}
+
+/// Ports of a unit entry written the way its type takes them: `from` and `to`, or the named
+/// port keys of a type that has them (each one stream name). Checked in the first pass so that
+/// the error points at the key itself.
+fn check_port_keys(
+    origin: &str,
+    text: &str,
+    i: usize,
+    unit: &Value,
+    preview: &Preview,
+) -> Result<()> {
+    use super::locate::{locate, locate_key, Step};
+    let Some(t) = preview.type_name.as_deref().and_then(registry::unit_type) else {
+        return Ok(());
+    };
+    let Some(map) = unit.as_mapping() else {
+        return Ok(());
+    };
+    let entry = [Step::Key("units"), Step::Index(i)];
+    let label = preview.name.clone().unwrap_or_else(|| format!("[{i}]"));
+    let fail = |key: &str, position, message: String| Error::Yaml {
+        path: origin.to_string(),
+        position,
+        message: format!("units.{label}.{key}: {message}"),
+    };
+    let keys: Vec<&str> = map.keys().filter_map(Value::as_str).collect();
+    match t.named_ports {
+        Some(named) => {
+            for key in ["from", "to"] {
+                if keys.contains(&key) {
+                    return Err(fail(
+                        key,
+                        locate_key(text, &entry, key),
+                        format!(
+                            "{} {} names its streams by port, not in `from` and `to`: write {}",
+                            article(t.name),
+                            t.name,
+                            named.describe()
+                        ),
+                    ));
+                }
+            }
+            for key in named.inlets.iter().chain(named.outlets) {
+                if !keys.contains(key) {
+                    return Err(fail(
+                        key,
+                        locate(text, &entry),
+                        format!(
+                            "{} {} needs `{key}` (one stream name); its ports are: {}",
+                            article(t.name),
+                            t.name,
+                            named.describe()
+                        ),
+                    ));
+                }
+            }
+            for key in named.keys() {
+                if let Some(v) = unit.get(key) {
+                    if !v.is_string() {
+                        let mut at = entry.to_vec();
+                        at.push(Step::Key(key));
+                        return Err(fail(
+                            key,
+                            locate(text, &at),
+                            "expected one stream name".to_string(),
+                        ));
+                    }
+                }
+            }
+        }
+        None => {
+            let port_of = |key: &str| {
+                registry::UNIT_TYPES
+                    .iter()
+                    .find(|o| o.named_ports.is_some_and(|n| n.keys().any(|k| k == key)))
+            };
+            for key in &keys {
+                if let Some(other) = port_of(key) {
+                    return Err(fail(
+                        key,
+                        locate_key(text, &entry, key),
+                        format!(
+                            "`{key}` is a port of {} {}; {} {} takes its streams in `from` \
+                             and `to`",
+                            article(other.name),
+                            other.name,
+                            article(t.name),
+                            t.name
+                        ),
+                    ));
+                }
+            }
+        }
+    }
+    Ok(())
 }
 
 /// A YAML error with file, line and column; the position suffix of the parser's message is
@@ -553,8 +653,13 @@ impl<'de> Visitor<'de> for UnitSeed {
             .or(self.preview.name)
             .ok_or_else(|| de::Error::missing_field("name"))?;
         let unit_type = unit_type.ok_or_else(|| de::Error::missing_field("type"))?;
-        let from = from.ok_or_else(|| de::Error::missing_field("from"))?.0;
-        let to = to.ok_or_else(|| de::Error::missing_field("to"))?.0;
+        let (from, to) = match unit_type.named_ports {
+            Some(named) => named_ports(named, unit_type.name, from, to, &mut entry)?,
+            None => (
+                from.ok_or_else(|| de::Error::missing_field("from"))?.0,
+                to.ok_or_else(|| de::Error::missing_field("to"))?.0,
+            ),
+        };
         for (ports, list, key) in [
             (&unit_type.inlets, &from, "from"),
             (&unit_type.outlets, &to, "to"),
@@ -580,4 +685,57 @@ impl<'de> Visitor<'de> for UnitSeed {
             heats,
         })
     }
+}
+
+/// "an" before a vowel, else "a" (for unit type names in messages).
+fn article(word: &str) -> &'static str {
+    if word.starts_with(['a', 'e', 'i', 'o', 'u']) {
+        "an"
+    } else {
+        "a"
+    }
+}
+
+/// The inlets and outlets of a unit with named ports, taken out of its entry (the first pass
+/// checked them where they are written; these errors are the fallback).
+fn named_ports<E: de::Error>(
+    named: &NamedPorts,
+    type_name: &str,
+    from: Option<Names>,
+    to: Option<Names>,
+    entry: &mut Entry,
+) -> std::result::Result<(Vec<String>, Vec<String>), E> {
+    if from.is_some() || to.is_some() {
+        return Err(E::custom(format!(
+            "{} {type_name} names its streams by port, not in `from` and `to`: write {}",
+            article(type_name),
+            named.describe()
+        )));
+    }
+    let mut take = |key: &str, required: bool| -> std::result::Result<Option<String>, E> {
+        match entry.fields.iter().position(|(k, _)| k == key) {
+            Some(i) => match entry.fields.remove(i).1 {
+                EntryValue::Scalar(s) if !s.is_empty() => Ok(Some(s)),
+                _ => Err(E::custom(format!("`{key}`: expected one stream name"))),
+            },
+            None if required => Err(E::custom(format!(
+                "{} {type_name} needs `{key}` (one stream name); its ports are: {}",
+                article(type_name),
+                named.describe()
+            ))),
+            None => Ok(None),
+        }
+    };
+    let mut inlets = Vec::with_capacity(named.inlets.len());
+    for key in named.inlets {
+        inlets.extend(take(key, true)?);
+    }
+    let mut outlets = Vec::with_capacity(named.outlets.len() + named.optional_outlets.len());
+    for key in named.outlets {
+        outlets.extend(take(key, true)?);
+    }
+    for key in named.optional_outlets {
+        outlets.extend(take(key, false)?);
+    }
+    Ok((inlets, outlets))
 }

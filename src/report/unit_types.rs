@@ -35,14 +35,23 @@ pub fn table(name: Option<&str>) -> Result<String> {
     for t in types {
         out.push_str(&format!("{}\n{}\n", t.name, "=".repeat(t.name.len())));
         out.push_str(&wrap(t.summary, 96, ""));
-        out.push_str(&format!(
-            "\n  from: {} inlet(s): {}\n  to:   {} outlet(s): {}\n  keys (besides name, type, \
-             from, to):\n",
-            t.inlets.count_text(),
-            t.inlets.meaning,
-            t.outlets.count_text(),
-            t.outlets.meaning
-        ));
+        match t.named_ports {
+            Some(named) => out.push_str(&format!(
+                "\n  ports (one stream name each, in place of from and to):\n    {}\n  inlets: \
+                 {}\n  outlets: {}\n  keys (besides name, type and the ports):\n",
+                named.describe(),
+                t.inlets.meaning,
+                t.outlets.meaning
+            )),
+            None => out.push_str(&format!(
+                "\n  from: {} inlet(s): {}\n  to:   {} outlet(s): {}\n  keys (besides name, \
+                 type, from, to):\n",
+                t.inlets.count_text(),
+                t.inlets.meaning,
+                t.outlets.count_text(),
+                t.outlets.meaning
+            )),
+        }
         for k in t.keys {
             let default = k
                 .default
@@ -66,7 +75,8 @@ pub fn table(name: Option<&str>) -> Result<String> {
 }
 
 /// JSON: a list of types, each with `name`, `summary`, `inlets` and `outlets` {`min`, `max`,
-/// `meaning`}, `keys` [{`key`, `value`, `default`, `meaning`}] and `example`.
+/// `meaning`}, `named_ports` ({`inlets`, `outlets`, `optional_outlets`} keys, or null for types
+/// that take `from` and `to`), `keys` [{`key`, `value`, `default`, `meaning`}] and `example`.
 pub fn json(name: Option<&str>) -> Result<String> {
     let list: Vec<Value> = selected(name)?
         .iter()
@@ -79,6 +89,11 @@ pub fn json(name: Option<&str>) -> Result<String> {
                 "summary": t.summary,
                 "inlets": ports(&t.inlets),
                 "outlets": ports(&t.outlets),
+                "named_ports": t.named_ports.map(|n| json!({
+                    "inlets": n.inlets,
+                    "outlets": n.outlets,
+                    "optional_outlets": n.optional_outlets,
+                })),
                 "keys": t.keys.iter().map(|k| json!({
                     "key": k.key,
                     "value": k.value.describe(),
@@ -143,6 +158,13 @@ mod tests {
         assert_eq!(v.as_array().unwrap().len(), UNIT_TYPES.len());
         let one: Value = serde_json::from_str(&json(Some("purifier")).unwrap()).unwrap();
         assert_eq!(one[0]["outlets"]["min"], 2);
+        assert!(one[0]["named_ports"].is_null());
+        let x: Value = serde_json::from_str(&json(Some("exchanger")).unwrap()).unwrap();
+        assert_eq!(x[0]["named_ports"]["inlets"][1], "cold-from");
+        assert_eq!(x[0]["named_ports"]["optional_outlets"][0], "condensate-to");
+        assert!(table(Some("exchanger"))
+            .unwrap()
+            .contains("hot-from, cold-from, hot-to, cold-to, condensate-to (optional)"));
         assert!(table(Some("shfit"))
             .unwrap_err()
             .to_string()

@@ -132,6 +132,7 @@ pub static TYPE: UnitType = UnitType {
     ],
     example: "- name: atr\n  type: autothermal-reformer\n  from: [atr-feed, oxygen]\n  to: \
               atr-exit\n  pressure-drop: 0.5 bar\n  approach: {reforming: 10 K, shift: 0 K}",
+    named_ports: None,
     build: build::<Autothermal>,
 };
 

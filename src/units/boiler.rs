@@ -469,6 +469,7 @@ pub static TYPE: UnitType = UnitType {
         "- name: waste-heat-boiler\n  type: boiler\n  from: [reformed-gas, boiler-feed-water]\n  \
               to: [hts-feed, export-steam, blowdown]\n  steam-pressure: 45 bar\n  \
               approach-to-saturation: 90 K\n  blowdown: 2 %",
+    named_ports: None,
     build: build::<Boiler>,
 };
 

@@ -129,6 +129,7 @@ pub static TYPE: UnitType = UnitType {
     example: "- name: reformer-furnace\n  type: furnace\n  from: [tail-gas, fuel-gas, \
               combustion-air]\n  to: flue-gas\n  heats: reformer\n  air: combustion-air\n  \
               make-up-fuel: fuel-gas\n  bridgewall-temperature: 1010 degC\n  excess-oxygen: 10 %",
+    named_ports: None,
     build: build::<Furnace>,
 };
 

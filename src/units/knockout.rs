@@ -21,6 +21,22 @@ use crate::thermo::{water, SpeciesDb};
 /// correlation starts.
 const TRIPLE_POINT_K: f64 = 273.16;
 
+/// Water condensing from a gas at `t_k` and `p_pa` (below the critical temperature of water):
+/// `water_in` mol/s of water with `dry` mol/s of other (insoluble) species. Returns (water left
+/// in the gas, condensate), mol/s: when the gas would be supersaturated it keeps
+/// n_H2O = y_sat n_dry / (1 - y_sat) with y_sat = p_sat(T) / P (IAPWS-IF97 eq. 30); otherwise all
+/// the water stays in the gas. Shared by the knockout and the exchanger's hot side.
+pub(crate) fn flash_water(water_in: f64, dry: f64, t_k: f64, p_pa: f64) -> Result<(f64, f64)> {
+    let y_sat = water::saturation_pressure_pa(t_k)? / p_pa;
+    if y_sat < 1.0 {
+        let held = y_sat * dry / (1.0 - y_sat);
+        if water_in > held {
+            return Ok((held, water_in - held));
+        }
+    }
+    Ok((water_in, 0.0))
+}
+
 /// Specification of a knockout drum.
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct KnockoutSpec {
@@ -45,6 +61,7 @@ pub static TYPE: UnitType = UnitType {
               there separated (Raoult's law on the IAPWS-IF97 saturation line).",
     inlets: Ports::exactly(1, "wet gas"),
     outlets: Ports::exactly(2, "gas, condensate"),
+    named_ports: None,
     keys: &[
         KeyDoc {
             key: "temperature",
@@ -149,15 +166,10 @@ impl UnitKind for Knockout {
             ));
         }
         if t < water::CRITICAL_TEMPERATURE_K {
-            let p_sat = water::saturation_pressure_pa(t).context(|| format!("unit '{name}'"))?;
-            let y_sat = p_sat / p;
-            if y_sat < 1.0 {
-                let held = y_sat * dry / (1.0 - y_sat);
-                if water_in > held {
-                    out.outlets[0].flows[w] = held;
-                    out.outlets[1].flows[w] = water_in - held;
-                }
-            }
+            let (held, condensed) =
+                flash_water(water_in, dry, t, p).context(|| format!("unit '{name}'"))?;
+            out.outlets[0].flows[w] = held;
+            out.outlets[1].flows[w] = condensed;
         } else if water_in > 0.0 {
             out.warnings.push(
                 Warning::new(

@@ -59,6 +59,7 @@ pub static TYPE: UnitType = UnitType {
               temperature rise is set beside the rule of thumb.",
     inlets: Ports::exactly(1, "purified gas"),
     outlets: Ports::exactly(1, "methanated gas"),
+    named_ports: None,
     keys: &[
     KeyDoc {
         key: "pressure-drop",

@@ -49,6 +49,7 @@ pub static TYPE: UnitType = UnitType {
               energy balance.",
     inlets: Ports::at_least(1, "streams to mix"),
     outlets: Ports::exactly(1, "mixed stream"),
+    named_ports: None,
     keys: &[KeyDoc {
         key: "pressure-drop",
         value: ValueKind::PressureDifference,

@@ -54,6 +54,7 @@ pub static TYPE: UnitType = UnitType {
               approach temperatures; the outlet temperature follows from the energy balance.",
     inlets: Ports::exactly(1, "process gas with steam"),
     outlets: Ports::exactly(1, "pre-reformed gas"),
+    named_ports: None,
     keys: &[
     KeyDoc {
         key: "pressure-drop",

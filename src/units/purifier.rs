@@ -178,6 +178,7 @@ pub static TYPE: UnitType = UnitType {
               a split per impurity; isothermal, the tail gas at its own pressure.",
     inlets: Ports::exactly(1, "dry raw hydrogen"),
     outlets: Ports::exactly(2, "product, tail gas"),
+    named_ports: None,
     keys: &[
         KeyDoc {
             key: "hydrogen-recovery",

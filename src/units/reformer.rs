@@ -71,6 +71,7 @@ pub static TYPE: UnitType = UnitType {
               approach temperatures; the duty follows.",
     inlets: Ports::exactly(1, "process gas with steam"),
     outlets: Ports::exactly(1, "reformed gas"),
+    named_ports: None,
     keys: &[
         KeyDoc {
             key: "outlet-temperature",

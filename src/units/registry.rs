@@ -4,8 +4,8 @@
 
 use super::unit::UnitType;
 use super::{
-    autothermal, boiler, furnace, knockout, methanator, mixer, prereformer, purifier, reformer,
-    shift, splitter, thermal,
+    autothermal, boiler, exchanger, furnace, knockout, methanator, mixer, prereformer, purifier,
+    reformer, separator, shift, splitter, thermal,
 };
 
 /// Every unit type, in the order `unit-types` lists them (the order of a train).
@@ -15,6 +15,7 @@ pub static UNIT_TYPES: &[&UnitType] = &[
     &thermal::HEATER,
     &thermal::COOLER,
     &boiler::TYPE,
+    &exchanger::TYPE,
     &prereformer::TYPE,
     &reformer::TYPE,
     &autothermal::TYPE,
@@ -22,6 +23,7 @@ pub static UNIT_TYPES: &[&UnitType] = &[
     &shift::TYPE,
     &methanator::TYPE,
     &knockout::TYPE,
+    &separator::TYPE,
     &purifier::TYPE,
 ];
 

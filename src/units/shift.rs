@@ -153,6 +153,7 @@ pub static TYPE: UnitType = UnitType {
               temperature and dew-point cautions.",
     inlets: Ports::exactly(1, "process gas"),
     outlets: Ports::exactly(1, "shifted gas"),
+    named_ports: None,
     keys: &[
         KeyDoc {
             key: "outlet-temperature",

@@ -102,6 +102,7 @@ pub static TYPE: UnitType = UnitType {
               takes the rest.",
     inlets: Ports::exactly(1, "stream to divide"),
     outlets: Ports::at_least(2, "the parts, named in `fractions` or `flows`"),
+    named_ports: None,
     keys: &[
         KeyDoc {
             key: "fractions",

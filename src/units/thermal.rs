@@ -333,6 +333,7 @@ pub static HEATER: UnitType = UnitType {
               of vaporisation.",
     inlets: Ports::exactly(1, "stream to heat"),
     outlets: Ports::exactly(1, "heated stream"),
+    named_ports: None,
     keys: &THERMAL_KEYS,
     example: "- name: preheater\n  type: heater\n  from: mixed-feed\n  to: hot-feed\n  \
               outlet-temperature: 490 degC\n  pressure-drop: 0.3 bar",
@@ -347,6 +348,7 @@ pub static COOLER: UnitType = UnitType {
               may condense to water.",
     inlets: Ports::exactly(1, "stream to cool"),
     outlets: Ports::exactly(1, "cooled stream"),
+    named_ports: None,
     keys: &THERMAL_KEYS,
     example: "- name: process-gas-cooler\n  type: cooler\n  from: reformed-gas\n  to: hts-feed\n  \
               outlet-temperature: 350 degC",

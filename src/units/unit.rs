@@ -62,6 +62,8 @@ pub enum ValueKind {
     Duty,
     /// A molar flow ("120 kmol/h", "2700 Nm3/h").
     MolarFlow,
+    /// Heat per mass ("2.5 GJ/t", "2.5 MJ/kg"), J/kg.
+    SpecificEnergy,
     /// A fraction 0..1 (0.88, "88 %", "50 ppm").
     Fraction,
     /// A pure number not below zero (a ratio such as steam-to-carbon, 2.5).
@@ -88,6 +90,7 @@ impl ValueKind {
             ValueKind::PressureDifference => "pressure difference (bar, kPa, mbar)".into(),
             ValueKind::Duty => "duty, heat added to the stream (kW, MW, Gcal/h)".into(),
             ValueKind::MolarFlow => "molar flow (kmol/h, mol/s, Nm3/h)".into(),
+            ValueKind::SpecificEnergy => "heat per mass (GJ/t, MJ/kg, kJ/kg)".into(),
             ValueKind::Fraction => "fraction (0.88, 88 %, 50 ppm)".into(),
             ValueKind::Ratio => "number (2.5)".into(),
             ValueKind::Choice(options) => format!("one of: {}", options.join(", ")),
@@ -114,6 +117,7 @@ impl ValueKind {
             ValueKind::Pressure => quantity::parse_pressure(field, text),
             ValueKind::PressureDifference => quantity::parse_pressure_difference(field, text),
             ValueKind::Duty => quantity::parse_duty(field, text),
+            ValueKind::SpecificEnergy => quantity::parse_specific_energy(field, text),
             ValueKind::MolarFlow => match quantity::parse_flow(field, text)? {
                 Flow::Molar(n) => Ok(n),
                 Flow::Mass(_) => Err(Error::InvalidValue {
@@ -260,6 +264,59 @@ impl Ports {
     }
 }
 
+/// Ports written as named keys (`hot-from`, `hot-to`, ...) instead of `from` and `to`: each key
+/// holds one stream name; the flowsheet reader makes the inlet list of `inlets` and the outlet
+/// list of `outlets` followed by those of `optional_outlets` that are given, in this order.
+#[derive(Debug, Clone, Copy)]
+pub struct NamedPorts {
+    /// Inlet keys, in inlet order (all required).
+    pub inlets: &'static [&'static str],
+    /// Outlet keys, in outlet order (all required).
+    pub outlets: &'static [&'static str],
+    /// Outlet keys that may be left out, after the required ones, in order.
+    pub optional_outlets: &'static [&'static str],
+}
+
+impl NamedPorts {
+    /// Every port key: inlets, outlets, optional outlets.
+    pub fn keys(&self) -> impl Iterator<Item = &'static str> + '_ {
+        self.inlets
+            .iter()
+            .chain(self.outlets)
+            .chain(self.optional_outlets)
+            .copied()
+    }
+
+    /// The key written for position `index` of the inlet (`list` = "from") or outlet ("to")
+    /// list (exact when the optional outlets given are the first of them, as with one).
+    pub fn key_of(&self, list: &str, index: usize) -> Option<&'static str> {
+        if list == "from" {
+            return self.inlets.get(index).copied();
+        }
+        self.outlets
+            .iter()
+            .chain(self.optional_outlets)
+            .nth(index)
+            .copied()
+    }
+
+    /// "hot-from, cold-from" style list of the keys, optional ones marked.
+    pub fn describe(&self) -> String {
+        let mut keys: Vec<String> = self
+            .inlets
+            .iter()
+            .chain(self.outlets)
+            .map(|k| k.to_string())
+            .collect();
+        keys.extend(
+            self.optional_outlets
+                .iter()
+                .map(|k| format!("{k} (optional)")),
+        );
+        keys.join(", ")
+    }
+}
+
 /// A unit type: its documentation and its constructor. One static per unit file.
 pub struct UnitType {
     /// The type as written in flowsheets (`shift`).
@@ -270,6 +327,8 @@ pub struct UnitType {
     pub inlets: Ports,
     /// Its outlets (`to`).
     pub outlets: Ports,
+    /// Ports written as named keys instead of `from` and `to` (`None`: `from` and `to`).
+    pub named_ports: Option<&'static NamedPorts>,
     /// Its keys.
     pub keys: &'static [KeyDoc],
     /// A short example entry (YAML).
@@ -589,10 +648,13 @@ impl<'a, 'b, S: 'static> UnitBuilder<'a, 'b, S> {
         for (key, _) in &self.input.entry.fields {
             if !t.keys.iter().any(|k| k.key == key) {
                 let known: Vec<&str> = t.keys.iter().map(|k| k.key).collect();
+                let ports = t
+                    .named_ports
+                    .map_or_else(|| "from, to".to_string(), |n| n.describe());
                 return Err(self.error(
                     key,
                     format!(
-                        "unknown key for a {}; its keys are: name, type, from, to, {} (see \
+                        "unknown key for a {}; its keys are: name, type, {ports}, {} (see \
                          `syntrain unit-types {}`)",
                         t.name,
                         known.join(", "),
