@@ -265,6 +265,7 @@ impl SolverModel {
             temperature_iteration_limit: self
                 .temperature_iteration_limit
                 .unwrap_or(d.temperature_iteration_limit),
+            ..d
         };
         if o.is_valid() {
             Ok(o)
