@@ -127,6 +127,10 @@ pub struct StageResult {
     /// Passes of the fugacity loop, summed over the equilibria evaluated (zero for an ideal
     /// gas).
     pub fugacity_iterations: usize,
+    /// Residual enthalpy of the outlet less that of the inlet, W (zero for an ideal gas): what
+    /// the real-gas energy balance holds beyond the ideal-gas enthalpies. A unit whose stage
+    /// inlet differs from its own inlet sets it against its own inlet.
+    pub residual_enthalpy_change_w: f64,
 }
 
 impl StageResult {
@@ -634,6 +638,11 @@ impl EquilibriumStage {
         out.temperature_iterations = search.map_or(0, |r| r.iterations);
         out.temperature_search = search;
         out.gas_model = pass.options.gas_model;
+        out.residual_enthalpy_change_w = if ctx.real_gas.is_empty() {
+            0.0
+        } else {
+            run.residual_enthalpy_w - ctx.inlet_residual_enthalpy_w
+        };
         out.fugacity_iterations = run.fugacity_iterations;
         Ok(())
     }
@@ -994,6 +1003,8 @@ struct Context<'a> {
     /// Peng-Robinson constants of the stage's species and then of the inerts (empty for an
     /// ideal gas).
     real_gas: &'a [PrComponent],
+    /// Residual enthalpy of the inlet, W (zero for an ideal gas).
+    inlet_residual_enthalpy_w: f64,
 }
 
 impl<'a> Context<'a> {
@@ -1092,8 +1103,13 @@ impl<'a> Context<'a> {
         feed.local_inlet
             .extend(stage.species.iter().map(|&i| inlet.flows[i]));
         let enthalpy_scale = total * R_GAS * t_in;
+        let inlet_residual_enthalpy_w = if real_gas {
+            fugacity::prepare_inlet(stage, db, inlet, feed)?
+        } else {
+            0.0
+        };
         if real_gas {
-            h += fugacity::prepare_inlet(stage, db, inlet, feed)?;
+            h += inlet_residual_enthalpy_w;
         }
         Ok(Context {
             inlet,
@@ -1106,6 +1122,7 @@ impl<'a> Context<'a> {
             t_min,
             t_max,
             real_gas: &feed.real_gas,
+            inlet_residual_enthalpy_w,
         })
     }
 

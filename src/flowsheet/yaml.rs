@@ -11,7 +11,9 @@
 //!
 //! Besides `title`, `solver`, `feeds` and `units` a file may hold `targets` (design targets,
 //! [`TargetModel`]; their paths and bounds are checked in [`super::targets`]) and
-//! `steam-feed` (the feed a steam-to-carbon target scales).
+//! `steam-feed` (the feed a steam-to-carbon target scales), and `gas-model` (`ideal`, the
+//! default, or `peng-robinson`: the gas model of every equilibrium stage, kept in the solver
+//! options; a reactor may set its own with its `gas-model` key).
 
 use std::fmt;
 
@@ -24,6 +26,7 @@ use super::values::{
     FlowRate, Fraction, Names, OrderedMap, Pressure, Temperature, TemperatureDifference,
 };
 use crate::equilibrium::SolverOptions;
+use crate::thermo::GasModel;
 use crate::error::{Error, Position, Result};
 use crate::units::registry;
 use crate::units::unit::{Entry, EntryValue, UnitType};
@@ -33,7 +36,8 @@ use crate::units::unit::{Entry, EntryValue, UnitType};
 pub struct FileModel {
     /// Title of the flowsheet.
     pub title: Option<String>,
-    /// Tolerances and iteration limits of the equilibrium stages (`solver:`).
+    /// Tolerances and iteration limits of the equilibrium stages (`solver:`), and their gas
+    /// model (`gas-model:`).
     pub solver: SolverOptions,
     /// Feeds, in file order.
     pub feeds: OrderedMap<FeedModel>,
@@ -224,7 +228,15 @@ fn yaml_error(origin: &str, err: &serde_norway::Error, previews: &[Preview]) -> 
     }
 }
 
-const FILE_KEYS: &[&str] = &["title", "solver", "feeds", "units", "targets", "steam-feed"];
+const FILE_KEYS: &[&str] = &[
+    "title",
+    "solver",
+    "gas-model",
+    "feeds",
+    "units",
+    "targets",
+    "steam-feed",
+];
 
 /// The `solver:` key: tolerances and iteration limits of the equilibrium stages, each optional
 /// (the defaults of [`SolverOptions`]).
@@ -291,7 +303,10 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
     type Value = FileModel;
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
-        f.write_str("a flowsheet with the keys title, solver, feeds, units, targets and steam-feed")
+        f.write_str(
+            "a flowsheet with the keys title, solver, gas-model, feeds, units, targets and \
+             steam-feed",
+        )
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> std::result::Result<FileModel, A::Error> {
@@ -301,11 +316,21 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
         let mut solver: Option<SolverOptions> = None;
         let mut targets: Option<Vec<TargetModel>> = None;
         let mut steam_feed: Option<String> = None;
+        let mut gas_model: Option<GasModel> = None;
         while let Some(key) = map.next_key::<String>()? {
             match key.as_str() {
                 "solver" if solver.is_none() => {
                     let model: SolverModel = map.next_value()?;
                     solver = Some(model.options().map_err(de::Error::custom)?);
+                }
+                "gas-model" if gas_model.is_none() => {
+                    let label: String = map.next_value()?;
+                    gas_model = Some(GasModel::from_label(&label).ok_or_else(|| {
+                        de::Error::custom(format!(
+                            "gas-model `{label}` is not known; write one of: {}",
+                            GasModel::NAMES.join(", ")
+                        ))
+                    })?);
                 }
                 "title" if title.is_none() => title = Some(map.next_value()?),
                 "feeds" if feeds.is_none() => {
@@ -321,7 +346,8 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
                 }
                 "targets" if targets.is_none() => targets = Some(map.next_value()?),
                 "steam-feed" if steam_feed.is_none() => steam_feed = Some(map.next_value()?),
-                "title" | "solver" | "feeds" | "units" | "targets" | "steam-feed" => {
+                "title" | "solver" | "gas-model" | "feeds" | "units" | "targets"
+                | "steam-feed" => {
                     return Err(de::Error::custom(format!("duplicate key `{key}`")))
                 }
                 other => return Err(de::Error::unknown_field(other, FILE_KEYS)),
@@ -334,9 +360,13 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
             ));
         }
         let units = units.ok_or_else(|| de::Error::missing_field("units"))?;
+        let mut solver = solver.unwrap_or_default();
+        if let Some(model) = gas_model {
+            solver.gas_model = model;
+        }
         Ok(FileModel {
             title,
-            solver: solver.unwrap_or_default(),
+            solver,
             feeds,
             units,
             targets: targets.unwrap_or_default(),

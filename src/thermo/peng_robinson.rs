@@ -41,6 +41,7 @@ use crate::error::{Error, Result};
 use crate::quantity::R_GAS;
 
 use super::species::Critical;
+use super::SpeciesDb;
 
 const SQRT2: f64 = std::f64::consts::SQRT_2;
 /// Omega_a of a_c = Omega_a R^2 Tc^2 / Pc: the exact root of the critical conditions, which
@@ -232,6 +233,39 @@ pub fn vapour_root(big_a: f64, big_b: f64) -> Option<f64> {
         }
     }
     (z.is_finite() && z > big_b).then_some(z)
+}
+
+/// Residual enthalpy of a whole stream, W: n (H - H_ig) of the gas of `flows` (mol/s, one per
+/// database species) at `temperature_k` and `pressure_pa`, over the species present. An error
+/// names a species present without critical constants. Allocates (a few short vectors): for
+/// the balances of units solved as a real gas, not for a hot loop.
+pub fn stream_residual_enthalpy_w(
+    db: &SpeciesDb,
+    flows: &[f64],
+    temperature_k: f64,
+    pressure_pa: f64,
+) -> Result<f64> {
+    let mut comps = Vec::new();
+    let mut amounts = Vec::new();
+    for (i, &n) in flows.iter().enumerate() {
+        if n > 0.0 {
+            let sp = db.by_index(i);
+            let c = sp.critical.as_ref().ok_or_else(|| Error::InvalidValue {
+                field: format!("critical constants of {}", sp.name),
+                value: "none".into(),
+                reason: "the gas model peng-robinson needs them for every species present".into(),
+            })?;
+            comps.push(PrComponent::new(c));
+            amounts.push(n);
+        }
+    }
+    let total: f64 = amounts.iter().sum();
+    if comps.is_empty() || !(total > 0.0) {
+        return Ok(0.0);
+    }
+    let mut ln_phi = vec![0.0; comps.len()];
+    let state = evaluate(&comps, &amounts, temperature_k, pressure_pa, &mut ln_phi)?;
+    Ok(total * state.residual_enthalpy_j_per_mol)
 }
 
 #[cfg(test)]
