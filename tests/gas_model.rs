@@ -80,9 +80,17 @@ fn a_peng_robinson_lts_at_25_bar_slips_more_co_than_the_ideal_gas() {
     assert!((slip_real / slip_ideal - 1.0 - change).abs() < 1e-6);
     // An adiabatic unit gives the change of its outlet temperature: less shift, less heat.
     let dt = figure(&real, "ideal-gas-outlet-temperature-change").unwrap();
-    let t_ideal = ideal["units"]["lts"]["outlet_temperature_K"].as_f64().unwrap();
-    let t_real = real["units"]["lts"]["outlet_temperature_K"].as_f64().unwrap();
-    assert!((t_real - t_ideal - dt).abs() < 1e-6, "{dt} vs {}", t_real - t_ideal);
+    let t_ideal = ideal["units"]["lts"]["outlet_temperature_K"]
+        .as_f64()
+        .unwrap();
+    let t_real = real["units"]["lts"]["outlet_temperature_K"]
+        .as_f64()
+        .unwrap();
+    assert!(
+        (t_real - t_ideal - dt).abs() < 1e-6,
+        "{dt} vs {}",
+        t_real - t_ideal
+    );
     assert!(dt < 0.0, "{dt}");
     // Held at 200 degC (a cooled bed) the change is that of Cantera's case 2 in size: +4 to
     // +8 % (the feed here holds a little methane and less steam).
@@ -150,7 +158,10 @@ fn the_text_report_names_the_model_and_a_bad_name_is_refused() {
     let text = String::from_utf8(out.stdout).unwrap();
     assert!(text.contains("lts (peng-robinson)"), "{text}");
     assert!(text.contains("CO slip vs ideal gas"), "{text}");
-    for (top, unit) in [("gas-model: real\n", ""), ("", "    gas-model: van-der-waals\n")] {
+    for (top, unit) in [
+        ("gas-model: real\n", ""),
+        ("", "    gas-model: van-der-waals\n"),
+    ] {
         let file = lts_file(dir.path(), "bad.yaml", top, unit);
         let out = syntrain(&["solve", &file]);
         assert_eq!(out.status.code(), Some(1));

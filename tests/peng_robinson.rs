@@ -14,6 +14,7 @@
 mod common;
 
 use common::{element_balance_error, flows, Table};
+use syntrain::equilibrium::approach::ln_fugacity_coefficient_term;
 use syntrain::equilibrium::*;
 use syntrain::reaction::Reaction;
 use syntrain::thermo::peng_robinson::{evaluate, PrComponent};
@@ -155,7 +156,11 @@ fn fixed_temperature_equilibria_match_cantera_peng_robinson() {
         let inlet = flows(&db, &pairs);
         let mode = EnergyMode::FixedTemperature { temperature_k: t };
         let r = solve(&db, st, &inlet, t, p, mode, GasModel::PengRobinson);
-        assert!(r.converged() && r.max_residual() < 1e-10, "{:?}", r.termination);
+        assert!(
+            r.converged() && r.max_residual() < 1e-10,
+            "{:?}",
+            r.termination
+        );
         assert_eq!(r.gas_model, GasModel::PengRobinson);
         assert!(r.fugacity_iterations >= 2);
         assert!(element_balance_error(&db, &inlet, &r.outlet_flows) < 1e-12);
@@ -182,7 +187,10 @@ fn at_one_bar_the_two_models_agree() {
     // effect at 1 bar, not an error.
     let db = SpeciesDb::embedded().unwrap();
     let full = stage(&db, &["reforming", "shift"]);
-    let inlet = flows(&db, &[("CH4", 1.0), ("H2O", 3.0), ("H2", 0.05), ("N2", 0.02)]);
+    let inlet = flows(
+        &db,
+        &[("CH4", 1.0), ("H2O", 3.0), ("H2", 0.05), ("N2", 0.02)],
+    );
     let (mut worst, mut worst_fraction) = (0.0f64, 0.0f64);
     for t in [873.15, 1073.15, 1173.15] {
         let mode = EnergyMode::FixedTemperature { temperature_k: t };
@@ -217,9 +225,19 @@ fn adiabatic_real_gas_stages_close_their_energy_balance() {
     let full = stage(&db, &["reforming", "shift"]);
     let lts = flows(
         &db,
-        &[("H2O", 0.30), ("CO", 0.03), ("CO2", 0.12), ("H2", 0.545), ("N2", 0.005), ("CH4", 0.02)],
+        &[
+            ("H2O", 0.30),
+            ("CO", 0.03),
+            ("CO2", 0.12),
+            ("H2", 0.545),
+            ("N2", 0.005),
+            ("CH4", 0.02),
+        ],
     );
-    let reformer = flows(&db, &[("CH4", 1.0), ("H2O", 3.0), ("H2", 0.05), ("N2", 0.02)]);
+    let reformer = flows(
+        &db,
+        &[("CH4", 1.0), ("H2O", 3.0), ("H2", 0.05), ("N2", 0.02)],
+    );
     for (st, inlet, t_in, p, duty) in [
         (&shift, &lts, 473.15, 25e5, 0.0),
         (&shift, &lts, 623.15, 40e5, 0.0),
@@ -238,8 +256,7 @@ fn adiabatic_real_gas_stages_close_their_energy_balance() {
         let closure = (h_out - h_in - duty).abs() / scale;
         assert!(closure < 1e-9, "closure {closure:e}");
         // The ideal-gas enthalpy alone would not close it (the residual enthalpies matter).
-        let ideal_gap = (mixture::enthalpy(&db, &r.outlet_flows, r.outlet_temperature_k)
-            .unwrap()
+        let ideal_gap = (mixture::enthalpy(&db, &r.outlet_flows, r.outlet_temperature_k).unwrap()
             - mixture::enthalpy(&db, inlet, t_in).unwrap()
             - duty)
             .abs()
@@ -253,7 +270,10 @@ fn the_fugacity_loop_reports_its_own_limit() {
     // One pass cannot settle phi (it starts from the inlet composition): the stage says so.
     let db = SpeciesDb::embedded().unwrap();
     let shift = stage(&db, &["shift"]);
-    let inlet = flows(&db, &[("H2O", 0.30), ("CO", 0.03), ("CO2", 0.12), ("H2", 0.545)]);
+    let inlet = flows(
+        &db,
+        &[("H2O", 0.30), ("CO", 0.03), ("CO2", 0.12), ("H2", 0.545)],
+    );
     let one = SolverOptions {
         fugacity_iteration_limit: 1,
         ..options(GasModel::PengRobinson)
@@ -266,7 +286,9 @@ fn the_fugacity_loop_reports_its_own_limit() {
                 temperature_k: 473.15,
                 pressure_pa: 25e5,
             },
-            EnergyMode::FixedTemperature { temperature_k: 473.15 },
+            EnergyMode::FixedTemperature {
+                temperature_k: 473.15,
+            },
             None,
             &one,
         )
@@ -289,8 +311,13 @@ fn a_species_without_critical_constants_cannot_be_a_real_gas() {
     );
     db.add_yaml("user.yaml", &yaml).unwrap();
     let shift = stage(&db, &["shift"]);
-    let inlet = flows(&db, &[("H2O", 0.3), ("CO", 0.03), ("H2", 0.5), ("XN2", 0.1)]);
-    let mode = EnergyMode::FixedTemperature { temperature_k: 500.0 };
+    let inlet = flows(
+        &db,
+        &[("H2O", 0.3), ("CO", 0.03), ("H2", 0.5), ("XN2", 0.1)],
+    );
+    let mode = EnergyMode::FixedTemperature {
+        temperature_k: 500.0,
+    };
     let e = shift
         .solve_with_options(
             &db,
@@ -320,4 +347,44 @@ fn a_species_without_critical_constants_cannot_be_a_real_gas() {
             &options(GasModel::Ideal),
         )
         .is_ok());
+}
+
+#[test]
+fn an_approach_solved_as_a_real_gas_reads_back_from_fugacities() {
+    // The evaluation's back-calculation (definition of the approach): an LTS outlet solved as a
+    // Peng-Robinson gas 10 K short of equilibrium gives back 10 K from
+    // sum nu ln(phi y P/P0) = ln K(T_eq), and not from the ideal-gas quotient.
+    let db = SpeciesDb::embedded().unwrap();
+    let reaction = Reaction::named(&db, "shift").unwrap();
+    let st = EquilibriumStage::new(
+        &db,
+        vec![StageReaction {
+            reaction: reaction.clone(),
+            approach_k: 10.0,
+            direction: Direction::Forward,
+        }],
+    )
+    .unwrap();
+    let inlet = flows(
+        &db,
+        &[
+            ("H2O", 0.30),
+            ("CO", 0.03),
+            ("CO2", 0.12),
+            ("H2", 0.545),
+            ("N2", 0.005),
+        ],
+    );
+    let (t, p) = (483.15, 25e5);
+    let mode = EnergyMode::FixedTemperature { temperature_k: t };
+    let r = solve(&db, &st, &inlet, t, p, mode, GasModel::PengRobinson);
+    let out = &r.outlet_flows;
+    let ln_q = ln_quotient(&db, &reaction, out, p).unwrap();
+    let term = ln_fugacity_coefficient_term(&db, &reaction, out, t, p).unwrap();
+    let real = approach_from_quotient(&db, &reaction, ln_q + term, t, 1.0, (300.0, 1500.0));
+    assert!((real.unwrap() - 10.0).abs() < 1e-6);
+    let ideal = approach_from_quotient(&db, &reaction, ln_q, t, 1.0, (300.0, 1500.0)).unwrap();
+    // Read as an ideal gas the same outlet seems about 2-3 K further from equilibrium.
+    eprintln!("approach read as ideal gas: {ideal:.3} K");
+    assert!(ideal > 11.0 && ideal < 14.0, "{ideal}");
 }

@@ -18,10 +18,10 @@
 //! included) at the inlet and at the outlet, so that adiabatic and fixed-duty stages close on
 //! real-gas enthalpies.
 
-use crate::equilibrium::extents::ExtentProblem;
-use crate::equilibrium::options::{SolverOptions, StageTermination};
 use super::{Context, EquilibriumStage, FeedBuffers, RunBuffers, StageInlet, MAX_STAGE_SPECIES};
+use crate::equilibrium::extents::ExtentProblem;
 use crate::equilibrium::linalg::MAX_DIM;
+use crate::equilibrium::options::{SolverOptions, StageTermination};
 use crate::error::{Error, Result};
 use crate::thermo::peng_robinson::{self, PrComponent};
 use crate::thermo::{Species, SpeciesDb};
@@ -92,7 +92,8 @@ impl EquilibriumStage {
         run.real_gas_amounts.resize(n_all, 0.0);
         run.real_gas_ln_phi.resize(n_all, 0.0);
         // Start from phi at the composition of the starting extents (or of the inlet).
-        let start_ok = run.has_guess && run.guess.len() == nr && self.guess_feasible(ctx, &run.guess);
+        let start_ok =
+            run.has_guess && run.guess.len() == nr && self.guess_feasible(ctx, &run.guess);
         for k in 0..ns {
             let mut n = ctx.local_inlet[k];
             if start_ok {

@@ -26,8 +26,8 @@ use super::values::{
     FlowRate, Fraction, Names, OrderedMap, Pressure, Temperature, TemperatureDifference,
 };
 use crate::equilibrium::SolverOptions;
-use crate::thermo::GasModel;
 use crate::error::{Error, Position, Result};
+use crate::thermo::GasModel;
 use crate::units::registry;
 use crate::units::unit::{Entry, EntryValue, UnitType};
 
@@ -346,8 +346,7 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
                 }
                 "targets" if targets.is_none() => targets = Some(map.next_value()?),
                 "steam-feed" if steam_feed.is_none() => steam_feed = Some(map.next_value()?),
-                "title" | "solver" | "gas-model" | "feeds" | "units" | "targets"
-                | "steam-feed" => {
+                "title" | "solver" | "gas-model" | "feeds" | "units" | "targets" | "steam-feed" => {
                     return Err(de::Error::custom(format!("duplicate key `{key}`")))
                 }
                 other => return Err(de::Error::unknown_field(other, FILE_KEYS)),

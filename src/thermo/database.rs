@@ -439,7 +439,10 @@ species:
             assert!(!s.source.is_empty(), "{name} has no source");
             if s.phase == Phase::Gas {
                 // Every shipped gas record carries critical constants with their source.
-                let c = s.critical.as_ref().unwrap_or_else(|| panic!("{name}: no critical"));
+                let c = s
+                    .critical
+                    .as_ref()
+                    .unwrap_or_else(|| panic!("{name}: no critical"));
                 assert!(c.temperature_k > 0.0 && c.pressure_pa > 0.0 && !c.source.is_empty());
             }
         }

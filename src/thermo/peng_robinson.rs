@@ -140,7 +140,11 @@ pub fn evaluate(
     if y.len() != n || ln_phi.len() != n {
         return Err(Error::InvalidValue {
             field: "Peng-Robinson mixture".into(),
-            value: format!("{n} components, {} amounts, {} outputs", y.len(), ln_phi.len()),
+            value: format!(
+                "{n} components, {} amounts, {} outputs",
+                y.len(),
+                ln_phi.len()
+            ),
             reason: "one amount and one output per component are needed".into(),
         });
     }
@@ -337,7 +341,10 @@ mod tests {
     fn residual_enthalpy_is_the_temperature_derivative_of_ln_phi() {
         // H_res / (R T^2) = -d(ln phi_mix)/dT at fixed P and composition (thermodynamic
         // identity).
-        let comps = [methane(), PrComponent::from_constants(304.2, 7_376_460.0, 0.2252)];
+        let comps = [
+            methane(),
+            PrComponent::from_constants(304.2, 7_376_460.0, 0.2252),
+        ];
         let y = [0.6, 0.4];
         let (t, p) = (600.0, 4.0e6);
         let mix = |t: f64| {

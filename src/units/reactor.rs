@@ -25,8 +25,8 @@ use super::common::{dry_fraction, figure};
 use super::unit::{KeyDoc, UnitBuilder, ValueKind};
 use super::{FigureKind, StreamPhase, UnitResult};
 use crate::equilibrium::{
-    Direction, EnergyMode, EquilibriumStage, SolveSettings, SolverOptions, StageInlet,
-    StageResult, StageWorkspace,
+    Direction, EnergyMode, EquilibriumStage, SolveSettings, SolverOptions, StageInlet, StageResult,
+    StageWorkspace,
 };
 use crate::error::Result;
 use crate::thermo::{GasModel, SpeciesDb};
@@ -41,13 +41,13 @@ pub(crate) const GAS_MODEL_KEY: KeyDoc = KeyDoc {
 };
 
 /// Read a reactor's `gas-model` key (`None` when left out: the flowsheet's model).
-pub(crate) fn read_gas_model<S: 'static>(b: &mut UnitBuilder<'_, '_, S>) -> Result<Option<GasModel>> {
-    Ok(b
-        .choice("gas-model", &GasModel::NAMES)?
-        .map(|i| match i {
-            0 => GasModel::Ideal,
-            _ => GasModel::PengRobinson,
-        }))
+pub(crate) fn read_gas_model<S: 'static>(
+    b: &mut UnitBuilder<'_, '_, S>,
+) -> Result<Option<GasModel>> {
+    Ok(b.choice("gas-model", &GasModel::NAMES)?.map(|i| match i {
+        0 => GasModel::Ideal,
+        _ => GasModel::PengRobinson,
+    }))
 }
 
 /// Name, key species and stage of an equilibrium reactor.
