@@ -169,3 +169,60 @@ fn the_text_report_names_the_model_and_a_bad_name_is_refused() {
         assert!(err.contains("peng-robinson"), "{err}");
     }
 }
+
+#[test]
+fn evaluation_reads_approaches_with_the_flowsheets_gas_model() {
+    // An LTS outlet made by the solver as a Peng-Robinson gas 10 K short of equilibrium
+    // (definition of the approach, DEVELOPERS.md) reads back as 10 K with the same model; read
+    // as an ideal gas the same analysis means a larger approach.
+    let dir = tempfile::tempdir().unwrap();
+    let unit = "    outlet-temperature: 210 degC\n    approach: {shift: 10 K}\n";
+    let real_file = lts_file(dir.path(), "real.yaml", "gas-model: peng-robinson\n", unit);
+    let ideal_file = lts_file(dir.path(), "ideal.yaml", "", unit);
+    let solved = solve_json(&real_file);
+    let gas = &solved["streams"]["shifted-gas"];
+    let dry = &gas["mole_percent_dry"];
+    let cell = |s: &str| format!("{:.9}", dry[s].as_f64().unwrap_or(0.0));
+    let samples = format!(
+        "sample,unit,temperature_C,pressure_bar,H2,CO,CO2,CH4,N2\ns1,lts,{:.9},{:.9},{},{},{},{},{}\n",
+        gas["temperature_degC"].as_f64().unwrap(),
+        gas["pressure_bar"].as_f64().unwrap(),
+        cell("H2"),
+        cell("CO"),
+        cell("CO2"),
+        cell("CH4"),
+        cell("N2")
+    );
+    let samples_file = dir.path().join("samples.csv");
+    std::fs::write(&samples_file, samples).unwrap();
+    let read = |file: &str, format: &str| {
+        let out = syntrain(&[
+            "evaluate",
+            file,
+            "--samples",
+            samples_file.to_str().unwrap(),
+            "--format",
+            format,
+        ]);
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        String::from_utf8(out.stdout).unwrap()
+    };
+    let real: Value = serde_json::from_str(&read(&real_file, "json")).unwrap();
+    let ideal: Value = serde_json::from_str(&read(&ideal_file, "json")).unwrap();
+    let back = real["samples"][0]["approach_K"]["shift"].as_f64().unwrap();
+    let as_ideal = ideal["samples"][0]["approach_K"]["shift"].as_f64().unwrap();
+    eprintln!("approach read back: Peng-Robinson {back:.4} K, ideal gas {as_ideal:.4} K");
+    assert!((back - 10.0).abs() < 0.05, "{back}");
+    assert!(as_ideal > back + 1.0, "{as_ideal}");
+    assert_eq!(real["samples"][0]["gas_model"], "peng-robinson");
+    assert_eq!(ideal["samples"][0]["gas_model"], "ideal");
+    let text = read(&real_file, "table");
+    assert!(
+        text.contains("Gas model of the approaches: peng-robinson"),
+        "{text}"
+    );
+}
