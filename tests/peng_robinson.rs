@@ -142,6 +142,7 @@ fn fixed_temperature_equilibria_match_cantera_peng_robinson() {
     let table = Table::read("cantera_peng_robinson.csv");
     assert!(table.rows.len() >= 20);
     let mut worst: f64 = 0.0;
+    let mut passes = 0;
     for row in 0..table.rows.len() {
         let st = match table.text(row, "kind") {
             "shift" => &shift,
@@ -163,6 +164,7 @@ fn fixed_temperature_equilibria_match_cantera_peng_robinson() {
         );
         assert_eq!(r.gas_model, GasModel::PengRobinson);
         assert!(r.fugacity_iterations >= 2);
+        passes = passes.max(r.fugacity_iterations);
         assert!(element_balance_error(&db, &inlet, &r.outlet_flows) < 1e-12);
         let total: f64 = r.outlet_flows.iter().sum();
         for s in SPECIES {
@@ -176,7 +178,10 @@ fn fixed_temperature_equilibria_match_cantera_peng_robinson() {
             );
         }
     }
-    eprintln!("worst mole-fraction difference vs cantera Peng-Robinson: {worst:.2e}");
+    eprintln!(
+        "worst mole-fraction difference vs cantera Peng-Robinson: {worst:.2e}; most fugacity \
+         passes {passes}"
+    );
 }
 
 #[test]
