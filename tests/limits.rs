@@ -121,6 +121,7 @@ fn carbon_routes_agree_in_an_equilibrated_gas() {
             pressure_drop_pa: 0.0,
             approaches: vec![],
             limits: Default::default(),
+            gas_model: None,
         };
         let r = Reformer::new(&db, "r", &spec)
             .unwrap()

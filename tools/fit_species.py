@@ -442,6 +442,10 @@ def molar_mass(elements):
 
 
 def write_yaml(entries):
+    # Critical constants for the Peng-Robinson gas model (tools/critical_constants.py).
+    sys.path.insert(0, os.path.dirname(__file__))
+    import critical_constants
+    CRITICAL = critical_constants.critical_constants()
     lines = [
         "# syntrain species database. Standard-state pressure 1 bar. H includes the formation",
         "# enthalpy at 298.15 K (elements in their reference state have H(298.15 K) = 0).",
@@ -467,6 +471,10 @@ def write_yaml(entries):
             f"    molar-mass: {round(molar_mass(e['elements']), 6)!r}",
             f"    source: \"{e['source']}\"",
             "    standard-pressure: 1 bar",
+        ]
+        if e["name"] in CRITICAL:
+            lines += critical_constants.yaml_block(*CRITICAL[e["name"]])
+        lines += [
             "    nasa7:",
             f"      from-k: {fnum(rec.tmin)}",
             f"      break-k: {fnum(rec.tmid)}",

@@ -31,6 +31,53 @@ pub fn approach_sign(delta_h: f64, direction: f64) -> f64 {
     }
 }
 
+/// sum_i nu_i ln phi_i of `reaction` in the gas of `flows` at `temperature_k` and
+/// `pressure_pa` as a Peng-Robinson gas ([`crate::thermo::peng_robinson`], every species
+/// present), the term that turns [`ln_quotient`] into the quotient of fugacities:
+/// sum nu ln(phi y P/P0) = ln Q + this. An error names a species present without critical
+/// constants.
+pub fn ln_fugacity_coefficient_term(
+    db: &SpeciesDb,
+    reaction: &Reaction,
+    flows: &[f64],
+    temperature_k: f64,
+    pressure_pa: f64,
+) -> Result<f64> {
+    use crate::thermo::peng_robinson::{evaluate, PrComponent};
+    let mut comps = Vec::new();
+    let mut amounts = Vec::new();
+    let mut index = vec![usize::MAX; db.len()];
+    for (i, &n) in flows.iter().enumerate() {
+        if n > 0.0 {
+            let sp = db.by_index(i);
+            let c = sp.critical.as_ref().ok_or_else(|| Error::InvalidValue {
+                field: format!("critical constants of {}", sp.name),
+                value: "none".into(),
+                reason: "the gas model peng-robinson needs them for every species present".into(),
+            })?;
+            index[i] = comps.len();
+            comps.push(PrComponent::new(c));
+            amounts.push(n);
+        }
+    }
+    let mut ln_phi = vec![0.0; comps.len()];
+    evaluate(&comps, &amounts, temperature_k, pressure_pa, &mut ln_phi)?;
+    let mut term = 0.0;
+    for (i, nu) in &reaction.stoichiometry {
+        match index.get(*i) {
+            Some(&k) if k != usize::MAX => term += nu * ln_phi[k],
+            _ => {
+                return Err(Error::InvalidValue {
+                    field: format!("flow of {} for {}", db.by_index(*i).name, reaction.name),
+                    value: "0 mol/s".into(),
+                    reason: "every species of the reaction must be present".into(),
+                })
+            }
+        }
+    }
+    Ok(term)
+}
+
 /// ln Q = sum nu ln(y P / P0) of a gas reaction at the given flows (mol/s, one per database
 /// species) and pressure (Pa). An error when a species of the reaction is absent (ln Q is not
 /// finite) or the flows do not match the database.

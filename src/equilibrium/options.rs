@@ -1,10 +1,12 @@
-//! Tolerances and limits of a stage solve, and why a solve stopped.
+//! Tolerances and limits of a stage solve, its gas model, and why a solve stopped.
 //!
 //! The defaults are the values the engine has always used; a flowsheet may set them per run
 //! (the flowsheet layer reads them and fills [`SolverOptions`]; this module knows no file
 //! format).
 
-/// Tolerances and iteration limits of an equilibrium stage solve.
+use crate::thermo::GasModel;
+
+/// Tolerances and iteration limits of an equilibrium stage solve, and its gas model.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct SolverOptions {
     /// Largest residual of the working equilibrium equations at which the extent Newton
@@ -24,6 +26,14 @@ pub struct SolverOptions {
     pub temperature_step_tolerance_k: f64,
     /// Equilibrium evaluations the temperature search may take (count). Default 100.
     pub temperature_iteration_limit: usize,
+    /// Gas model of the stage: ideal (activity y P/P0) or Peng-Robinson (phi y P/P0, residual
+    /// enthalpies in the energy balance). Default ideal.
+    pub gas_model: GasModel,
+    /// Largest change of any ln phi between two passes at which the fugacity loop of a
+    /// Peng-Robinson stage stops (dimensionless). Default 1e-12.
+    pub fugacity_tolerance: f64,
+    /// Passes of the fugacity loop allowed at one temperature (count). Default 50.
+    pub fugacity_iteration_limit: usize,
 }
 
 impl Default for SolverOptions {
@@ -35,6 +45,9 @@ impl Default for SolverOptions {
             energy_tolerance: 1e-10,
             temperature_step_tolerance_k: 1e-9,
             temperature_iteration_limit: 100,
+            gas_model: GasModel::Ideal,
+            fugacity_tolerance: 1e-12,
+            fugacity_iteration_limit: 50,
         }
     }
 }
@@ -47,6 +60,8 @@ impl SolverOptions {
             && positive(self.extent_reported_tolerance)
             && positive(self.energy_tolerance)
             && positive(self.temperature_step_tolerance_k)
+            && positive(self.fugacity_tolerance)
+            && self.fugacity_iteration_limit >= 1
             && self.extent_iteration_limit >= 1
             && self.temperature_iteration_limit >= 1
     }
@@ -79,6 +94,10 @@ pub enum StageTermination {
     OutsideDataRange,
     /// A value that is not finite came up.
     NotFinite,
+    /// The fugacity loop of a Peng-Robinson stage reached its limit of passes
+    /// ([`SolverOptions::fugacity_iteration_limit`]) with ln phi still changing by more than
+    /// [`SolverOptions::fugacity_tolerance`].
+    FugacityIterationLimit,
 }
 
 impl StageTermination {
@@ -100,6 +119,7 @@ impl std::fmt::Display for StageTermination {
             StageTermination::TemperatureIterationLimit => "temperature iteration limit reached",
             StageTermination::OutsideDataRange => "outside the species data range",
             StageTermination::NotFinite => "a value that is not finite",
+            StageTermination::FugacityIterationLimit => "fugacity iteration limit reached",
         })
     }
 }

@@ -21,7 +21,8 @@ use super::root::{self, Evaluation, Root, RootOptions, Termination};
 use crate::error::{Error, Result};
 use crate::quantity::{R_GAS, STANDARD_PRESSURE_PA};
 use crate::reaction::Reaction;
-use crate::thermo::{Nasa7, Phase, SpeciesDb};
+use crate::thermo::peng_robinson::PrComponent;
+use crate::thermo::{GasModel, Nasa7, Phase, SpeciesDb};
 
 /// Which way a reaction is taken to run when its approach temperature is applied.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -121,6 +122,15 @@ pub struct StageResult {
     /// tolerance (the extent solve's, and the energy residual within
     /// [`SolverOptions::energy_tolerance`] for adiabatic and fixed-duty stages).
     pub termination: StageTermination,
+    /// The gas model of the solve ([`SolverOptions::gas_model`]).
+    pub gas_model: GasModel,
+    /// Passes of the fugacity loop, summed over the equilibria evaluated (zero for an ideal
+    /// gas).
+    pub fugacity_iterations: usize,
+    /// Residual enthalpy of the outlet less that of the inlet, W (zero for an ideal gas): what
+    /// the real-gas energy balance holds beyond the ideal-gas enthalpies. A unit whose stage
+    /// inlet differs from its own inlet sets it against its own inlet.
+    pub residual_enthalpy_change_w: f64,
 }
 
 impl StageResult {
@@ -159,6 +169,13 @@ struct FeedBuffers {
     local_inlet: Vec<f64>,
     /// Gas species not in any reaction: (amount, polynomial).
     inerts: Vec<(f64, Nasa7)>,
+    /// Peng-Robinson constants of the stage's species and then of the inerts (empty for an
+    /// ideal gas), and of the inerts alone while they are gathered.
+    real_gas: Vec<PrComponent>,
+    real_gas_inerts: Vec<PrComponent>,
+    /// Amounts and ln phi of the inlet in the order of `real_gas`.
+    real_gas_amounts: Vec<f64>,
+    real_gas_ln_phi: Vec<f64>,
 }
 
 /// The state of one solve.
@@ -185,6 +202,14 @@ struct RunBuffers {
     /// The last equilibrium evaluated, and its stream temperature.
     solution: ExtentSolution,
     solution_temperature_k: f64,
+    /// Peng-Robinson: amounts (stage species, then inerts) and ln phi of the last equilibrium
+    /// evaluated, its residual enthalpy (W, all species), fugacity passes summed, and whether
+    /// the last equilibrium's fugacity loop stopped at its limit.
+    real_gas_amounts: Vec<f64>,
+    real_gas_ln_phi: Vec<f64>,
+    residual_enthalpy_w: f64,
+    fugacity_iterations: usize,
+    fugacity_limit_hit: bool,
 }
 
 /// The settings of one pass of a solve (the zero-approach pass or the real one).
@@ -525,9 +550,12 @@ impl EquilibriumStage {
     ) -> Result<()> {
         let inlet = pass.inlet;
         let mode = pass.mode;
-        let ctx = Context::new(self, db, inlet, feed)?;
+        let ctx = Context::new(self, db, inlet, pass.options.gas_model, feed)?;
         let nr = self.reactions.len();
         run.iterations = 0;
+        run.fugacity_iterations = 0;
+        run.fugacity_limit_hit = false;
+        run.residual_enthalpy_w = 0.0;
         run.has_tangent = false;
         run.solution_temperature_k = f64::NAN;
         run.has_guess = false;
@@ -568,7 +596,12 @@ impl EquilibriumStage {
             out.outlet_flows[i] = solution.amounts[k];
         }
         let h_in = ctx.inlet_enthalpy;
-        let h_out = self.enthalpy_of(&ctx, &solution.amounts, temperature_k);
+        let h_out = self.enthalpy_of(&ctx, &solution.amounts, temperature_k)
+            + if ctx.real_gas.is_empty() {
+                0.0
+            } else {
+                run.residual_enthalpy_w
+            };
         let duty_w = match mode {
             EnergyMode::FixedTemperature { .. } => h_out - h_in,
             EnergyMode::Adiabatic => 0.0,
@@ -577,6 +610,8 @@ impl EquilibriumStage {
         let energy_residual = (h_out - h_in - duty_w).abs() / ctx.enthalpy_scale;
         out.termination = if !solution.converged() {
             solution.termination
+        } else if run.fugacity_limit_hit {
+            StageTermination::FugacityIterationLimit
         } else if matches!(mode, EnergyMode::FixedTemperature { .. })
             || energy_residual <= pass.options.energy_tolerance
         {
@@ -602,6 +637,13 @@ impl EquilibriumStage {
         out.iterations = run.iterations;
         out.temperature_iterations = search.map_or(0, |r| r.iterations);
         out.temperature_search = search;
+        out.gas_model = pass.options.gas_model;
+        out.residual_enthalpy_change_w = if ctx.real_gas.is_empty() {
+            0.0
+        } else {
+            run.residual_enthalpy_w - ctx.inlet_residual_enthalpy_w
+        };
+        out.fugacity_iterations = run.fugacity_iterations;
         Ok(())
     }
 
@@ -689,6 +731,11 @@ impl EquilibriumStage {
                 run.guess.copy_from_slice(&run.tangent_extents);
             }
             run.has_guess = true;
+        }
+        if !ctx.real_gas.is_empty() {
+            self.real_gas_equilibrium(ctx, t, &ln_k[..nr], pass.options, run)?;
+            run.solution_temperature_k = t;
+            return Ok(());
         }
         let problem = ExtentProblem {
             inlet: ctx.local_inlet,
@@ -908,6 +955,11 @@ impl EquilibriumStage {
             h += n * rt * nasa.h_rt(t);
             cp += n * R_GAS * nasa.cp_r(t);
         }
+        if !ctx.real_gas.is_empty() {
+            // The slope leaves out dH_res/dT and the temperature dependence of phi: a few
+            // per cent of dH/dT at plant pressure, which the safeguarded search tolerates.
+            h += run.residual_enthalpy_w;
+        }
         let dxi = &mut run.tangent_slope;
         if !self
             .system
@@ -948,6 +1000,11 @@ struct Context<'a> {
     enthalpy_scale: f64,
     t_min: f64,
     t_max: f64,
+    /// Peng-Robinson constants of the stage's species and then of the inerts (empty for an
+    /// ideal gas).
+    real_gas: &'a [PrComponent],
+    /// Residual enthalpy of the inlet, W (zero for an ideal gas).
+    inlet_residual_enthalpy_w: f64,
 }
 
 impl<'a> Context<'a> {
@@ -955,8 +1012,10 @@ impl<'a> Context<'a> {
         stage: &EquilibriumStage,
         db: &SpeciesDb,
         inlet: StageInlet<'a>,
+        gas_model: GasModel,
         feed: &'a mut FeedBuffers,
     ) -> Result<Context<'a>> {
+        let real_gas = gas_model == GasModel::PengRobinson;
         if inlet.flows.len() != db.len() || stage.member.len() != db.len() {
             return Err(Error::InvalidValue {
                 field: "stage inlet".into(),
@@ -1000,6 +1059,8 @@ impl<'a> Context<'a> {
             }
         }
         feed.inerts.clear();
+        feed.real_gas.clear();
+        feed.real_gas_inerts.clear();
         let mut inert = 0.0;
         let mut t_min: f64 = 0.0;
         let mut t_max: f64 = f64::INFINITY;
@@ -1028,6 +1089,9 @@ impl<'a> Context<'a> {
                         });
                     }
                     feed.inerts.push((*n, sp.nasa7.clone()));
+                    if real_gas {
+                        feed.real_gas_inerts.push(fugacity::component(sp)?);
+                    }
                     inert += n;
                 }
             }
@@ -1039,6 +1103,14 @@ impl<'a> Context<'a> {
         feed.local_inlet
             .extend(stage.species.iter().map(|&i| inlet.flows[i]));
         let enthalpy_scale = total * R_GAS * t_in;
+        let inlet_residual_enthalpy_w = if real_gas {
+            fugacity::prepare_inlet(stage, db, inlet, feed)?
+        } else {
+            0.0
+        };
+        if real_gas {
+            h += inlet_residual_enthalpy_w;
+        }
         Ok(Context {
             inlet,
             inerts: &feed.inerts,
@@ -1049,6 +1121,8 @@ impl<'a> Context<'a> {
             enthalpy_scale,
             t_min,
             t_max,
+            real_gas: &feed.real_gas,
+            inlet_residual_enthalpy_w,
         })
     }
 
@@ -1067,6 +1141,9 @@ impl<'a> Context<'a> {
         }
     }
 }
+
+#[path = "fugacity.rs"]
+mod fugacity;
 
 #[cfg(test)]
 #[path = "stage_tests.rs"]

@@ -9,6 +9,9 @@
 //! approach then comes from its reaction quotient at the measured outlet temperature and
 //! pressure, by the functions and sign convention of the solver
 //! ([`crate::equilibrium::approach`]): an outlet the solver made at approach X gives back X.
+//! The gas model is the one the unit was solved with (the flowsheet's `gas-model`, or the
+//! unit's own): for Peng-Robinson the approach is where sum nu ln(phi y P/P0) = ln K(T_eq),
+//! with phi of the reconciled outlet at the measured temperature and pressure.
 //!
 //! Dated samples make trends and, with a limit on a result, the date at which the flowsheet
 //! along the trend crosses it ([`forecast`]): an extrapolation.
@@ -23,11 +26,13 @@ pub use forecast::{Crossing, ExponentialTrend, Limit, LinearTrend, Trend};
 pub use samples::{MeasuredInlet, Sample};
 
 use crate::diagnostics::{FigureKind, Warning};
-use crate::equilibrium::approach::{approach_from_quotient, ln_quotient};
+use crate::equilibrium::approach::{
+    approach_from_quotient, ln_fugacity_coefficient_term, ln_quotient,
+};
 use crate::error::{Error, Result};
 use crate::flowsheet::{Flowsheet, FlowsheetResult};
 use crate::reaction::{organic_carbon_atoms, Reaction};
-use crate::thermo::SpeciesDb;
+use crate::thermo::{GasModel, SpeciesDb};
 
 /// Analyser accuracy assumed per species, absolute mol % dry (common practice, from memory:
 /// a process gas chromatograph reads the main components to a few tenths of a mol % and an
@@ -136,6 +141,8 @@ pub struct SampleResult {
     pub outlet_flows: Vec<f64>,
     /// Outlet pressure used, Pa abs.
     pub pressure_pa: f64,
+    /// Gas model of the approaches: the one the unit was solved with.
+    pub gas_model: GasModel,
     /// Weighted sum of squares of the fit.
     pub chi_square: f64,
     /// Warnings, as data.
@@ -287,9 +294,16 @@ pub fn evaluate_sample(
         let dh_model = r.delta_h(db, stage.outlet_temperature_k)?;
         let sign = stage.approach_signs.get(j).copied().unwrap_or(1.0);
         let direction = sign * if dh_model >= 0.0 { 1.0 } else { -1.0 };
-        let approach = ln_quotient(db, r, &fit.outlet_flows, pressure_pa).and_then(|ln_q| {
-            approach_from_quotient(db, r, ln_q, t, direction, EQUILIBRIUM_SEARCH_K)
-        });
+        let approach =
+            ln_quotient(db, r, &fit.outlet_flows, pressure_pa)
+                .and_then(|ln_q| match stage.gas_model {
+                    GasModel::Ideal => Ok(ln_q),
+                    GasModel::PengRobinson => Ok(ln_q
+                        + ln_fugacity_coefficient_term(db, r, &fit.outlet_flows, t, pressure_pa)?),
+                })
+                .and_then(|ln_q| {
+                    approach_from_quotient(db, r, ln_q, t, direction, EQUILIBRIUM_SEARCH_K)
+                });
         match approach {
             Ok(a) => {
                 if a < -NEGATIVE_APPROACH_MARGIN_K {
@@ -368,6 +382,7 @@ pub fn evaluate_sample(
         analysis_total_pct: sample.dry_pct.iter().map(|(_, v)| v).sum(),
         outlet_flows: fit.outlet_flows,
         pressure_pa,
+        gas_model: stage.gas_model,
         chi_square: fit.chi_square,
         warnings,
     })

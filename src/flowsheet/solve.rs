@@ -762,6 +762,15 @@ fn energy_balance(db: &SpeciesDb, streams: &[SolvedStream], units: &[SolvedUnit]
         }
     }
     let duties: f64 = units.iter().map(|u| u.result.duty_w).sum();
+    // Units solved as a real gas: the residual enthalpy their outlets gained (zero for ideal).
+    let residual: f64 = units
+        .iter()
+        .filter_map(|u| u.result.equilibrium.as_ref())
+        .map(|e| e.residual_enthalpy_change_w)
+        .sum();
+    if residual != 0.0 {
+        h_products += residual;
+    }
     let duties_abs: f64 = units.iter().map(|u| u.result.duty_w.abs()).sum();
     let scale = h_feeds_abs.max(duties_abs).max(1.0);
     let r = (h_products - h_feeds - duties).abs() / scale;

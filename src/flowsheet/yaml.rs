@@ -11,7 +11,9 @@
 //!
 //! Besides `title`, `solver`, `feeds` and `units` a file may hold `targets` (design targets,
 //! [`TargetModel`]; their paths and bounds are checked in [`super::targets`]) and
-//! `steam-feed` (the feed a steam-to-carbon target scales).
+//! `steam-feed` (the feed a steam-to-carbon target scales), and `gas-model` (`ideal`, the
+//! default, or `peng-robinson`: the gas model of every equilibrium stage, kept in the solver
+//! options; a reactor may set its own with its `gas-model` key).
 
 use std::fmt;
 
@@ -26,6 +28,7 @@ use super::values::{
 };
 use crate::equilibrium::SolverOptions;
 use crate::error::{Error, Position, Result};
+use crate::thermo::GasModel;
 use crate::units::registry;
 use crate::units::unit::{Entry, EntryValue, NamedPorts, UnitType};
 
@@ -34,7 +37,8 @@ use crate::units::unit::{Entry, EntryValue, NamedPorts, UnitType};
 pub struct FileModel {
     /// Title of the flowsheet.
     pub title: Option<String>,
-    /// Tolerances and iteration limits of the equilibrium stages (`solver:`).
+    /// Tolerances and iteration limits of the equilibrium stages (`solver:`), and their gas
+    /// model (`gas-model:`).
     pub solver: SolverOptions,
     /// How recycles are solved (`solver:` keys `recycle-tolerance`, `recycle-iterations`,
     /// `tear-streams`).
@@ -336,6 +340,7 @@ fn yaml_error(origin: &str, err: &serde_norway::Error, previews: &[Preview]) -> 
 const FILE_KEYS: &[&str] = &[
     "title",
     "solver",
+    "gas-model",
     "feeds",
     "units",
     "targets",
@@ -390,6 +395,7 @@ impl SolverModel {
             temperature_iteration_limit: self
                 .temperature_iteration_limit
                 .unwrap_or(d.temperature_iteration_limit),
+            ..d
         };
         if o.is_valid() {
             Ok(o)
@@ -439,7 +445,8 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
         f.write_str(
-            "a flowsheet with the keys title, solver, feeds, units, targets, steam-feed and energy",
+            "a flowsheet with the keys title, solver, gas-model, feeds, units, targets, \
+             steam-feed and energy",
         )
     }
 
@@ -452,12 +459,22 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
         let mut targets: Option<Vec<TargetModel>> = None;
         let mut steam_feed: Option<String> = None;
         let mut energy: Option<super::energy::EnergyModel> = None;
+        let mut gas_model: Option<GasModel> = None;
         while let Some(key) = map.next_key::<String>()? {
             match key.as_str() {
                 "solver" if solver.is_none() => {
                     let model: SolverModel = map.next_value()?;
                     solver = Some(model.options().map_err(de::Error::custom)?);
                     recycle = model.recycle_options().map_err(de::Error::custom)?;
+                }
+                "gas-model" if gas_model.is_none() => {
+                    let label: String = map.next_value()?;
+                    gas_model = Some(GasModel::from_label(&label).ok_or_else(|| {
+                        de::Error::custom(format!(
+                            "gas-model `{label}` is not known; write one of: {}",
+                            GasModel::NAMES.join(", ")
+                        ))
+                    })?);
                 }
                 "title" if title.is_none() => title = Some(map.next_value()?),
                 "feeds" if feeds.is_none() => {
@@ -474,9 +491,8 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
                 "targets" if targets.is_none() => targets = Some(map.next_value()?),
                 "steam-feed" if steam_feed.is_none() => steam_feed = Some(map.next_value()?),
                 "energy" if energy.is_none() => energy = Some(map.next_value()?),
-                "title" | "solver" | "feeds" | "units" | "targets" | "steam-feed" | "energy" => {
-                    return Err(de::Error::custom(format!("duplicate key `{key}`")))
-                }
+                "title" | "solver" | "gas-model" | "feeds" | "units" | "targets" | "steam-feed"
+                | "energy" => return Err(de::Error::custom(format!("duplicate key `{key}`"))),
                 other => return Err(de::Error::unknown_field(other, FILE_KEYS)),
             }
         }
@@ -487,9 +503,13 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
             ));
         }
         let units = units.ok_or_else(|| de::Error::missing_field("units"))?;
+        let mut solver = solver.unwrap_or_default();
+        if let Some(model) = gas_model {
+            solver.gas_model = model;
+        }
         Ok(FileModel {
             title,
-            solver: solver.unwrap_or_default(),
+            solver,
             recycle,
             feeds,
             units,

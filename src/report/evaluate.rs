@@ -78,6 +78,7 @@ fn sample_value(db: &SpeciesDb, r: &SampleResult) -> Value {
         "sample": r.sample.id,
         "unit": r.sample.unit,
         "inlet": r.inlet_source,
+        "gas_model": r.gas_model.label(),
         "temperature_degC": number(kelvin_to_degc(r.sample.temperature_k)),
         "pressure_bar": number(pa_to_bar(r.pressure_pa)),
         "approach_K": map(&mut r.approaches_k.iter().map(|(n, a)| (n.clone(), a.map_or(Value::Null, number)))),
@@ -138,13 +139,36 @@ pub fn to_value(db: &SpeciesDb, e: &Evaluation) -> Value {
     })
 }
 
+/// The gas model of the approaches: one line, naming the units when they differ.
+fn gas_model_line(e: &Evaluation) -> String {
+    let mut seen: Vec<(&str, &str)> = Vec::new();
+    for r in &e.samples {
+        let pair = (r.sample.unit.as_str(), r.gas_model.label());
+        if !seen.contains(&pair) {
+            seen.push(pair);
+        }
+    }
+    let first = seen.first().map(|p| p.1);
+    if seen.iter().all(|p| Some(p.1) == first) {
+        format!(
+            "Gas model of the approaches: {}\n",
+            first.unwrap_or(crate::thermo::GasModel::Ideal.label())
+        )
+    } else {
+        let each: Vec<String> = seen.iter().map(|(u, m)| format!("{u} {m}")).collect();
+        format!("Gas model of the approaches: {}\n", each.join(", "))
+    }
+}
+
 fn approach_text(a: Option<f64>) -> String {
     a.map_or("-".into(), |a| format!("{a:.1}"))
 }
 
 /// Plain text: one block per sample, then the trends and the forecast.
 pub fn table(e: &Evaluation) -> String {
-    let mut out = format!("Samples held against equilibrium: {}\n\n", e.title);
+    let mut out = format!("Samples held against equilibrium: {}\n", e.title);
+    out += &gas_model_line(e);
+    out += "\n";
     for r in &e.samples {
         let approaches: Vec<String> = r
             .approaches_k

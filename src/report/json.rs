@@ -30,7 +30,8 @@
 //! - `units.<name>`: `outlet_temperature_K`, `approach_K` {reaction: K},
 //!   `figures` {key: {label, value, unit}} in report units (% for fractions, ppm, degC, K,
 //!   kmol/h, bar abs), `warnings`, and for equilibrium units `converged`, `iterations`,
-//!   `residuals` [one per reaction], `max_residual`, `energy_residual`
+//!   `residuals` [one per reaction], `max_residual`, `energy_residual`, `gas_model` (`ideal` or
+//!   `peng-robinson`)
 //! - `summary`: `hydrogen_product_kmol_h` and `hydrogen_product_Nm3_h` (null without a purifier),
 //!   `hydrogen_made_kmol_h` and `hydrogen_made_Nm3_h` (the purifier product's hydrogen where
 //!   there is a purifier, else the hydrogen of the products less the hydrogen fed),
@@ -106,6 +107,7 @@ pub fn to_value(db: &SpeciesDb, result: &FlowsheetResult) -> Result<Value> {
         unit.insert("figures".into(), Value::Object(figures));
         if let Some(eq) = &r.equilibrium {
             unit.insert("converged".into(), json!(eq.converged()));
+            unit.insert("gas_model".into(), json!(eq.gas_model.label()));
             unit.insert(
                 "iterations".into(),
                 json!(eq.iterations + eq.temperature_iterations),

@@ -519,8 +519,14 @@ fn equilibrium_table(result: &FlowsheetResult) -> Option<Table> {
     );
     for unit in &result.units {
         if let Some(eq) = &unit.result.equilibrium {
+            // A unit solved as a real gas says so beside its name.
+            let name = if eq.gas_model.is_ideal() {
+                unit.name.clone()
+            } else {
+                format!("{} ({})", unit.name, eq.gas_model)
+            };
             table.push(vec![
-                unit.name.clone(),
+                name,
                 yes_no(eq.converged()),
                 (eq.iterations + eq.temperature_iterations).to_string(),
                 residual(eq.max_residual()),

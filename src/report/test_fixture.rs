@@ -40,6 +40,7 @@ fn stage(outlet: &Stream, residuals: Vec<f64>, converged: bool) -> StageResult {
         } else {
             StageTermination::ResidualAboveTolerance
         },
+        ..Default::default()
     }
 }
 

@@ -14,7 +14,7 @@ use std::path::Path;
 
 use serde::Deserialize;
 
-use super::species::{Nasa7, Phase, Species};
+use super::species::{Critical, Nasa7, Phase, Species};
 use crate::error::{Error, Result};
 use crate::quantity::{parse_pressure, STANDARD_PRESSURE_PA};
 
@@ -69,7 +69,20 @@ struct RecordModel {
     molar_mass: f64,
     source: String,
     standard_pressure: String,
+    /// Critical constants for the Peng-Robinson gas model (optional).
+    #[serde(default)]
+    critical: Option<CriticalModel>,
     nasa7: Nasa7Model,
+}
+
+/// Critical temperature and pressure and acentric factor, with their source.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+struct CriticalModel {
+    temperature_k: f64,
+    pressure_pa: f64,
+    acentric_factor: f64,
+    source: String,
 }
 
 /// The two NASA 7-coefficient sets and the temperatures that bound them, K.
@@ -346,6 +359,41 @@ fn convert(r: RecordModel) -> Result<Species> {
             )));
         }
     }
+    let critical = match r.critical {
+        None => None,
+        Some(c) => {
+            if !(c.temperature_k > 0.0 && c.temperature_k.is_finite()) {
+                return Err(bad(format!(
+                    "critical temperature-k {} must be positive and finite",
+                    c.temperature_k
+                )));
+            }
+            if !(c.pressure_pa > 0.0 && c.pressure_pa.is_finite()) {
+                return Err(bad(format!(
+                    "critical pressure-pa {} must be positive and finite",
+                    c.pressure_pa
+                )));
+            }
+            if !(c.acentric_factor > -1.0 && c.acentric_factor < 2.0) {
+                return Err(bad(format!(
+                    "acentric-factor {} must lie between -1 and 2",
+                    c.acentric_factor
+                )));
+            }
+            if c.source.trim().is_empty() {
+                return Err(bad("critical constants need a source".into()));
+            }
+            if r.phase != Phase::Gas {
+                return Err(bad("only a gas species takes critical constants".into()));
+            }
+            Some(Critical {
+                temperature_k: c.temperature_k,
+                pressure_pa: c.pressure_pa,
+                acentric_factor: c.acentric_factor,
+                source: c.source,
+            })
+        }
+    };
     Ok(Species {
         name: r.name.clone(),
         description: r.description,
@@ -354,6 +402,7 @@ fn convert(r: RecordModel) -> Result<Species> {
         phase: r.phase,
         molar_mass_kg_per_mol: r.molar_mass / 1000.0,
         source: r.source,
+        critical,
         nasa7,
     })
 }
@@ -388,6 +437,14 @@ species:
         ] {
             let s = db.get(name).unwrap();
             assert!(!s.source.is_empty(), "{name} has no source");
+            if s.phase == Phase::Gas {
+                // Every shipped gas record carries critical constants with their source.
+                let c = s
+                    .critical
+                    .as_ref()
+                    .unwrap_or_else(|| panic!("{name}: no critical"));
+                assert!(c.temperature_k > 0.0 && c.pressure_pa > 0.0 && !c.source.is_empty());
+            }
         }
         assert_eq!(db.get("C(gr)").unwrap().phase, Phase::Solid);
     }

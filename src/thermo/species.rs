@@ -113,8 +113,25 @@ pub struct Species {
     pub molar_mass_kg_per_mol: f64,
     /// Where the record comes from.
     pub source: String,
+    /// Critical constants for the Peng-Robinson gas model; `None` when the record gives none
+    /// (the species then cannot take part in a Peng-Robinson stage).
+    pub critical: Option<Critical>,
     /// NASA 7-coefficient polynomial.
     pub nasa7: Nasa7,
+}
+
+/// Critical temperature, critical pressure and acentric factor of a gas species, with the
+/// published table they come from.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Critical {
+    /// Critical temperature, K.
+    pub temperature_k: f64,
+    /// Critical pressure, Pa.
+    pub pressure_pa: f64,
+    /// Acentric factor (Pitzer), dimensionless.
+    pub acentric_factor: f64,
+    /// Where the three values come from.
+    pub source: String,
 }
 
 impl Species {
@@ -215,6 +232,7 @@ mod tests {
             phase: Phase::Gas,
             molar_mass_kg_per_mol: 0.01,
             source: String::new(),
+            critical: None,
             nasa7: constant_cp(3.5, 0.0, 130.0),
         };
         assert!(s.cp(150.0).is_err());

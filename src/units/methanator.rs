@@ -15,12 +15,12 @@
 
 use super::common::{dew_point_k, dry_fraction, figure, reactor_inlet};
 use super::limits::{self, key_doc, LimitKey, OperatingLimits};
-use super::reactor::ReactorCore;
+use super::reactor::{read_gas_model, ReactorCore, GAS_MODEL_KEY};
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
 use super::{FigureKind, Stream, UnitResult, Warning};
 use crate::equilibrium::{Direction, EnergyMode};
 use crate::error::Result;
-use crate::thermo::SpeciesDb;
+use crate::thermo::{GasModel, SpeciesDb};
 
 /// The reactions of a methanator's equilibrium stage, in stage order.
 pub const METHANATOR_REACTIONS: [&str; 2] = ["reforming", "shift"];
@@ -42,6 +42,8 @@ pub struct MethanatorSpec {
     pub approaches: Vec<(String, f64)>,
     /// Operating limits set in the file (`None`: the defaults of [`super::limits`]).
     pub limits: OperatingLimits,
+    /// Gas model of the equilibrium (`None`: the flowsheet's).
+    pub gas_model: Option<GasModel>,
 }
 
 /// A methanator ready to solve.
@@ -77,6 +79,7 @@ pub static TYPE: UnitType = UnitType {
         key_doc(LimitKey::InletMax, "330 degC"),
         key_doc(LimitKey::OutletMax, "450 degC"),
         key_doc(LimitKey::DewPointMargin, "15 K"),
+        GAS_MODEL_KEY,
     ],
     example: "- name: methanator\n  type: methanator\n  from: methanator-feed\n  to: \
               methanated-gas\n  approach: {reforming: 20 K}",
@@ -91,10 +94,12 @@ impl UnitKind for Methanator {
         let approaches = b.approaches(&METHANATOR_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
         let keys = super::shift::LIMIT_KEYS;
         let limits = limits::read(b, &keys, |s: &mut MethanatorSpec| &mut s.limits)?;
+        let gas_model = read_gas_model(b)?;
         Ok(MethanatorSpec {
             pressure_drop_pa: drop,
             approaches,
             limits,
+            gas_model,
         })
     }
 
@@ -109,7 +114,8 @@ impl UnitKind for Methanator {
                 &spec.approaches,
                 &[Direction::Backward, Direction::Auto],
                 spec.pressure_drop_pa,
-            )?,
+            )?
+            .with_gas_model(spec.gas_model),
             spec: spec.clone(),
         })
     }
@@ -280,6 +286,7 @@ mod tests {
             pressure_drop_pa: 0.2e5,
             approaches: vec![("reforming".into(), 20.0)],
             limits: OperatingLimits::default(),
+            gas_model: None,
         };
         let m20 = Methanator::new(&db, "meth", &spec).unwrap();
         let r20 = m20.solve(&db, &[&inlet], Some(&eq.extents)).unwrap();

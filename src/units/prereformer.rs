@@ -16,12 +16,12 @@
 use super::chemistry::{CarbonCheck, HigherHydrocarbons};
 use super::common::{dry_fraction, figure, reactor_inlet};
 use super::limits::{self, key_doc, LimitKey, OperatingLimits};
-use super::reactor::ReactorCore;
+use super::reactor::{read_gas_model, ReactorCore, GAS_MODEL_KEY};
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
 use super::{FigureKind, Stream, UnitResult};
 use crate::equilibrium::{Direction, EnergyMode};
 use crate::error::{Result, ResultExt};
-use crate::thermo::{mixture, SpeciesDb};
+use crate::thermo::{mixture, GasModel, SpeciesDb};
 
 /// The reactions of a pre-reformer's equilibrium stage, in stage order.
 pub const PREREFORMER_REACTIONS: [&str; 2] = ["reforming", "shift"];
@@ -35,6 +35,8 @@ pub struct PrereformerSpec {
     pub approaches: Vec<(String, f64)>,
     /// Operating limits set in the file (`None`: the defaults of [`super::limits`]).
     pub limits: OperatingLimits,
+    /// Gas model of the equilibrium (`None`: the flowsheet's).
+    pub gas_model: Option<GasModel>,
 }
 
 /// A pre-reformer ready to solve.
@@ -70,6 +72,7 @@ pub static TYPE: UnitType = UnitType {
         },
         key_doc(LimitKey::MinSteamToCarbon, "2.5"),
         key_doc(LimitKey::CarbonPathPoints, "21"),
+        GAS_MODEL_KEY,
     ],
     example: "- name: prereformer\n  type: prereformer\n  from: prereformer-feed\n  to: \
               prereformed-gas\n  approach: {reforming: 0 K, shift: 0 K}",
@@ -87,10 +90,12 @@ impl UnitKind for Prereformer {
             &[LimitKey::MinSteamToCarbon, LimitKey::CarbonPathPoints],
             |s: &mut PrereformerSpec| &mut s.limits,
         )?;
+        let gas_model = read_gas_model(b)?;
         Ok(PrereformerSpec {
             pressure_drop_pa: drop,
             approaches,
             limits,
+            gas_model,
         })
     }
 
@@ -105,7 +110,8 @@ impl UnitKind for Prereformer {
                 &spec.approaches,
                 &[Direction::Auto, Direction::Auto],
                 spec.pressure_drop_pa,
-            )?,
+            )?
+            .with_gas_model(spec.gas_model),
             spec: spec.clone(),
             higher: HigherHydrocarbons::new(db)?,
             carbon: CarbonCheck::new(db)?,
@@ -275,6 +281,7 @@ mod tests {
             pressure_drop_pa: 0.3e5,
             approaches: vec![("reforming".into(), 10.0), ("shift".into(), 5.0)],
             limits: OperatingLimits::default(),
+            gas_model: None,
         };
         let pr = Prereformer::new(&db, "pre", &spec).unwrap();
         let r = pr.solve(&db, &[&feed], None).unwrap();

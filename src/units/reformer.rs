@@ -23,12 +23,12 @@
 use super::chemistry::{CarbonCheck, HigherHydrocarbons};
 use super::common::{check_temperature, dry_fraction, figure, reactor_inlet, spec_error};
 use super::limits::{self, key_doc, LimitKey, OperatingLimits, Place, Window, WindowCode};
-use super::reactor::ReactorCore;
+use super::reactor::{read_gas_model, ReactorCore, GAS_MODEL_KEY};
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
 use super::{FigureKind, Stream, UnitResult, Warning};
 use crate::equilibrium::{Direction, EnergyMode};
 use crate::error::{Result, ResultExt};
-use crate::thermo::{mixture, SpeciesDb};
+use crate::thermo::{mixture, GasModel, SpeciesDb};
 
 /// The reactions of a reformer's equilibrium stage, in stage order.
 pub const REFORMER_REACTIONS: [&str; 2] = ["reforming", "shift"];
@@ -44,6 +44,8 @@ pub struct ReformerSpec {
     pub approaches: Vec<(String, f64)>,
     /// Operating limits set in the file (`None`: the defaults of [`super::limits`]).
     pub limits: OperatingLimits,
+    /// Gas model of the equilibrium (`None`: the flowsheet's).
+    pub gas_model: Option<GasModel>,
 }
 
 /// The limit keys of a reformer.
@@ -95,6 +97,7 @@ pub static TYPE: UnitType = UnitType {
         key_doc(LimitKey::OutletMax, "950 degC"),
         key_doc(LimitKey::MinSteamToCarbon, "2.5"),
         key_doc(LimitKey::CarbonPathPoints, "21"),
+        GAS_MODEL_KEY,
     ],
     example: "- name: reformer\n  type: reformer\n  from: reformer-feed\n  to: reformed-gas\n  \
               outlet-temperature: 865 degC\n  pressure-drop: 3 bar\n  approach: {reforming: \
@@ -115,11 +118,13 @@ impl UnitKind for Reformer {
         let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
         let approaches = b.approaches(&REFORMER_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
         let limits = limits::read(b, &LIMIT_KEYS, |s: &mut ReformerSpec| &mut s.limits)?;
+        let gas_model = read_gas_model(b)?;
         Ok(ReformerSpec {
             outlet_temperature_k: t,
             pressure_drop_pa: drop,
             approaches,
             limits,
+            gas_model,
         })
     }
 
@@ -134,7 +139,8 @@ impl UnitKind for Reformer {
                 &spec.approaches,
                 &[Direction::Forward, Direction::Auto],
                 spec.pressure_drop_pa,
-            )?,
+            )?
+            .with_gas_model(spec.gas_model),
             spec: spec.clone(),
             higher: HigherHydrocarbons::new(db)?,
             carbon: CarbonCheck::new(db)?,
@@ -198,7 +204,11 @@ impl Reformer {
         )?;
         let outlet = &out.outlets[0];
         let out_flows = &outlet.flows;
-        out.duty_w = mixture::enthalpy(db, out_flows, t_out)? - h_in;
+        out.duty_w = match ReactorCore::residual_enthalpy_change(out) {
+            // As a real gas: the residual enthalpies of the outlet and of the stage's inlet.
+            Some(r) => mixture::enthalpy(db, out_flows, t_out)? - h_in + r,
+            None => mixture::enthalpy(db, out_flows, t_out)? - h_in,
+        };
         let figures = &mut out.figures;
         let ch4_in = inlet.flows[key.ch4];
         if ch4_in > 0.0 {
@@ -321,6 +331,7 @@ mod tests {
                 .map(|(n, a)| (n.to_string(), *a))
                 .collect(),
             limits: OperatingLimits::default(),
+            gas_model: None,
         }
     }
 

@@ -13,13 +13,13 @@ use super::common::{
     check_temperature, dew_point_k, dry_fraction, figure, reactor_inlet, spec_error,
 };
 use super::limits::{self, key_doc, LimitKey, OperatingLimits};
-use super::reactor::ReactorCore;
+use super::reactor::{read_gas_model, ReactorCore, GAS_MODEL_KEY};
 use super::unit::{build, KeyDoc, Ports, UnitBuilder, UnitKind, UnitScratch, UnitType, ValueKind};
 use super::{FigureKind, Stream, UnitResult, Warning};
 use crate::equilibrium::{Direction, EnergyMode};
 use crate::error::{Result, ResultExt};
 use crate::quantity::CELSIUS_OFFSET_K;
-use crate::thermo::SpeciesDb;
+use crate::thermo::{GasModel, SpeciesDb};
 
 /// The reactions of a shift converter's equilibrium stage.
 pub const SHIFT_REACTIONS: [&str; 1] = ["shift"];
@@ -105,6 +105,8 @@ pub struct ShiftSpec {
     pub catalyst: Option<ShiftCatalyst>,
     /// Operating limits set in the file (`None`: the catalyst's defaults, [`super::limits`]).
     pub limits: OperatingLimits,
+    /// Gas model of the equilibrium (`None`: the flowsheet's).
+    pub gas_model: Option<GasModel>,
 }
 
 /// The limit keys of a shift converter and a methanator.
@@ -196,6 +198,7 @@ pub static TYPE: UnitType = UnitType {
              low-temperature copper 260 degC",
         ),
         key_doc(LimitKey::DewPointMargin, "15 K"),
+        GAS_MODEL_KEY,
     ],
     example: "- name: hts\n  type: shift\n  from: hts-feed\n  to: hts-exit\n  catalyst: \
               iron-chromium\n  approach: {shift: 8 K}",
@@ -220,12 +223,14 @@ impl UnitKind for Shift {
         let drop = b.pressure_drop(|s, v| s.pressure_drop_pa = v)?;
         let approaches = b.approaches(&SHIFT_REACTIONS, |s, j, v| s.approaches[j].1 = v)?;
         let limits = limits::read(b, &LIMIT_KEYS, |s: &mut ShiftSpec| &mut s.limits)?;
+        let gas_model = read_gas_model(b)?;
         Ok(ShiftSpec {
             outlet_temperature_k: t,
             pressure_drop_pa: drop,
             approaches,
             catalyst,
             limits,
+            gas_model,
         })
     }
 
@@ -241,7 +246,8 @@ impl UnitKind for Shift {
                 &spec.approaches,
                 &[Direction::Auto],
                 spec.pressure_drop_pa,
-            )?,
+            )?
+            .with_gas_model(spec.gas_model),
             spec: spec.clone(),
         })
     }
@@ -294,6 +300,7 @@ impl Shift {
         )?;
         self.core
             .finish(db, &inlet.flows, |_| false, approaches_k, result);
+        let residual = ReactorCore::residual_enthalpy_change(result);
         let UnitResult {
             outlets,
             duty_w,
@@ -303,8 +310,9 @@ impl Shift {
         } = result;
         let t_out = outlets[0].temperature_k;
         let out = &outlets[0].flows;
-        *duty_w = match mode {
-            EnergyMode::Adiabatic => 0.0,
+        *duty_w = match (mode, residual) {
+            (EnergyMode::Adiabatic, _) => 0.0,
+            (_, Some(r)) => crate::thermo::mixture::enthalpy(db, out, t_out)? - h_in + r,
             _ => crate::thermo::mixture::enthalpy(db, out, t_out)? - h_in,
         };
         let co_in = inlet.flows[key.co];

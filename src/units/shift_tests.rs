@@ -12,6 +12,7 @@ fn reformed_gas(db: &SpeciesDb, t_k: f64) -> Stream {
         pressure_drop_pa: 2.0e5,
         approaches: Vec::new(),
         limits: Default::default(),
+        gas_model: None,
     };
     let r = Reformer::new(db, "primary", &spec)
         .unwrap()
@@ -29,6 +30,7 @@ fn shift(db: &SpeciesDb, catalyst: Option<ShiftCatalyst>, approach: f64) -> Shif
         approaches: vec![("shift".into(), approach)],
         catalyst,
         limits: Default::default(),
+        gas_model: None,
     };
     Shift::new(db, "hts", &spec).unwrap()
 }
@@ -130,6 +132,7 @@ fn catalyst_cautions_and_fixed_outlet_temperature() {
         approaches: Vec::new(),
         catalyst: Some(ShiftCatalyst::IronChromium),
         limits: Default::default(),
+        gas_model: None,
     };
     let r = Shift::new(&db, "iso", &spec)
         .unwrap()

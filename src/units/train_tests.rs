@@ -52,6 +52,7 @@ fn train(db: &SpeciesDb) -> Vec<TrainUnit> {
                 pressure_drop_pa: 0.3e5,
                 approaches: Vec::new(),
                 limits: Default::default(),
+                gas_model: None,
             },
         ),
         unit::<Heater>(db, "reformer-preheat", false, thermal(893.15)),
@@ -64,6 +65,7 @@ fn train(db: &SpeciesDb) -> Vec<TrainUnit> {
                 pressure_drop_pa: 2.0e5,
                 approaches: vec![("reforming".into(), 5.0)],
                 limits: Default::default(),
+                gas_model: None,
             },
         ),
         unit::<Cooler>(db, "waste-heat-boiler", false, thermal(623.15)),
@@ -77,6 +79,7 @@ fn train(db: &SpeciesDb) -> Vec<TrainUnit> {
                 approaches: vec![("shift".into(), 5.0)],
                 catalyst: Some(ShiftCatalyst::IronChromium),
                 limits: Default::default(),
+                gas_model: None,
             },
         ),
         unit::<Cooler>(db, "lts-cooler", false, thermal(473.15)),
@@ -90,6 +93,7 @@ fn train(db: &SpeciesDb) -> Vec<TrainUnit> {
                 approaches: Vec::new(),
                 catalyst: Some(ShiftCatalyst::LowTemperatureCopper),
                 limits: Default::default(),
+                gas_model: None,
             },
         ),
         // A cooler stays above the dew point; the knockout cools on to 40 degC and condenses.
@@ -130,6 +134,7 @@ fn train(db: &SpeciesDb) -> Vec<TrainUnit> {
                 pressure_drop_pa: 0.3e5,
                 approaches: Vec::new(),
                 limits: Default::default(),
+                gas_model: None,
             },
         ),
     ]
@@ -264,6 +269,7 @@ fn registry_types_build_from_plain_entries_and_register_their_inputs() {
             pressure_drop_pa: 0.0,
             approaches: vec![("reforming".into(), 25.0), ("shift".into(), 0.0)],
             limits: Default::default(),
+            gas_model: None,
         },
     )
     .unwrap()
