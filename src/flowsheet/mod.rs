@@ -225,7 +225,8 @@ impl Flowsheet {
         let energy =
             energy::EnergyTable::new(db, &feeds, &units, &graph, &model.energy, &mut params);
         let defaults = params.defaults();
-        let (layout, recycle) = layout(&feeds, &units, &graph, &model.recycle);
+        let (layout, mut recycle) = layout(&feeds, &units, &graph, &model.recycle);
+        tear_guesses(db, origin, text, &model.tear_guess, recycle.as_mut())?;
         let mut flowsheet = Flowsheet {
             title,
             origin: origin.to_string(),
@@ -413,6 +414,57 @@ fn layout(
             .collect(),
         first: positions().min().unwrap_or(0),
         last: positions().max().unwrap_or(0),
+        guesses: vec![None; tears.len()],
     };
     (out, Some(plan))
+}
+
+/// Read the first guesses of tear streams (`solver: tear-guess`, written as feeds) into the
+/// recycle plan; a guess for a stream that is not a tear is an error naming the tears.
+fn tear_guesses(
+    db: &SpeciesDb,
+    origin: &str,
+    text: &str,
+    guesses: &[(String, yaml::FeedModel)],
+    plan: Option<&mut recycle::RecyclePlan>,
+) -> Result<()> {
+    let tears: &[String] = plan.as_ref().map_or(&[], |p| &p.tears);
+    let mut found = Vec::with_capacity(guesses.len());
+    for (name, model) in guesses {
+        let at = || locate::locate(text, &[Key("solver"), Key("tear-guess"), Key(name)]);
+        let Some(t) = tears.iter().position(|t| t == name) else {
+            let reason = if tears.is_empty() {
+                format!(
+                    "`solver: tear-guess` gives a first guess for '{name}', but the flowsheet \
+                     has no cycle and so no tear streams; leave `tear-guess` out"
+                )
+            } else {
+                format!(
+                    "`solver: tear-guess` gives a first guess for '{name}', which is not a tear \
+                     stream; the tear streams are {} (name them under `solver: tear-streams` to \
+                     choose others)",
+                    tears
+                        .iter()
+                        .map(|t| format!("'{t}'"))
+                        .collect::<Vec<_>>()
+                        .join(", ")
+                )
+            };
+            return Err(locate::annotate(
+                Error::Flowsheet { reason },
+                origin,
+                at(),
+                &format!("solver.tear-guess.{name}"),
+            ));
+        };
+        let feed = feeds::convert(db, name, model)
+            .map_err(|e| locate::annotate(e, origin, at(), &format!("solver.tear-guess.{name}")))?;
+        found.push((t, feed.stream));
+    }
+    if let Some(plan) = plan {
+        for (t, stream) in found {
+            plan.guesses[t] = Some(stream);
+        }
+    }
+    Ok(())
 }

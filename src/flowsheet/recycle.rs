@@ -97,6 +97,9 @@ pub(crate) struct RecyclePlan {
     /// First and last solve-order position iterated (the units on cycles and any between).
     pub first: usize,
     pub last: usize,
+    /// First guess of each tear (`solver: tear-guess`); `None`: zero flow at the first feed's
+    /// temperature and pressure.
+    pub guesses: Vec<Option<Stream>>,
 }
 
 /// Which variable changed most in the last iteration.
@@ -142,17 +145,29 @@ impl RecycleState {
         }
     }
 
-    /// Set the slots to the first guess: zero flow at the temperature and pressure of `first`
-    /// (the first feed), unless they hold a converged solution.
-    pub fn start(&mut self, first: &Stream) {
+    /// Set the slots to the first guess, unless they hold a converged solution: the stream of
+    /// `solver: tear-guess` where given (`guesses`, one per slot), else zero flow at the
+    /// temperature and pressure of `first` (the first feed).
+    pub fn start(&mut self, first: &Stream, guesses: &[Option<Stream>]) {
         if self.warm {
             return;
         }
-        for s in &mut self.slots {
-            s.flows.iter_mut().for_each(|n| *n = 0.0);
-            s.temperature_k = first.temperature_k;
-            s.pressure_pa = first.pressure_pa;
-            s.phase = crate::units::StreamPhase::Vapour;
+        for (k, s) in self.slots.iter_mut().enumerate() {
+            match guesses.get(k).and_then(Option::as_ref) {
+                Some(g) => {
+                    s.flows.clear();
+                    s.flows.extend_from_slice(&g.flows);
+                    s.temperature_k = g.temperature_k;
+                    s.pressure_pa = g.pressure_pa;
+                    s.phase = g.phase;
+                }
+                None => {
+                    s.flows.iter_mut().for_each(|n| *n = 0.0);
+                    s.temperature_k = first.temperature_k;
+                    s.pressure_pa = first.pressure_pa;
+                    s.phase = crate::units::StreamPhase::Vapour;
+                }
+            }
         }
     }
 
@@ -368,7 +383,7 @@ mod tests {
     #[test]
     fn updates_keep_flows_non_negative_and_take_the_pressure() {
         let mut st = RecycleState::new(1, 1);
-        st.start(&Stream::vapour(vec![5.0], 400.0, 2e6));
+        st.start(&Stream::vapour(vec![5.0], 400.0, 2e6), &[]);
         assert_eq!(st.slots[0].flows, vec![0.0]);
         assert_eq!(st.slots[0].pressure_pa, 2e6);
         let g1 = Stream::vapour(vec![4.0], 400.0, 1.9e6);

@@ -379,7 +379,7 @@ fn solve_loops(
         .iter()
         .map(|s| s.stream.total())
         .sum();
-    state.start(&parts.result.streams[0].stream);
+    state.start(&parts.result.streams[0].stream, &plan.guesses);
     let mark = parts.result.warnings.len();
     let tolerance = plan.options.tolerance;
     let limit = plan.options.iteration_limit;
@@ -393,8 +393,16 @@ fn solve_loops(
         }
         for k in plan.first..=plan.last {
             solve_unit(fs, db, params, k, parts, &state.slots).map_err(|e| {
+                // On the first pass a tear without a guess holds no flow, which a reactor or
+                // an exchanger may not take: say how to give one.
+                let hint = if iterations == 1 && plan.guesses.iter().any(Option::is_none) {
+                    "; the tears started from no flow: give a first guess of them under \
+                     `solver: tear-guess` (written as a feed)"
+                } else {
+                    ""
+                };
                 e.context(format!(
-                    "recycle iteration {iterations} of at most {limit} (tear streams {})",
+                    "recycle iteration {iterations} of at most {limit} (tear streams {}){hint}",
                     quoted(&plan.tears)
                 ))
             })?;

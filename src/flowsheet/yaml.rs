@@ -43,6 +43,8 @@ pub struct FileModel {
     /// How recycles are solved (`solver:` keys `recycle-tolerance`, `recycle-iterations`,
     /// `tear-streams`).
     pub recycle: RecycleOptions,
+    /// First guesses of tear streams (`solver: tear-guess`), by stream name, as written.
+    pub tear_guess: Vec<(String, FeedModel)>,
     /// Feeds, in file order.
     pub feeds: OrderedMap<FeedModel>,
     /// Units, in file order.
@@ -373,6 +375,8 @@ pub struct SolverModel {
     pub tear_streams: Option<Names>,
     /// Bounds of Wegstein's factor q: [lower, upper].
     pub wegstein_bounds: Option<[f64; 2]>,
+    /// First guesses of tear streams, written as feeds (temperature, pressure, flows).
+    pub tear_guess: Option<OrderedMap<FeedModel>>,
 }
 
 impl SolverModel {
@@ -456,6 +460,7 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
         let mut units: Option<Vec<UnitModel>> = None;
         let mut solver: Option<SolverOptions> = None;
         let mut recycle = RecycleOptions::default();
+        let mut tear_guess = Vec::new();
         let mut targets: Option<Vec<TargetModel>> = None;
         let mut steam_feed: Option<String> = None;
         let mut energy: Option<super::energy::EnergyModel> = None;
@@ -466,6 +471,9 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
                     let model: SolverModel = map.next_value()?;
                     solver = Some(model.options().map_err(de::Error::custom)?);
                     recycle = model.recycle_options().map_err(de::Error::custom)?;
+                    if let Some(guesses) = model.tear_guess {
+                        tear_guess = guesses.0;
+                    }
                 }
                 "gas-model" if gas_model.is_none() => {
                     let label: String = map.next_value()?;
@@ -511,6 +519,7 @@ impl<'de> Visitor<'de> for FileSeed<'_> {
             title,
             solver,
             recycle,
+            tear_guess,
             feeds,
             units,
             targets: targets.unwrap_or_default(),
