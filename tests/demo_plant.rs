@@ -327,14 +327,15 @@ fn tear_guesses_start_the_loops_and_must_name_a_tear() {
         "    mixed-feed:\n      temperature",
     );
     let path = dir.path().join("wrong.yaml");
-    std::fs::write(&path, wrong).unwrap();
+    std::fs::write(&path, &wrong).unwrap();
     let out = Command::new(env!("CARGO_BIN_EXE_syntrain"))
         .args(["solve", path.to_str().unwrap()])
         .output()
         .unwrap();
     assert!(!out.status.success());
     let err = String::from_utf8_lossy(&out.stderr);
-    assert!(err.contains("wrong.yaml:37:7"), "{err}");
+    let line = 1 + wrong.lines().position(|l| l == "    mixed-feed:").unwrap();
+    assert!(err.contains(&format!("wrong.yaml:{line}:7")), "{err}");
     assert!(
         err.contains("'mixed-feed', which is not a tear stream"),
         "{err}"
