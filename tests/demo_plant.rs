@@ -334,7 +334,8 @@ fn tear_guesses_start_the_loops_and_must_name_a_tear() {
         .unwrap();
     assert!(!out.status.success());
     let err = String::from_utf8_lossy(&out.stderr);
-    let line = 1 + wrong.lines().position(|l| l == "    mixed-feed:").unwrap();
+    // The position is that of the guess's value: the line after its name.
+    let line = 2 + wrong.lines().position(|l| l == "    mixed-feed:").unwrap();
     assert!(err.contains(&format!("wrong.yaml:{line}:7")), "{err}");
     assert!(
         err.contains("'mixed-feed', which is not a tear stream"),
