@@ -298,30 +298,49 @@ pub fn region1(temperature_k: f64, pressure_pa: f64) -> Result<Properties> {
     Ok(region1_unchecked(temperature_k, pressure_pa))
 }
 
+/// `x^(first + k)` for k = 0..N, by repeated products from one `powi`.
+fn powers<const N: usize>(x: f64, first: i32) -> [f64; N] {
+    let mut out = [0.0; N];
+    let mut v = x.powi(first);
+    for o in &mut out {
+        *o = v;
+        v *= x;
+    }
+    out
+}
+
 fn region1_unchecked(temperature_k: f64, pressure_pa: f64) -> Properties {
     let pi = pressure_pa / 16.53e6;
     let tau = 1386.0 / temperature_k;
     let (a, b) = (7.1 - pi, tau - 1.222);
+    // Powers by table: a^k for k = 0..=32 and b^k for k = -43..=32 (the exponents of Table 2
+    // and of the derivatives), by repeated products rather than six powi calls a term; measured
+    // with callgrind, this took the water enthalpies of a train solve from about a fifth of its
+    // instructions to a few per cent.
+    let pa: [f64; 33] = powers(a, 0);
+    let pb: [f64; 76] = powers(b, -43);
+    let a_at = |k: i32| pa[k as usize];
+    let b_at = |k: i32| pb[(k + 43) as usize];
     let (mut g, mut g_p, mut g_pp, mut g_t, mut g_tt, mut g_pt) = (0.0, 0.0, 0.0, 0.0, 0.0, 0.0);
     for (i, j, n) in REGION1 {
         let (fi, fj) = (f64::from(i), f64::from(j));
-        let ai = a.powi(i);
-        let bj = b.powi(j);
+        let ai = a_at(i);
+        let bj = b_at(j);
         g += n * ai * bj;
         if i != 0 {
-            let ai1 = a.powi(i - 1);
+            let ai1 = a_at(i - 1);
             g_p -= n * fi * ai1 * bj;
             if i != 1 {
-                g_pp += n * fi * (fi - 1.0) * a.powi(i - 2) * bj;
+                g_pp += n * fi * (fi - 1.0) * a_at(i - 2) * bj;
             }
             if j != 0 {
-                g_pt -= n * fi * ai1 * fj * b.powi(j - 1);
+                g_pt -= n * fi * ai1 * fj * b_at(j - 1);
             }
         }
         if j != 0 {
-            g_t += n * ai * fj * b.powi(j - 1);
+            g_t += n * ai * fj * b_at(j - 1);
             if j != 1 {
-                g_tt += n * ai * fj * (fj - 1.0) * b.powi(j - 2);
+                g_tt += n * ai * fj * (fj - 1.0) * b_at(j - 2);
             }
         }
     }
@@ -391,23 +410,26 @@ fn region2_unchecked(temperature_k: f64, pressure_pa: f64) -> Properties {
     let (g0_rest, g0_t, g0_tt) = region2_ideal(tau);
     let g0 = pi.ln() + g0_rest;
     let b = tau - 0.5;
+    // Powers by table (see region 1): pi^k for k = 0..=24 and b^k for k = 0..=58.
+    let pp: [f64; 25] = powers(pi, 0);
+    let pb: [f64; 59] = powers(b, 0);
     let (mut r, mut r_p, mut r_pp, mut r_t, mut r_tt, mut r_pt) = (0.0, 0.0, 0.0, 0.0, 0.0, 0.0);
     for (i, j, n) in REGION2_RESIDUAL {
         let (fi, fj) = (f64::from(i), f64::from(j));
-        let pi_i = pi.powi(i);
-        let pi_i1 = pi.powi(i - 1);
-        let bj = b.powi(j);
+        let pi_i = pp[i as usize];
+        let pi_i1 = pp[(i - 1) as usize];
+        let bj = pb[j as usize];
         r += n * pi_i * bj;
         r_p += n * fi * pi_i1 * bj;
         if i != 1 {
-            r_pp += n * fi * (fi - 1.0) * pi.powi(i - 2) * bj;
+            r_pp += n * fi * (fi - 1.0) * pp[(i - 2) as usize] * bj;
         }
         if j != 0 {
-            let bj1 = b.powi(j - 1);
+            let bj1 = pb[(j - 1) as usize];
             r_t += n * pi_i * fj * bj1;
             r_pt += n * fi * pi_i1 * fj * bj1;
             if j != 1 {
-                r_tt += n * pi_i * fj * (fj - 1.0) * b.powi(j - 2);
+                r_tt += n * pi_i * fj * (fj - 1.0) * pb[(j - 2) as usize];
             }
         }
     }
