@@ -3,14 +3,56 @@
 //! records and critical constants (tests/data/cantera_autothermal_peng_robinson.csv,
 //! tools/cantera_autothermal_peng_robinson.py), the element balance and the flowsheet's energy
 //! balance, the `ideal-gas-*` figures against Cantera's ideal-gas answer of the same cases, and
-//! the per-unit `gas-model` key over the flowsheet's.
+//! the per-unit `gas-model` key over the flowsheet's; and a warm real-gas solve of the unit that
+//! makes no heap allocation.
 
+use std::alloc::{GlobalAlloc, Layout, System};
+use std::cell::Cell;
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output, Stdio};
 
 use serde_json::Value;
 use syntrain::thermo::peng_robinson::stream_residual_enthalpy_w;
-use syntrain::thermo::{mixture, SpeciesDb};
+use syntrain::thermo::{mixture, GasModel, SpeciesDb};
+use syntrain::units::autothermal::{Autothermal, AutothermalSpec};
+use syntrain::units::unit::UnitScratch;
+use syntrain::units::{Stream, UnitKind, UnitResult};
+
+/// The system allocator, counting the allocations of each thread (so that tests running
+/// beside each other do not disturb the count).
+struct Counting;
+
+thread_local! {
+    static ALLOCATIONS: Cell<usize> = const { Cell::new(0) };
+}
+
+fn count_one() {
+    let _ = ALLOCATIONS.try_with(|n| n.set(n.get() + 1));
+}
+
+unsafe impl GlobalAlloc for Counting {
+    unsafe fn alloc(&self, layout: Layout) -> *mut u8 {
+        count_one();
+        unsafe { System.alloc(layout) }
+    }
+
+    unsafe fn alloc_zeroed(&self, layout: Layout) -> *mut u8 {
+        count_one();
+        unsafe { System.alloc_zeroed(layout) }
+    }
+
+    unsafe fn dealloc(&self, ptr: *mut u8, layout: Layout) {
+        unsafe { System.dealloc(ptr, layout) }
+    }
+
+    unsafe fn realloc(&self, ptr: *mut u8, layout: Layout, new_size: usize) -> *mut u8 {
+        count_one();
+        unsafe { System.realloc(ptr, layout, new_size) }
+    }
+}
+
+#[global_allocator]
+static GLOBAL: Counting = Counting;
 
 const SPECIES: [&str; 8] = ["CH4", "H2O", "CO", "CO2", "H2", "O2", "N2", "Ar"];
 /// Atoms of C, H, O, N, Ar in each of `SPECIES`.
@@ -294,4 +336,46 @@ fn a_unit_set_to_ideal_gives_the_ideal_gas_answer_under_a_peng_robinson_flowshee
     let out = syntrain(&["solve", bad.to_str().unwrap()]);
     assert!(!out.status.success());
     assert!(String::from_utf8_lossy(&out.stderr).contains("gas-model"));
+}
+
+#[test]
+fn a_warm_real_gas_solve_makes_no_heap_allocation_and_repeats_the_cold_answer() {
+    // A property of the code (no outside reference): the unit as a Peng-Robinson gas, solved
+    // once on another inlet, then twice on the second Cantera case's inlets (at an approach;
+    // an outlet inside the limits, since a warning names its unit in a new string); the
+    // second counts no allocation and equals a fresh solve.
+    let db = SpeciesDb::embedded().unwrap();
+    let c = &cases()[1];
+    let stream = |flows: &[f64], t: f64| Stream::vapour(db_flows(&db, flows), t, c.p_bar * 1e5);
+    let process = stream(&c.process, c.t_process);
+    let other = stream(&[1.0, 1.0, 0.0, 0.0, 0.05, 0.0, 0.0, 0.0], 900.0);
+    let oxygen = stream(&c.oxidant, c.t_oxidant);
+    let spec = AutothermalSpec {
+        pressure_drop_pa: 0.5e5,
+        approaches: vec![("reforming".into(), 10.0)],
+        gas_model: Some(GasModel::PengRobinson),
+        ..Default::default()
+    };
+    let unit = Autothermal::new(&db, "atr", &spec).unwrap();
+    let (mut scratch, mut out) = (UnitScratch::default(), UnitResult::default());
+    for inlet in [&other, &process] {
+        unit.solve_into(&db, &[inlet, &oxygen], None, &mut scratch, &mut out)
+            .unwrap();
+    }
+    let before = ALLOCATIONS.with(|n| n.get());
+    unit.solve_into(&db, &[&process, &oxygen], None, &mut scratch, &mut out)
+        .unwrap();
+    let counted = ALLOCATIONS.with(|n| n.get()) - before;
+    assert_eq!(counted, 0, "a warm solve allocated {counted} times");
+    let fresh = unit.solve(&db, &[&process, &oxygen], None).unwrap();
+    assert_eq!(out.outlets[0].flows, fresh.outlets[0].flows);
+    assert_eq!(out.outlets[0].temperature_k, fresh.outlets[0].temperature_k);
+    assert_eq!(out.figures, fresh.figures);
+    assert!(out.warnings.is_empty(), "{:?}", out.warnings);
+    let stage = out.equilibrium.as_ref().unwrap();
+    assert_eq!(stage.gas_model, GasModel::PengRobinson);
+    assert!(out
+        .figures
+        .iter()
+        .any(|f| f.key == "ideal-gas-outlet-temperature-change"));
 }

@@ -43,9 +43,9 @@
 //! carry ideal-gas enthalpies, as everywhere. The unit is then solved once more as an ideal gas
 //! (duty H_inlets - H_combusted) for the figures `ideal-gas-outlet-temperature-change`,
 //! `ideal-gas-methane-slip-change` and `ideal-gas-co-slip-change` (Peng-Robinson less ideal; the
-//! two slips relative, on a dry basis). The residual enthalpies of the inlets are evaluated
-//! with a few short allocations, on the real-gas path only; `heat-released` stays an
-//! ideal-gas figure.
+//! two slips relative, on a dry basis). The residual enthalpies are evaluated on the
+//! Peng-Robinson constants prepared when the unit is built, with no heap allocation once warm;
+//! `heat-released` stays an ideal-gas figure.
 //!
 //! Figures: outlet temperature; heat released (H of the combined inlet composition at the
 //! outlet temperature less H_out: the net heat of oxidation and reforming that brings both
@@ -82,7 +82,7 @@ use super::{FigureKind, Stream, UnitResult, Warning};
 use crate::equilibrium::{Direction, EnergyMode};
 use crate::error::{Error, Result, ResultExt};
 use crate::quantity::CELSIUS_OFFSET_K;
-use crate::thermo::peng_robinson::stream_residual_enthalpy_w;
+use crate::thermo::peng_robinson::{evaluate, PrComponent};
 use crate::thermo::{mixture, GasModel, Phase, SpeciesDb};
 
 /// The reactions of an autothermal reformer's equilibrium stage, in stage order.
@@ -124,6 +124,7 @@ pub struct Autothermal {
     higher: HigherHydrocarbons,
     carbon: CarbonCheck,
     burning: Burning,
+    residual: ResidualEnthalpy,
 }
 
 /// The `autothermal-reformer` unit type.
@@ -191,6 +192,7 @@ impl UnitKind for Autothermal {
             higher: HigherHydrocarbons::new(db)?,
             carbon: CarbonCheck::new(db)?,
             burning: Burning::new(db, name)?,
+            residual: ResidualEnthalpy::new(db),
         })
     }
 
@@ -279,6 +281,62 @@ impl Burning {
     }
 }
 
+/// The Peng-Robinson constants of every species of the database, prepared once (a species
+/// without critical constants holds a stand-in that is never used with a flow).
+#[derive(Debug, Clone)]
+struct ResidualEnthalpy {
+    components: Vec<PrComponent>,
+    known: Vec<bool>,
+}
+
+impl ResidualEnthalpy {
+    fn new(db: &SpeciesDb) -> ResidualEnthalpy {
+        let stand_in = PrComponent::from_constants(1.0, 1.0, 0.0);
+        let (components, known) = (0..db.len())
+            .map(|i| match &db.by_index(i).critical {
+                Some(c) => (PrComponent::new(c), true),
+                None => (stand_in, false),
+            })
+            .unzip();
+        ResidualEnthalpy { components, known }
+    }
+
+    /// n (H - H_ig) of the gas of `flows` at `temperature_k` and `pressure_pa`, W (the value of
+    /// [`crate::thermo::peng_robinson::stream_residual_enthalpy_w`]: species without flow add
+    /// nothing); `ln_phi` is work memory. An error names a species present without critical
+    /// constants.
+    fn of(
+        &self,
+        db: &SpeciesDb,
+        flows: &[f64],
+        temperature_k: f64,
+        pressure_pa: f64,
+        ln_phi: &mut Vec<f64>,
+    ) -> Result<f64> {
+        let mut total = 0.0;
+        for (i, &n) in flows.iter().enumerate() {
+            if n > 0.0 {
+                if !self.known[i] {
+                    return Err(Error::InvalidValue {
+                        field: format!("critical constants of {}", db.by_index(i).name),
+                        value: "none".into(),
+                        reason: "the gas model peng-robinson needs them for every species present"
+                            .into(),
+                    });
+                }
+                total += n;
+            }
+        }
+        if !(total > 0.0) {
+            return Ok(0.0);
+        }
+        ln_phi.clear();
+        ln_phi.resize(flows.len(), 0.0);
+        let state = evaluate(&self.components, flows, temperature_k, pressure_pa, ln_phi)?;
+        Ok(total * state.residual_enthalpy_j_per_mol)
+    }
+}
+
 impl Autothermal {
     /// Solve with the numbers of `spec` and the approaches `approaches_k` (stage order; `None`:
     /// those the stage was built with).
@@ -319,7 +377,7 @@ impl Autothermal {
             carbon,
             ..
         } = scratch;
-        let [combined, combusted, _] = flows;
+        let [combined, combusted, ln_phi] = flows;
         combined.clear();
         combined.extend(process.flows.iter().zip(&oxidant.flows).map(|(a, b)| a + b));
         combusted.clear();
@@ -339,8 +397,9 @@ impl Autothermal {
         let residuals = if self.core.gas_model(options).is_ideal() {
             None
         } else {
-            let residual = |flows: &[f64], t: f64| {
-                stream_residual_enthalpy_w(db, flows, t, p)
+            let mut residual = |flows: &[f64], t: f64| {
+                self.residual
+                    .of(db, flows, t, p, ln_phi)
                     .context(|| format!("unit '{name}', residual enthalpy"))
             };
             let inlets_w = residual(&process.flows, process.temperature_k)?
