@@ -15,7 +15,9 @@
 //! methane only when the stage converts it); `ideal-gas-outlet-temperature-change` (K) for an
 //! adiabatic or fixed-duty stage and `ideal-gas-duty-change` (W) for a fixed outlet
 //! temperature. With Peng-Robinson the duty includes the residual enthalpies of inlet and
-//! outlet ([`ReactorCore::residual_enthalpy_change`]).
+//! outlet ([`ReactorCore::residual_enthalpy_change`]). A unit whose fixed duty holds residual
+//! enthalpies of its own (the autothermal reformer, [`super::autothermal`]) gives the real-gas
+//! and the ideal-gas energy modes apart ([`ReactorCore::solve_stage_modes`]).
 use super::chemistry::unconverted_carbon_warnings;
 use super::common::{
     build_stage, check_pressure_drop, frozen_warnings, resolve_approaches, run_stage_into,
@@ -93,6 +95,11 @@ impl ReactorCore {
         self
     }
 
+    /// The gas model this core solves with under `options`: its own, else the flowsheet's.
+    pub fn gas_model(&self, options: &SolverOptions) -> GasModel {
+        self.gas_model.unwrap_or(options.gas_model)
+    }
+
     /// The residual enthalpy of the outlet less that of the stage's inlet (W) when the stage
     /// was solved as a Peng-Robinson gas, `None` for an ideal gas: a unit adds it to its
     /// ideal-gas enthalpy difference to get its duty, and the flowsheet's energy balance adds it
@@ -133,12 +140,50 @@ impl ReactorCore {
         ws: &mut StageWorkspace,
         out: &mut UnitResult,
     ) -> Result<()> {
+        let modes = [mode, mode];
+        self.solve_stage_modes(
+            db,
+            flows,
+            inlet_temperature_k,
+            pressure_pa,
+            modes,
+            guess,
+            approaches_k,
+            options,
+            ws,
+            out,
+        )
+    }
+
+    /// [`ReactorCore::solve_stage`] with the energy mode of a real-gas solve and that of the
+    /// ideal-gas solve of the `ideal-gas-*` figures given apart (`[real, ideal]`; for a unit
+    /// whose fixed duty holds residual enthalpies of its own, which the ideal gas has not). For
+    /// an ideal-gas solve only the second is used.
+    #[allow(clippy::too_many_arguments)]
+    pub fn solve_stage_modes(
+        &self,
+        db: &SpeciesDb,
+        flows: &[f64],
+        inlet_temperature_k: f64,
+        pressure_pa: f64,
+        [real_mode, ideal_mode]: [EnergyMode; 2],
+        guess: Option<&[f64]>,
+        approaches_k: Option<&[f64]>,
+        options: &SolverOptions,
+        ws: &mut StageWorkspace,
+        out: &mut UnitResult,
+    ) -> Result<()> {
         out.reset(1, db.len());
         let mut own = *options;
         if let Some(model) = self.gas_model {
             own.gas_model = model;
         }
         let options = &own;
+        let mode = if options.gas_model.is_ideal() {
+            ideal_mode
+        } else {
+            real_mode
+        };
         let stage = out.equilibrium.get_or_insert_with(Default::default);
         let inlet = StageInlet {
             flows,
@@ -163,7 +208,7 @@ impl ReactorCore {
         outlet.pressure_pa = pressure_pa;
         outlet.phase = StreamPhase::Vapour;
         if options.gas_model != GasModel::Ideal {
-            self.ideal_gas_figures(db, inlet, mode, approaches_k, options, out)?;
+            self.ideal_gas_figures(db, inlet, ideal_mode, approaches_k, options, out)?;
         }
         Ok(())
     }
