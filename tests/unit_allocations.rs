@@ -549,7 +549,9 @@ fn boilers_solve_warm_without_allocating() {
     );
     assert_eq!(n, 0, "boiler with a feed-water inlet: {n} allocations");
     // The boiler sets the feed water's flow, and steam and blowdown leave as streams.
-    let r = with_water.solve(&db, &[&reformed, &feed_water], None).unwrap();
+    let r = with_water
+        .solve(&db, &[&reformed, &feed_water], None)
+        .unwrap();
     assert_eq!(r.inlet_flows.len(), 1);
     assert!(r.outlets[1].total() > 0.0 && r.outlets[2].total() > 0.0);
 }
