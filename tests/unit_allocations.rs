@@ -413,7 +413,6 @@ fn exchangers_solve_warm_without_allocating() {
         32e5,
     );
     let wet = knockout_feed(&db);
-    let raw = raw_hydrogen(&db);
     let cooling_water = stream(&db, &[("H2O", 5000.0)], 303.15, 5e5, StreamPhase::Liquid);
     let feed_preheat = exchanger(ExchangerTarget::ColdOutletTemperature(653.15), false);
     let n = warm_allocations(
