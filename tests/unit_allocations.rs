@@ -2,10 +2,10 @@
 //!
 //! The check: a global allocator that counts every `alloc` and `realloc` of the thread that
 //! makes it (so tests running beside each other do not disturb the count) wraps the system
-//! allocator; each unit (mixer, heater, cooler, knockout, purifier, splitter) is solved through
-//! `UnitKind::solve_into` into one result and one scratch, first on other inlets (so that stale
-//! contents would show), then twice on a realistic inlet, and the second of these must count zero
-//! allocations. Each warm result must also equal, value for value, a fresh `UnitKind::solve` of
+//! allocator; each unit (mixer, heater, cooler, knockout, purifier, splitter, exchanger,
+//! separator, boiler) is solved through `UnitKind::solve_into` into one result and one scratch,
+//! first on other inlets (so that stale contents would show), then twice on a realistic inlet,
+//! and the second of these must count zero allocations. Each warm result must also equal, value for value, a fresh `UnitKind::solve` of
 //! the same inlet, so that reused buffers cannot hide a wrong answer. This is a property of the
 //! code, with no outside reference; the inlets are invented demo compositions near those of
 //! flowsheets/demo-train.yaml (flows in mol/s).
@@ -376,4 +376,181 @@ fn knockout_purifier_splitter_and_mixer_solve_warm_without_allocating() {
     let mixer = Mixer::new(&db, "feed-mixer", &MixerSpec::default()).unwrap();
     let n = warm_allocations(&db, "mixer", &mixer, &[], &[&ng, &steam]);
     assert_eq!(n, 0, "mixer: {n} allocations");
+}
+
+/// Exchangers: gas/gas by cold outlet temperature and by minimum approach, and a wet process gas
+/// condensing against cooling water (pure liquid water on the cold side, condensate outlet).
+#[test]
+fn exchangers_solve_warm_without_allocating() {
+    use syntrain::units::{Exchanger, ExchangerSpec, ExchangerTarget};
+    let db = db();
+    let exchanger = |target, condensate_outlet| {
+        Exchanger::new(
+            &db,
+            "exchanger",
+            &ExchangerSpec {
+                target,
+                hot_pressure_drop_pa: 0.3e5,
+                cold_pressure_drop_pa: 0.2e5,
+                condensate_outlet,
+            },
+        )
+        .unwrap()
+    };
+    // High-temperature shift outlet at 430 degC heating the natural gas from 40 degC.
+    let mut hts_exit = reformed_gas(&db);
+    hts_exit.temperature_k = 703.15;
+    let natural_gas = gas(
+        &db,
+        &[
+            ("CH4", 259.72),
+            ("C2H6", 9.72),
+            ("C3H8", 2.78),
+            ("CO2", 2.78),
+            ("N2", 2.78),
+        ],
+        313.15,
+        32e5,
+    );
+    let wet = knockout_feed(&db);
+    let cooling_water = stream(&db, &[("H2O", 5000.0)], 303.15, 5e5, StreamPhase::Liquid);
+    let feed_preheat = exchanger(ExchangerTarget::ColdOutletTemperature(653.15), false);
+    let n = warm_allocations(
+        &db,
+        "gas/gas by cold outlet",
+        &feed_preheat,
+        &[&[&reformed_gas(&db), &natural_gas]],
+        &[&hts_exit, &natural_gas],
+    );
+    assert_eq!(n, 0, "exchanger gas/gas by cold outlet: {n} allocations");
+    let pinch = exchanger(ExchangerTarget::MinimumApproach(25.0), false);
+    let n = warm_allocations(
+        &db,
+        "gas/gas by minimum approach",
+        &pinch,
+        &[],
+        &[&hts_exit, &natural_gas],
+    );
+    assert_eq!(
+        n, 0,
+        "exchanger gas/gas by minimum approach: {n} allocations"
+    );
+    // The LTS outlet at 170 degC cooled to 50 degC by cooling water: water condenses.
+    let condenser = exchanger(ExchangerTarget::HotOutletTemperature(323.15), true);
+    let n = warm_allocations(
+        &db,
+        "condensing",
+        &condenser,
+        &[&[&hts_exit, &cooling_water]],
+        &[&wet, &cooling_water],
+    );
+    assert_eq!(n, 0, "exchanger condensing: {n} allocations");
+    // The path under test condenses: liquid water leaves through the third outlet.
+    let r = condenser.solve(&db, &[&wet, &cooling_water], None).unwrap();
+    let h2o = db.index_of("H2O").unwrap();
+    assert!(r.outlets[2].flows[h2o] > 100.0, "{:?}", r.outlets[2]);
+    let by_duty = exchanger(ExchangerTarget::Duty(5.0e6), true);
+    let n = warm_allocations(
+        &db,
+        "condensing by duty",
+        &by_duty,
+        &[&[&hts_exit, &cooling_water]],
+        &[&wet, &cooling_water],
+    );
+    assert_eq!(n, 0, "exchanger condensing by duty: {n} allocations");
+}
+
+/// Separators: CO2 removal with its heat figure, and water taken out as liquid.
+#[test]
+fn separators_solve_warm_without_allocating() {
+    use syntrain::units::{Separator, SeparatorSpec};
+    let db = db();
+    let separator = |removal: &[(&str, f64)]| {
+        Separator::new(
+            &db,
+            "co2-removal",
+            &SeparatorSpec {
+                removal: removal.iter().map(|(s, f)| (s.to_string(), *f)).collect(),
+                pressure_drop_pa: 0.3e5,
+                duty_per_tonne_co2_j_per_kg: Some(2.5e6),
+            },
+        )
+        .unwrap()
+    };
+    // Raw hydrogen at 50 degC: without its CO2 it stays above its water dew point.
+    let mut raw = raw_hydrogen(&db);
+    raw.temperature_k = 323.15;
+    let wet = knockout_feed(&db);
+    let co2_removal = separator(&[("CO2", 0.99)]);
+    let n = warm_allocations(&db, "CO2 removal", &co2_removal, &[&[&wet]], &[&raw]);
+    assert_eq!(n, 0, "separator, CO2 removal: {n} allocations");
+    let dryer = separator(&[("H2O", 1.0)]);
+    let n = warm_allocations(&db, "dryer", &dryer, &[&[&wet]], &[&raw]);
+    assert_eq!(n, 0, "separator, water removed as liquid: {n} allocations");
+    let r = dryer.solve(&db, &[&raw], None).unwrap();
+    assert_eq!(r.outlets[1].phase, StreamPhase::Liquid);
+}
+
+/// Boilers: the steam side as a figure only, and with a feed-water inlet whose flow the boiler
+/// sets (steam and blowdown as outlets).
+#[test]
+fn boilers_solve_warm_without_allocating() {
+    use syntrain::units::boiler::{Boiler, BoilerSpec, GasOutlet};
+    let db = db();
+    let reformed = reformed_gas(&db);
+    let mut hts_exit = reformed_gas(&db);
+    hts_exit.temperature_k = 703.15;
+    // Process-gas boiler after the reformer at 40 bar abs steam: gas to 20 K above saturation.
+    let figure_only = Boiler::new(
+        &db,
+        "process-gas-boiler",
+        &BoilerSpec {
+            steam_pressure_pa: 40e5,
+            steam_temperature_k: None,
+            gas_outlet: GasOutlet::ApproachToSaturation(20.0),
+            feed_water_temperature_k: Some(378.15),
+            blowdown: 0.02,
+            pressure_drop_pa: 0.2e5,
+            outlet_count: 1,
+        },
+    )
+    .unwrap();
+    let n = warm_allocations(
+        &db,
+        "boiler, steam as a figure",
+        &figure_only,
+        &[&[&hts_exit]],
+        &[&reformed],
+    );
+    assert_eq!(n, 0, "boiler, steam as a figure: {n} allocations");
+    // With feed water at 105 degC and 45 bar abs, superheating to 400 degC.
+    let feed_water = stream(&db, &[("H2O", 300.0)], 378.15, 45e5, StreamPhase::Liquid);
+    let with_water = Boiler::new(
+        &db,
+        "process-gas-boiler",
+        &BoilerSpec {
+            steam_pressure_pa: 40e5,
+            steam_temperature_k: Some(673.15),
+            gas_outlet: GasOutlet::Temperature(623.15),
+            feed_water_temperature_k: None,
+            blowdown: 0.02,
+            pressure_drop_pa: 0.2e5,
+            outlet_count: 3,
+        },
+    )
+    .unwrap();
+    let n = warm_allocations(
+        &db,
+        "boiler with feed water",
+        &with_water,
+        &[&[&hts_exit, &feed_water]],
+        &[&reformed, &feed_water],
+    );
+    assert_eq!(n, 0, "boiler with a feed-water inlet: {n} allocations");
+    // The boiler sets the feed water's flow, and steam and blowdown leave as streams.
+    let r = with_water
+        .solve(&db, &[&reformed, &feed_water], None)
+        .unwrap();
+    assert_eq!(r.inlet_flows.len(), 1);
+    assert!(r.outlets[1].total() > 0.0 && r.outlets[2].total() > 0.0);
 }

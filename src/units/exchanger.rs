@@ -818,15 +818,22 @@ impl Sides<'_> {
                 self.hot_at_temperature("duty", root.x, gas, cond)?;
                 Ok(None)
             }
-            Termination::RootBelowBracket => Err(spec_error(
-                name,
-                "duty",
-                format!(
-                    "the hot gas would be cooled below {} (the triple point of water or the \
-                     species data range); transfer less heat",
-                    degc(lo)
-                ),
-            )),
+            // Without a slope the search only bisects and never evaluates the lower end, so a
+            // root below it shows as a bracket narrowed onto that end with a large residual.
+            Termination::RootBelowBracket | Termination::BracketNarrowed
+                if root.termination == Termination::RootBelowBracket
+                    || root.x <= lo + options.step_tolerance =>
+            {
+                Err(spec_error(
+                    name,
+                    "duty",
+                    format!(
+                        "the hot gas would be cooled below {} (the triple point of water or the \
+                         species data range); transfer less heat",
+                        degc(lo)
+                    ),
+                ))
+            }
             termination => Err(Error::NotConverged {
                 what: format!("hot side energy balance of exchanger '{name}'"),
                 iterations: root.iterations,

@@ -149,6 +149,23 @@ fn crosses_and_bad_specs_are_refused() {
 }
 
 #[test]
+fn a_duty_beyond_the_condensing_gas_is_refused_as_such() {
+    // 1 mol/s of the hot gas can give at most about 27 kW down to 0 degC (about 33 J/(mol K)
+    // over 350 K, plus 0.35 mol/s x 44 kJ/mol of latent heat: from memory, rounded); asking
+    // 100 kW is refused by name, not as a temperature search that did not converge.
+    let db = db();
+    let (hot, cold) = (hot_gas(&db), feed_water(&db, 20.0));
+    let e = unit(&db, ExchangerTarget::Duty(100e3), true)
+        .solve(&db, &[&hot, &cold], None)
+        .unwrap_err()
+        .to_string();
+    assert!(
+        e.contains("cooled below") && e.contains("transfer less heat"),
+        "{e}"
+    );
+}
+
+#[test]
 fn water_boiling_to_wet_steam_is_refused() {
     // Feed water at 40 bar heated by a duty that leaves it part boiled.
     let db = db();
