@@ -6,8 +6,8 @@
 //! the per-unit `gas-model` key over the flowsheet's; and a warm real-gas solve of the unit that
 //! makes no heap allocation.
 
-use std::alloc::{GlobalAlloc, Layout, System};
-use std::cell::Cell;
+mod common;
+
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output, Stdio};
 
@@ -18,41 +18,8 @@ use syntrain::units::autothermal::{Autothermal, AutothermalSpec};
 use syntrain::units::unit::UnitScratch;
 use syntrain::units::{Stream, UnitKind, UnitResult};
 
-/// The system allocator, counting the allocations of each thread (so that tests running
-/// beside each other do not disturb the count).
-struct Counting;
-
-thread_local! {
-    static ALLOCATIONS: Cell<usize> = const { Cell::new(0) };
-}
-
-fn count_one() {
-    let _ = ALLOCATIONS.try_with(|n| n.set(n.get() + 1));
-}
-
-unsafe impl GlobalAlloc for Counting {
-    unsafe fn alloc(&self, layout: Layout) -> *mut u8 {
-        count_one();
-        unsafe { System.alloc(layout) }
-    }
-
-    unsafe fn alloc_zeroed(&self, layout: Layout) -> *mut u8 {
-        count_one();
-        unsafe { System.alloc_zeroed(layout) }
-    }
-
-    unsafe fn dealloc(&self, ptr: *mut u8, layout: Layout) {
-        unsafe { System.dealloc(ptr, layout) }
-    }
-
-    unsafe fn realloc(&self, ptr: *mut u8, layout: Layout, new_size: usize) -> *mut u8 {
-        count_one();
-        unsafe { System.realloc(ptr, layout, new_size) }
-    }
-}
-
 #[global_allocator]
-static GLOBAL: Counting = Counting;
+static GLOBAL: common::alloc::Counting = common::alloc::Counting;
 
 const SPECIES: [&str; 8] = ["CH4", "H2O", "CO", "CO2", "H2", "O2", "N2", "Ar"];
 /// Atoms of C, H, O, N, Ar in each of `SPECIES`.
@@ -362,10 +329,10 @@ fn a_warm_real_gas_solve_makes_no_heap_allocation_and_repeats_the_cold_answer() 
         unit.solve_into(&db, &[inlet, &oxygen], None, &mut scratch, &mut out)
             .unwrap();
     }
-    let before = ALLOCATIONS.with(|n| n.get());
+    let before = common::alloc::allocations();
     unit.solve_into(&db, &[&process, &oxygen], None, &mut scratch, &mut out)
         .unwrap();
-    let counted = ALLOCATIONS.with(|n| n.get()) - before;
+    let counted = common::alloc::allocations() - before;
     assert_eq!(counted, 0, "a warm solve allocated {counted} times");
     let fresh = unit.solve(&db, &[&process, &oxygen], None).unwrap();
     assert_eq!(out.outlets[0].flows, fresh.outlets[0].flows);

@@ -3,8 +3,8 @@
 //! plant's energy figures worked out by hand from the stream flows and heating values, the heat
 //! balance, and the errors of a fuel that cannot meet the duty and of a missing `heats`.
 
-use std::alloc::{GlobalAlloc, Layout, System};
-use std::cell::Cell;
+mod common;
+
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output, Stdio};
 
@@ -12,36 +12,8 @@ use serde_json::Value;
 use syntrain::flowsheet::Flowsheet;
 use syntrain::thermo::SpeciesDb;
 
-/// Counts the heap allocations of the current thread (the tests of this binary run in parallel
-/// threads, so the count is kept per thread).
-struct Counting;
-
-thread_local! {
-    static ALLOCATIONS: Cell<usize> = const { Cell::new(0) };
-}
-
-fn count_one() {
-    let _ = ALLOCATIONS.try_with(|c| c.set(c.get() + 1));
-}
-
-unsafe impl GlobalAlloc for Counting {
-    unsafe fn alloc(&self, layout: Layout) -> *mut u8 {
-        count_one();
-        unsafe { System.alloc(layout) }
-    }
-
-    unsafe fn dealloc(&self, ptr: *mut u8, layout: Layout) {
-        unsafe { System.dealloc(ptr, layout) }
-    }
-
-    unsafe fn realloc(&self, ptr: *mut u8, layout: Layout, new_size: usize) -> *mut u8 {
-        count_one();
-        unsafe { System.realloc(ptr, layout, new_size) }
-    }
-}
-
 #[global_allocator]
-static GLOBAL: Counting = Counting;
+static GLOBAL: common::alloc::Counting = common::alloc::Counting;
 
 /// DIN 1343: molar volume of an ideal gas at 273.15 K and 101 325 Pa, m3/kmol.
 const NORMAL_MOLAR_VOLUME_M3_PER_KMOL: f64 = 22.414;
@@ -318,16 +290,16 @@ fn a_warm_solve_of_the_fired_train_allocates_nothing() {
     let params = fs.parameters();
     let mut ws = fs.workspace(&db);
     // The counter counts: a cold solve sizes its buffers.
-    let cold = ALLOCATIONS.with(Cell::get);
+    let cold = common::alloc::allocations();
     fs.solve_in(&db, &params, &mut ws).unwrap();
-    assert!(ALLOCATIONS.with(Cell::get) > cold);
+    assert!(common::alloc::allocations() > cold);
     for _ in 0..3 {
         fs.solve_in(&db, &params, &mut ws).unwrap();
     }
-    let before = ALLOCATIONS.with(Cell::get);
+    let before = common::alloc::allocations();
     let r = fs.solve_in(&db, &params, &mut ws).unwrap();
     let fuel = r.summary.fuel_lhv_w;
-    let after = ALLOCATIONS.with(Cell::get);
+    let after = common::alloc::allocations();
     assert!(fuel > 0.0);
     assert_eq!(
         after - before,

@@ -11,8 +11,8 @@
 //!   gas, cp = 5/2 R; NIST-JANAF (Chase 1998), table Ar-001, lists Cp = 20.786 J/(mol K) at every
 //!   temperature.
 
-use std::alloc::{GlobalAlloc, Layout, System};
-use std::cell::Cell;
+mod common;
+
 use std::path::Path;
 use std::process::{Command, Output, Stdio};
 
@@ -20,35 +20,8 @@ use serde_json::Value;
 use syntrain::flowsheet::Flowsheet;
 use syntrain::thermo::SpeciesDb;
 
-/// A global allocator counting the allocations of the current thread (tests run in parallel).
-struct Counting;
-
-thread_local! {
-    static ALLOCATIONS: Cell<usize> = const { Cell::new(0) };
-}
-
-fn count() {
-    let _ = ALLOCATIONS.try_with(|c| c.set(c.get() + 1));
-}
-
-unsafe impl GlobalAlloc for Counting {
-    unsafe fn alloc(&self, layout: Layout) -> *mut u8 {
-        count();
-        unsafe { System.alloc(layout) }
-    }
-
-    unsafe fn dealloc(&self, ptr: *mut u8, layout: Layout) {
-        unsafe { System.dealloc(ptr, layout) }
-    }
-
-    unsafe fn realloc(&self, ptr: *mut u8, layout: Layout, new_size: usize) -> *mut u8 {
-        count();
-        unsafe { System.realloc(ptr, layout, new_size) }
-    }
-}
-
 #[global_allocator]
-static GLOBAL: Counting = Counting;
+static GLOBAL: common::alloc::Counting = common::alloc::Counting;
 
 /// NIST-JANAF (Chase 1998), Ar-001: Cp of argon, J/(mol K), constant.
 const ARGON_CP: f64 = 20.786;
@@ -399,9 +372,9 @@ fn recycle_iterations_allocate_nothing_once_warm() {
     }
     // From the first guess again: every pass of the iteration, with the buffers sized.
     ws.forget();
-    let before = ALLOCATIONS.with(Cell::get);
+    let before = common::alloc::allocations();
     fs.solve_in(&db, &params, &mut ws).unwrap();
-    let after = ALLOCATIONS.with(Cell::get);
+    let after = common::alloc::allocations();
     let iterations = ws.result().recycle.as_ref().unwrap().iterations;
     assert!(iterations > 10, "{iterations}");
     assert_eq!(after - before, 0, "{iterations} passes allocated");

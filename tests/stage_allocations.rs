@@ -2,45 +2,14 @@
 //! result keep their buffers between solves. Checked with a counting global allocator (the only
 //! global allocator of this test binary) that counts the allocations of the calling thread.
 
-use std::alloc::{GlobalAlloc, Layout, System};
-use std::cell::Cell;
+mod common;
 
 use syntrain::equilibrium::*;
 use syntrain::reaction::Reaction;
 use syntrain::thermo::SpeciesDb;
 
-struct Counting;
-
-thread_local! {
-    static ALLOCATIONS: Cell<usize> = const { Cell::new(0) };
-}
-
-// SAFETY: every call is passed on unchanged to the system allocator; the counter is a const
-// thread-local cell, which needs no allocation of its own.
-unsafe impl GlobalAlloc for Counting {
-    unsafe fn alloc(&self, layout: Layout) -> *mut u8 {
-        let _ = ALLOCATIONS.try_with(|c| c.set(c.get() + 1));
-        System.alloc(layout)
-    }
-    unsafe fn dealloc(&self, ptr: *mut u8, layout: Layout) {
-        System.dealloc(ptr, layout)
-    }
-    unsafe fn alloc_zeroed(&self, layout: Layout) -> *mut u8 {
-        let _ = ALLOCATIONS.try_with(|c| c.set(c.get() + 1));
-        System.alloc_zeroed(layout)
-    }
-    unsafe fn realloc(&self, ptr: *mut u8, layout: Layout, new_size: usize) -> *mut u8 {
-        let _ = ALLOCATIONS.try_with(|c| c.set(c.get() + 1));
-        System.realloc(ptr, layout, new_size)
-    }
-}
-
 #[global_allocator]
-static GLOBAL: Counting = Counting;
-
-fn allocations() -> usize {
-    ALLOCATIONS.with(|c| c.get())
-}
+static GLOBAL: common::alloc::Counting = common::alloc::Counting;
 
 fn stage(db: &SpeciesDb, reactions: &[(&str, f64, Direction)]) -> EquilibriumStage {
     EquilibriumStage::new(
@@ -153,12 +122,12 @@ fn warm_solves_do_not_allocate() {
             .unwrap();
     }
     for (k, (st, i, mode, settings)) in cases.into_iter().enumerate() {
-        let before = allocations();
+        let before = common::alloc::allocations();
         for _ in 0..3 {
             st.solve_into(&db, i, mode, settings, &mut ws, &mut out)
                 .unwrap();
         }
-        let made = allocations() - before;
+        let made = common::alloc::allocations() - before;
         assert_eq!(made, 0, "case {k}: {made} allocations in 3 warm solves");
         assert!(out.converged(), "case {k}: {:?}", out.termination);
         // The same answer as the allocating entry, to the last bit.
@@ -173,7 +142,7 @@ fn warm_solves_do_not_allocate() {
         }
     }
     // The counter does count: a fresh result allocates.
-    let before = allocations();
+    let before = common::alloc::allocations();
     let r = reformer.solve(&db, inlet, isothermal, None).unwrap();
-    assert!(allocations() > before && r.converged());
+    assert!(common::alloc::allocations() > before && r.converged());
 }

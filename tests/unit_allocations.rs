@@ -10,8 +10,7 @@
 //! code, with no outside reference; the inlets are invented demo compositions near those of
 //! flowsheets/demo-train.yaml (flows in mol/s).
 
-use std::alloc::{GlobalAlloc, Layout, System};
-use std::cell::Cell;
+mod common;
 
 use syntrain::thermo::SpeciesDb;
 use syntrain::units::unit::UnitScratch;
@@ -21,45 +20,8 @@ use syntrain::units::{
     ThermalSpec, ThermalTarget, UnitKind, UnitResult,
 };
 
-/// The system allocator, counting the allocations of each thread.
-struct Counting;
-
-thread_local! {
-    static ALLOCATIONS: Cell<usize> = const { Cell::new(0) };
-}
-
-fn count_one() {
-    // `try_with`: a thread being torn down has no counter left, and is not under test.
-    let _ = ALLOCATIONS.try_with(|n| n.set(n.get() + 1));
-}
-
-fn allocations() -> usize {
-    ALLOCATIONS.with(|n| n.get())
-}
-
-unsafe impl GlobalAlloc for Counting {
-    unsafe fn alloc(&self, layout: Layout) -> *mut u8 {
-        count_one();
-        unsafe { System.alloc(layout) }
-    }
-
-    unsafe fn alloc_zeroed(&self, layout: Layout) -> *mut u8 {
-        count_one();
-        unsafe { System.alloc_zeroed(layout) }
-    }
-
-    unsafe fn dealloc(&self, ptr: *mut u8, layout: Layout) {
-        unsafe { System.dealloc(ptr, layout) }
-    }
-
-    unsafe fn realloc(&self, ptr: *mut u8, layout: Layout, new_size: usize) -> *mut u8 {
-        count_one();
-        unsafe { System.realloc(ptr, layout, new_size) }
-    }
-}
-
 #[global_allocator]
-static GLOBAL: Counting = Counting;
+static GLOBAL: common::alloc::Counting = common::alloc::Counting;
 
 fn db() -> SpeciesDb {
     SpeciesDb::embedded().unwrap()
@@ -198,9 +160,9 @@ fn warm_allocations<U: UnitKind>(
     unit.solve_into(db, inlets, None, &mut scratch, &mut out)
         .unwrap();
     assert_same(name, &out, &fresh);
-    let start = allocations();
+    let start = common::alloc::allocations();
     let solved = unit.solve_into(db, inlets, None, &mut scratch, &mut out);
-    let made = allocations() - start;
+    let made = common::alloc::allocations() - start;
     solved.unwrap();
     assert_same(name, &out, &fresh);
     made
@@ -216,9 +178,9 @@ fn thermal(target: ThermalTarget, drop_pa: f64) -> ThermalSpec {
 #[test]
 fn the_counter_sees_allocations() {
     // The counter itself must bite: a new vector is one allocation on this thread.
-    let start = allocations();
+    let start = common::alloc::allocations();
     let v = std::hint::black_box(vec![1.0_f64; 8]);
-    assert_eq!(allocations() - start, 1);
+    assert_eq!(common::alloc::allocations() - start, 1);
     drop(v);
     // And a unit whose solve builds a new result counts: the trait's default `solve_into`
     // (here through a fresh `solve`) allocates the outlets.
@@ -230,10 +192,10 @@ fn the_counter_sees_allocations() {
     )
     .unwrap();
     let feed = mixed_feed(&db);
-    let start = allocations();
+    let start = common::alloc::allocations();
     let r = heater.solve(&db, &[&feed], None).unwrap();
     assert!(
-        allocations() - start >= 2,
+        common::alloc::allocations() - start >= 2,
         "a fresh result has outlets and figures"
     );
     drop(r);
@@ -296,9 +258,13 @@ fn heaters_and_coolers_solve_warm_without_allocating() {
     .unwrap();
     let mut out = UnitResult::default();
     t.solve_into(&db, &[&reformed], &mut out).unwrap();
-    let start = allocations();
+    let start = common::alloc::allocations();
     t.solve_into(&db, &[&reformed], &mut out).unwrap();
-    assert_eq!(allocations() - start, 0, "Thermal::solve_into");
+    assert_eq!(
+        common::alloc::allocations() - start,
+        0,
+        "Thermal::solve_into"
+    );
 }
 
 #[test]

@@ -2,6 +2,8 @@
 
 #![allow(dead_code)]
 
+pub mod alloc;
+
 use std::path::PathBuf;
 
 use syntrain::thermo::SpeciesDb;
