@@ -686,6 +686,12 @@ mod tests {
         let u = Boiler::new(&db, "whb", &spec(None, 0.0, 2)).unwrap();
         let e = error(&u, &[&gas_in, &fw]);
         assert!(e.contains("below the steam pressure"), "{e}");
+        // Steam given as the feed water: pure water, but not liquid.
+        let mut steam = feed_water(&db, 1.0);
+        steam.temperature_k = 600.0;
+        steam.phase = StreamPhase::Vapour;
+        let e = error(&u, &[&gas_in, &steam]);
+        assert!(e.contains("pure liquid water"), "{e}");
         // No feed-water inlet and no feed-water temperature.
         let mut s = spec(None, 0.0, 1);
         s.feed_water_temperature_k = None;
