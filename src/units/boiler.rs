@@ -686,6 +686,16 @@ mod tests {
         let u = Boiler::new(&db, "whb", &spec(None, 0.0, 2)).unwrap();
         let e = error(&u, &[&gas_in, &fw]);
         assert!(e.contains("below the steam pressure"), "{e}");
+        // Feed water exactly at the steam pressure is taken (module docs: at least at it).
+        let mut fw = feed_water(&db, 1.0);
+        fw.pressure_pa = 40e5;
+        assert!(u.solve(&db, &[&gas_in, &fw], None).is_ok());
+        // Without blowdown there is no blowdown figure.
+        let r = Boiler::new(&db, "whb", &spec(None, 0.0, 1))
+            .unwrap()
+            .solve(&db, &[&gas_in], None)
+            .unwrap();
+        assert!(r.figures.iter().all(|f| f.key != "blowdown"));
         // Steam given as the feed water: pure water, but not liquid.
         let mut steam = feed_water(&db, 1.0);
         steam.temperature_k = 600.0;
