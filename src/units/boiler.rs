@@ -639,7 +639,10 @@ mod tests {
         );
         assert!((fig(&r, "heat-to-steam") + r.duty_w).abs() < 1e-9);
         assert!(r.inlet_flows.is_empty());
-        assert!(fig(&r, "blowdown") > 0.0);
+        // Blowdown b = 2 % of the feed water, steam 1 - b (module docs, by hand): the blowdown
+        // figure is b / (1 - b) = 0.02 / 0.98 of the steam raised, both in kg/s.
+        let ratio = fig(&r, "blowdown") / fig(&r, "steam-raised");
+        assert!((ratio - 0.02 / 0.98).abs() < 1e-12, "{ratio}");
         assert!((r.outlets[0].pressure_pa - 29.8e5).abs() < 1e-6);
     }
 
@@ -683,6 +686,22 @@ mod tests {
         let u = Boiler::new(&db, "whb", &spec(None, 0.0, 2)).unwrap();
         let e = error(&u, &[&gas_in, &fw]);
         assert!(e.contains("below the steam pressure"), "{e}");
+        // Feed water exactly at the steam pressure is taken (module docs: at least at it).
+        let mut fw = feed_water(&db, 1.0);
+        fw.pressure_pa = 40e5;
+        assert!(u.solve(&db, &[&gas_in, &fw], None).is_ok());
+        // Without blowdown there is no blowdown figure.
+        let r = Boiler::new(&db, "whb", &spec(None, 0.0, 1))
+            .unwrap()
+            .solve(&db, &[&gas_in], None)
+            .unwrap();
+        assert!(r.figures.iter().all(|f| f.key != "blowdown"));
+        // Steam given as the feed water: pure water, but not liquid.
+        let mut steam = feed_water(&db, 1.0);
+        steam.temperature_k = 600.0;
+        steam.phase = StreamPhase::Vapour;
+        let e = error(&u, &[&gas_in, &steam]);
+        assert!(e.contains("pure liquid water"), "{e}");
         // No feed-water inlet and no feed-water temperature.
         let mut s = spec(None, 0.0, 1);
         s.feed_water_temperature_k = None;
