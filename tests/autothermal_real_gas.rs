@@ -9,7 +9,6 @@
 mod common;
 
 use std::path::{Path, PathBuf};
-use std::process::{Command, Output, Stdio};
 
 use serde_json::Value;
 use syntrain::thermo::peng_robinson::stream_residual_enthalpy_w;
@@ -18,58 +17,10 @@ use syntrain::units::autothermal::{Autothermal, AutothermalSpec};
 use syntrain::units::unit::UnitScratch;
 use syntrain::units::{Stream, UnitKind, UnitResult};
 
+use common::syngas::{elements, f, flow_map, solve_json, stream_flows, syntrain, SPECIES};
+
 #[global_allocator]
 static GLOBAL: common::alloc::Counting = common::alloc::Counting;
-
-const SPECIES: [&str; 8] = ["CH4", "H2O", "CO", "CO2", "H2", "O2", "N2", "Ar"];
-/// Atoms of C, H, O, N, Ar in each of `SPECIES`.
-const ATOMS: [[f64; 5]; 8] = [
-    [1.0, 4.0, 0.0, 0.0, 0.0],
-    [0.0, 2.0, 1.0, 0.0, 0.0],
-    [1.0, 0.0, 1.0, 0.0, 0.0],
-    [1.0, 0.0, 2.0, 0.0, 0.0],
-    [0.0, 2.0, 0.0, 0.0, 0.0],
-    [0.0, 0.0, 2.0, 0.0, 0.0],
-    [0.0, 0.0, 0.0, 2.0, 0.0],
-    [0.0, 0.0, 0.0, 0.0, 1.0],
-];
-
-fn syntrain(args: &[&str]) -> Output {
-    let out = Command::new(env!("CARGO_BIN_EXE_syntrain"))
-        .args(args)
-        .stdin(Stdio::null())
-        .output()
-        .expect("running the syntrain binary");
-    let err = String::from_utf8_lossy(&out.stderr);
-    assert!(!err.contains("panicked"), "the binary panicked: {err}");
-    out
-}
-
-fn solve_json(file: &Path) -> Value {
-    let file = file.display().to_string();
-    let out = syntrain(&["solve", file.as_str(), "--format", "json"]);
-    assert!(
-        out.status.success(),
-        "solve {file} failed: {}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    serde_json::from_slice(&out.stdout).expect("solve --format json prints JSON")
-}
-
-fn f(v: &Value) -> f64 {
-    v.as_f64().unwrap_or_else(|| panic!("not a number: {v}"))
-}
-
-/// A flow map in mol/s for YAML from flows by `SPECIES`, zero flows left out.
-fn flow_map(flows: &[f64]) -> String {
-    let parts: Vec<String> = SPECIES
-        .iter()
-        .zip(flows)
-        .filter(|(_, n)| **n > 0.0)
-        .map(|(s, n)| format!("{s}: {n:e} mol/s"))
-        .collect();
-    format!("{{{}}}", parts.join(", "))
-}
 
 /// One row of the Cantera table.
 struct Case {
@@ -141,25 +92,6 @@ fn flowsheet(dir: &Path, name: &str, c: &Case, top: &str, unit: &str) -> PathBuf
     path
 }
 
-/// Flows of a stream of the JSON result, mol/s by `SPECIES`.
-fn stream_flows(v: &Value, stream: &str) -> Vec<f64> {
-    let m = &v["streams"][stream]["flow_kmol_h"];
-    SPECIES
-        .iter()
-        .map(|s| m.get(*s).map_or(0.0, f) / 3.6)
-        .collect()
-}
-
-fn elements(flows: &[f64]) -> [f64; 5] {
-    let mut e = [0.0; 5];
-    for (n, atoms) in flows.iter().zip(&ATOMS) {
-        for (k, a) in atoms.iter().enumerate() {
-            e[k] += n * a;
-        }
-    }
-    e
-}
-
 /// Flows by database species from flows by `SPECIES`.
 fn db_flows(db: &SpeciesDb, flows: &[f64]) -> Vec<f64> {
     let mut out = vec![0.0; db.len()];
@@ -192,7 +124,7 @@ fn the_outlet_matches_cantera_peng_robinson_and_the_balances_close() {
         } else {
             ("", "    gas-model: peng-robinson\n")
         };
-        let v = solve_json(&flowsheet(dir.path(), "atr.yaml", c, top, unit));
+        let v = solve_json(&flowsheet(dir.path(), "atr.yaml", c, top, unit), &[]);
         assert_eq!(v["units"]["atr"]["gas_model"], "peng-robinson");
         let out = &v["streams"]["atr-exit"];
         let t = f(&out["temperature_K"]);
@@ -289,7 +221,7 @@ fn a_unit_set_to_ideal_gives_the_ideal_gas_answer_under_a_peng_robinson_flowshee
         "gas-model: peng-robinson\n",
         "    gas-model: ideal\n",
     );
-    let v = solve_json(&file);
+    let v = solve_json(&file, &[]);
     assert_eq!(v["units"]["atr"]["gas_model"], "ideal");
     let t = f(&v["streams"]["atr-exit"]["temperature_K"]);
     assert!((t - c.t_out_ideal).abs() < 0.5, "{t} vs {}", c.t_out_ideal);

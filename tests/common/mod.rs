@@ -3,6 +3,7 @@
 #![allow(dead_code)]
 
 pub mod alloc;
+pub mod syngas;
 
 use std::path::PathBuf;
 
