@@ -377,7 +377,9 @@ impl UnitKind for Boiler {
         let b = spec.blowdown;
         let per_mol = (1.0 - b) * h_steam + b * h_liquid - h_fw;
         let feed = heat_w / per_mol;
-        if !(feed.is_finite() && feed > 0.0 && per_mol > 0.0) {
+        // No gas, no steam (a recycle's first pass may hand a boiler a tear of no flow).
+        let no_gas = gas.total() == 0.0 && heat_w == 0.0;
+        if !(feed.is_finite() && (feed > 0.0 || no_gas) && per_mol > 0.0) {
             return Err(self.error(
                 "outlet-temperature",
                 format!(
@@ -644,6 +646,26 @@ mod tests {
         let ratio = fig(&r, "blowdown") / fig(&r, "steam-raised");
         assert!((ratio - 0.02 / 0.98).abs() < 1e-12, "{ratio}");
         assert!((r.outlets[0].pressure_pa - 29.8e5).abs() < 1e-6);
+    }
+
+    #[test]
+    fn no_gas_raises_no_steam() {
+        // A gas of no flow (a recycle's first guess) gives no heat and no steam, not an error;
+        // with a feed-water inlet the boiler sets that feed to no flow.
+        let db = db();
+        let mut gas_in = reformed_gas(&db);
+        gas_in.flows.iter_mut().for_each(|n| *n = 0.0);
+        let u = Boiler::new(&db, "whb", &spec(None, 0.02, 3)).unwrap();
+        let fw = feed_water(&db, 1.0);
+        let r = u.solve(&db, &[&gas_in, &fw], None).unwrap();
+        assert_eq!(fig(&r, "steam-raised"), 0.0);
+        assert_eq!(fig(&r, "heat-to-steam"), 0.0);
+        assert_eq!(r.inlet_flows, vec![(1, 0.0)]);
+        assert!(r.outlets.iter().all(|o| o.total() == 0.0));
+        // Any gas at all still has to give heat.
+        let mut trace = reformed_gas(&db);
+        trace.temperature_k = 400.0;
+        assert!(u.solve(&db, &[&trace, &fw], None).is_err());
     }
 
     fn error(u: &Boiler, inlets: &[&Stream]) -> String {
