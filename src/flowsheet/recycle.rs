@@ -327,6 +327,23 @@ mod tests {
     const B: [f64; 2] = [Q_MIN, Q_MAX];
 
     #[test]
+    fn options_refuse_a_wegstein_factor_of_one() {
+        // x' = q x + (1 - q) g(x): q = 1 never moves the guess, and the slope form
+        // q = s / (s - 1) reaches 1 only for an infinite slope (Wegstein 1958); the upper
+        // bound must stay below 1, and the lower bound may equal it.
+        let with = |bounds: [f64; 2]| RecycleOptions {
+            wegstein_bounds: bounds,
+            ..RecycleOptions::default()
+        };
+        assert!(with([-5.0, 0.999]).is_valid());
+        assert!(with([0.5, 0.5]).is_valid());
+        assert!(!with([-5.0, 1.0]).is_valid());
+        assert!(!with([0.6, 0.5]).is_valid());
+        assert!(!with([f64::NEG_INFINITY, 0.0]).is_valid());
+        assert!(RecycleOptions::default().is_valid());
+    }
+
+    #[test]
     fn wegstein_is_exact_for_a_linear_map_within_its_bounds() {
         // x = g(x) = a + s x has the fixed point a / (1 - s); with the slope known, one
         // Wegstein step lands on it (Wegstein 1958): x' = q x + (1 - q) g, q = s / (s - 1).
