@@ -10,8 +10,7 @@ use std::path::{Path, PathBuf};
 
 use syntrain::thermo::SpeciesDb;
 use syntrain::units::autothermal::{Autothermal, AutothermalSpec};
-use syntrain::units::unit::UnitScratch;
-use syntrain::units::{Stream, UnitKind, UnitResult};
+use syntrain::units::{Stream, UnitKind};
 
 use common::syngas::{elements, f, flow_map, solve_json, stream_flows, syntrain, SPECIES};
 
@@ -303,18 +302,5 @@ fn a_warm_solve_makes_no_heap_allocation_and_repeats_the_cold_answer() {
         ..Default::default()
     };
     let unit = Autothermal::new(&db, "atr", &spec).unwrap();
-    let (mut scratch, mut out) = (UnitScratch::default(), UnitResult::default());
-    for inlet in [&other, &process] {
-        unit.solve_into(&db, &[inlet, &oxygen], None, &mut scratch, &mut out)
-            .unwrap();
-    }
-    let before = common::alloc::allocations();
-    unit.solve_into(&db, &[&process, &oxygen], None, &mut scratch, &mut out)
-        .unwrap();
-    let counted = common::alloc::allocations() - before;
-    assert_eq!(counted, 0, "a warm solve allocated {counted} times");
-    let fresh = unit.solve(&db, &[&process, &oxygen], None).unwrap();
-    assert_eq!(out.outlets[0].flows, fresh.outlets[0].flows);
-    assert_eq!(out.outlets[0].temperature_k, fresh.outlets[0].temperature_k);
-    assert_eq!(out.figures, fresh.figures);
+    common::syngas::assert_warm_solve_allocates_nothing(&db, &unit, &other, &process, &oxygen);
 }

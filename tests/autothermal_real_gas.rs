@@ -14,8 +14,7 @@ use serde_json::Value;
 use syntrain::thermo::peng_robinson::stream_residual_enthalpy_w;
 use syntrain::thermo::{mixture, GasModel, SpeciesDb};
 use syntrain::units::autothermal::{Autothermal, AutothermalSpec};
-use syntrain::units::unit::UnitScratch;
-use syntrain::units::{Stream, UnitKind, UnitResult};
+use syntrain::units::{Stream, UnitKind};
 
 use common::syngas::{elements, f, flow_map, solve_json, stream_flows, syntrain, SPECIES};
 
@@ -256,20 +255,8 @@ fn a_warm_real_gas_solve_makes_no_heap_allocation_and_repeats_the_cold_answer() 
         ..Default::default()
     };
     let unit = Autothermal::new(&db, "atr", &spec).unwrap();
-    let (mut scratch, mut out) = (UnitScratch::default(), UnitResult::default());
-    for inlet in [&other, &process] {
-        unit.solve_into(&db, &[inlet, &oxygen], None, &mut scratch, &mut out)
-            .unwrap();
-    }
-    let before = common::alloc::allocations();
-    unit.solve_into(&db, &[&process, &oxygen], None, &mut scratch, &mut out)
-        .unwrap();
-    let counted = common::alloc::allocations() - before;
-    assert_eq!(counted, 0, "a warm solve allocated {counted} times");
-    let fresh = unit.solve(&db, &[&process, &oxygen], None).unwrap();
-    assert_eq!(out.outlets[0].flows, fresh.outlets[0].flows);
-    assert_eq!(out.outlets[0].temperature_k, fresh.outlets[0].temperature_k);
-    assert_eq!(out.figures, fresh.figures);
+    let out =
+        common::syngas::assert_warm_solve_allocates_nothing(&db, &unit, &other, &process, &oxygen);
     assert!(out.warnings.is_empty(), "{:?}", out.warnings);
     let stage = out.equilibrium.as_ref().unwrap();
     assert_eq!(stage.gas_model, GasModel::PengRobinson);

@@ -82,3 +82,33 @@ pub fn elements(flows: &[f64]) -> [f64; 5] {
     }
     e
 }
+
+/// Solve `unit` warm (after `other`, then `process`, each with `oxidant`), count the heap
+/// allocations of one more solve of `process` (the counting allocator of [`super::alloc`] must
+/// be the binary's), assert there are none and that the warm answer equals a fresh solve; the
+/// warm result is returned for further checks.
+pub fn assert_warm_solve_allocates_nothing(
+    db: &syntrain::thermo::SpeciesDb,
+    unit: &syntrain::units::autothermal::Autothermal,
+    other: &syntrain::units::Stream,
+    process: &syntrain::units::Stream,
+    oxidant: &syntrain::units::Stream,
+) -> syntrain::units::UnitResult {
+    use syntrain::units::unit::UnitScratch;
+    use syntrain::units::{UnitKind, UnitResult};
+    let (mut scratch, mut out) = (UnitScratch::default(), UnitResult::default());
+    for inlet in [other, process] {
+        unit.solve_into(db, &[inlet, oxidant], None, &mut scratch, &mut out)
+            .unwrap();
+    }
+    let before = super::alloc::allocations();
+    unit.solve_into(db, &[process, oxidant], None, &mut scratch, &mut out)
+        .unwrap();
+    let counted = super::alloc::allocations() - before;
+    assert_eq!(counted, 0, "a warm solve allocated {counted} times");
+    let fresh = unit.solve(db, &[process, oxidant], None).unwrap();
+    assert_eq!(out.outlets[0].flows, fresh.outlets[0].flows);
+    assert_eq!(out.outlets[0].temperature_k, fresh.outlets[0].temperature_k);
+    assert_eq!(out.figures, fresh.figures);
+    out
+}
