@@ -22,6 +22,7 @@ pub use super::basis::MAX_SPECIES;
 use super::basis::{Basis, FRACTION_TO_BOUNDARY};
 use super::linalg;
 use super::options::{SolverOptions, StageTermination};
+use super::small::{Prepared, SmallState};
 use crate::error::{Error, Result};
 
 /// Default convergence tolerance on the largest equilibrium residual of the working equations,
@@ -47,6 +48,8 @@ pub struct ExtentSystem {
     /// Identity of this system's coefficients (shared by its clones), so that a workspace can
     /// keep the rows it loaded from it.
     id: u64,
+    /// The stack kernel of the Newton iteration, for a system of its size.
+    small: Option<Prepared>,
 }
 
 /// Source of [`ExtentSystem`] identities.
@@ -151,12 +154,14 @@ impl ExtentSystem {
                     .into(),
             });
         }
-        let dnu = rows.iter().map(|r| r.iter().sum()).collect();
+        let dnu: Vec<f64> = rows.iter().map(|r| r.iter().sum()).collect();
         let members = rows
             .iter()
             .map(|r| (0..n_species).filter(|&i| r[i] != 0.0).collect())
             .collect();
+        let small = Prepared::new(&nu, &dnu, n_reactions, n_species);
         Ok(ExtentSystem {
+            small,
             n_species,
             n_reactions,
             nu,
@@ -306,7 +311,24 @@ impl ExtentSystem {
 
         let tolerance = options.extent_tolerance;
         let mut iterations = 0;
-        let mut merit = basis.gradient(n, inert, ln_p, ln_n, g);
+        let mut merit;
+        match &self.small {
+            // Every reaction active: every species is in a working reaction and present.
+            Some(kernel) if na == nr && !basis.rebased() => {
+                let mut state = SmallState {
+                    n,
+                    g,
+                    w,
+                    merit: 0.0,
+                    iterations,
+                };
+                let limit = options.extent_iteration_limit;
+                kernel.iterate((ln_k, inert, ln_p), &mut state, tolerance, limit, MIN_STEP);
+                merit = state.merit;
+                iterations = state.iterations;
+            }
+            _ => merit = basis.gradient(n, inert, ln_p, ln_n, g),
+        }
         let mut converged = max_abs(g) <= tolerance;
         // Why the last step failed, if it did.
         let mut last_failure = None;

@@ -53,7 +53,7 @@ fn shift_with_unit_k_reacts_half_the_steam_at_any_pressure_or_inert() {
 fn simultaneous_reforming_and_shift_worked_example_from_book_data() {
     // Smith, Van Ness & Abbott, 7th ed., Example 13.14: 2 mol CH4 + 3 mol H2O at 1000 K, 1 bar,
     // with the book's dfG(1000 K) (J/mol): CH4 19 720, H2O -192 420, CO -200 240, CO2 -395 790
-    // (values from memory, see ../shared/design.md). Book result y(CH4, H2O, CO, H2, CO2) =
+    // (values from memory). Book result y(CH4, H2O, CO, H2, CO2) =
     // 0.0196, 0.0980, 0.1743, 0.6710, 0.0371.
     let r = 8.314; // J/(mol K), as the book uses
     let dg_reforming = -200_240.0 - 19_720.0 + 192_420.0;
@@ -254,4 +254,111 @@ fn a_sensitivity_that_cannot_be_solved_is_reported() {
     assert_eq!(out[0], 0.0);
     // Mismatched lengths are refused, not indexed.
     assert!(!s.sensitivity(&sol, 0.0, &[], &mut [0.0], &mut ExtentWork::default()));
+}
+
+/// The same system without its stack kernel: every solve takes the general loop.
+fn general_only(s: &ExtentSystem) -> ExtentSystem {
+    let mut g = s.clone();
+    g.small = None;
+    g
+}
+
+/// Solve with and without the stack kernel; both converged, and the amounts equal within
+/// `rel` (relative to the larger, floor 1e-300).
+fn kernel_agrees(s: &ExtentSystem, inlet: &[f64], inert: f64, ln_k: &[f64], ln_p: f64, rel: f64) {
+    let fast = s.solve(inlet, inert, ln_k, ln_p, None).unwrap();
+    let slow = general_only(s)
+        .solve(inlet, inert, ln_k, ln_p, None)
+        .unwrap();
+    assert!(fast.converged() && slow.converged(), "{fast:?} {slow:?}");
+    for (a, b) in fast.amounts.iter().zip(&slow.amounts) {
+        assert!(
+            (a - b).abs() <= rel * a.abs().max(b.abs()).max(1e-300),
+            "{:?} against {:?}",
+            fast.amounts,
+            slow.amounts
+        );
+    }
+}
+
+#[test]
+fn the_stack_kernel_takes_the_common_sizes_only() {
+    assert!(reforming_and_shift().small.is_some());
+    assert!(shift_only().small.is_some());
+    // Three species, or three reactions: the general loop alone.
+    assert!(ExtentSystem::new(3, &[vec![-2.0, 1.0, 1.0]])
+        .unwrap()
+        .small
+        .is_none());
+    let three = ExtentSystem::new(
+        6,
+        &[
+            vec![-1.0, -1.0, 1.0, 3.0, 0.0, 0.0],
+            vec![0.0, -1.0, -1.0, 1.0, 1.0, 0.0],
+            vec![-1.0, 0.0, 0.0, 2.0, 0.0, 1.0],
+        ],
+    )
+    .unwrap();
+    assert!(three.small.is_none());
+}
+
+#[test]
+fn the_stack_kernel_meets_the_general_loop() {
+    // The same convex problem (Smith & Missen, ch. 4) has one root: the kernel and the general
+    // loop must find it to round-off, at reformer, shift and methanator conditions (ln K of
+    // reforming 5.5 and shift -0.2 near 1140 K; shift 3.2 near 620 K; reforming -20 near 560 K,
+    // from memory) and at extreme ones.
+    let rs = reforming_and_shift();
+    for (inlet, inert, ln_k, ln_p) in [
+        ([0.27, 0.82, 0.0, 0.01, 0.002], 0.004, [5.5, -0.2], 3.3),
+        ([0.27, 0.82, 0.0, 0.01, 0.002], 0.004, [-3.0, 1.5], 0.0),
+        ([1e-6, 0.3, 0.004, 0.7, 0.002], 0.2, [-20.0, 7.0], 3.3),
+        ([0.5, 0.5, 0.0, 0.0, 0.0], 0.0, [30.0, -5.0], 5.0),
+        ([0.1, 2.0, 0.3, 0.5, 0.2], 1.0, [0.0, 0.0], -3.0),
+    ] {
+        kernel_agrees(&rs, &inlet, inert, &ln_k, ln_p, 1e-10);
+    }
+    let shift = shift_only();
+    for (inlet, ln_k) in [
+        ([0.09, 0.34, 0.056, 0.48], 3.2),
+        ([0.09, 0.34, 0.056, 0.48], -2.0),
+        ([1.0, 1.0, 0.0, 0.0], 0.0),
+        ([0.001, 0.4, 0.1, 0.5], 12.0),
+    ] {
+        kernel_agrees(&shift, &inlet, 0.03, &[ln_k], 2.0, 1e-10);
+    }
+}
+
+#[test]
+fn the_stack_kernel_sums_logarithms_where_a_product_would_leave_the_range() {
+    // Half coefficients (no whole powers) and amounts near 1e-200 (a product of four of them
+    // underflows): the kernel sums logarithms one by one and still meets the general loop.
+    let half =
+        ExtentSystem::new(4, &[vec![-1.0, -0.5, 1.0, 2.0], vec![0.0, -1.0, -1.0, 1.0]]).unwrap();
+    assert!(half.small.is_some());
+    kernel_agrees(&half, &[0.4, 0.3, 0.01, 0.02], 0.1, &[2.0, 0.5], 1.0, 1e-10);
+    let rs = reforming_and_shift();
+    kernel_agrees(
+        &rs,
+        &[0.3, 0.6, 1e-200, 1e-200, 0.05],
+        0.0,
+        &[-400.0, 1.0],
+        0.0,
+        1e-9,
+    );
+}
+
+#[test]
+fn the_stack_kernel_gives_up_to_the_general_loop_where_it_must() {
+    // Amounts spanning more than eight decades take the general loop's QR path: a methane slip
+    // of 1e-12 of the total (a deep methanator) is still solved, and to the same answer.
+    let rs = reforming_and_shift();
+    kernel_agrees(
+        &rs,
+        &[1e-12, 0.3, 1e-3, 0.7, 1e-3],
+        0.0,
+        &[-30.0, 8.0],
+        3.0,
+        1e-9,
+    );
 }

@@ -14,6 +14,7 @@ pub mod extents;
 pub mod linalg;
 pub mod options;
 pub mod root;
+mod small;
 pub mod stage;
 
 pub use approach::{approach_from_quotient, approach_sign, equilibrium_temperature, ln_quotient};

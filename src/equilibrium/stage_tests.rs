@@ -97,7 +97,7 @@ fn reformer_at_fixed_temperature_closes_elements_and_energy() {
 
 #[test]
 fn approach_temperature_means_equilibrium_at_the_shifted_temperature() {
-    // Design convention (../shared/design.md): a reformer at 860 degC with a 10 K methane
+    // Design convention (DEVELOPERS.md): a reformer at 860 degC with a 10 K methane
     // approach has the methane of equilibrium at 850 degC; a shift at 420 degC with 10 K has the
     // CO of equilibrium at 430 degC. Checked through the reaction quotients.
     let db = db();

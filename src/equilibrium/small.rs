@@ -1,0 +1,448 @@
+//! The Newton iteration of [`super::extents`] for the common small stages, on the stack: one or
+//! two working reactions (a shift converter; reforming with shift; a methanator) over
+//! six species or fewer, every one of them present and changed by a working
+//! reaction. The species count is a constant of each instance, so every loop is unrolled.
+//!
+//! It takes the steps of the general loop in `extents.rs` (the same Hessian, closed-form 2 x 2
+//! solve, fraction-to-boundary rule and backtracking on |g|^2) without its slices, iterator
+//! chains and calls, and with one logarithm a reaction in the gradient instead of one a species
+//! ([`SmallSystem::gradient`]). It stops at the first iteration that would need the general
+//! machinery (amounts spanning eight decades or more, which take the QR path; a Hessian that is
+//! not positive definite; a failed line search, which rebuilds the basis), leaving that
+//! iteration undone, and the general loop carries on from the same state.
+//!
+//! Hand-written on purpose (callgrind instructions a solve, `examples/profile_stage.rs`, the
+//! general loop alone -> with this kernel): reforming + shift warm-started from a 5 K neighbour
+//! 9 530 -> 6 825; the same from cold 12 650 -> 9 060; adiabatic shift 28 700 -> 20 160.
+
+/// The working reactions of one solve, copied onto the stack.
+#[derive(Debug, Clone)]
+pub struct SmallSystem<const M: usize, const N: usize> {
+    /// Coefficients of each working reaction over the species.
+    nu: [[f64; N]; M],
+    /// Gas mole change of each working reaction.
+    dnu: [f64; M],
+    /// The coefficients as powers of the numerator and the denominator, when every one is a
+    /// whole number of magnitude at most [`MAX_POWER`].
+    powers: Option<Powers<M, N>>,
+    /// True when a working reaction changes the number of moles.
+    mole_change: bool,
+}
+
+/// What changes from solve to solve: ln K of each working reaction, the amount of gas species
+/// in no reaction, and ln(P / P0).
+#[derive(Debug, Clone, Copy)]
+pub struct Conditions<const M: usize> {
+    /// ln K of each working reaction.
+    pub ln_k: [f64; M],
+    /// Amount of gas species in no reaction.
+    pub inert: f64,
+    /// ln(P / P0).
+    pub ln_p: f64,
+}
+
+/// The whole coefficients of the working reactions split by side: products' in the numerator,
+/// reactants' in the denominator.
+#[derive(Debug, Clone)]
+struct Powers<const M: usize, const N: usize> {
+    numerator: [[u8; N]; M],
+    denominator: [[u8; N]; M],
+}
+
+/// Largest coefficient magnitude taken as repeated products in the gradient.
+const MAX_POWER: f64 = 4.0;
+
+/// Where the iteration stands; the general loop's variables of the same names.
+pub struct SmallState<'a> {
+    /// Amounts (every one positive).
+    pub n: &'a mut [f64],
+    /// Gradient at `n` (written by the kernel).
+    pub g: &'a mut [f64],
+    /// Working extents taken so far.
+    pub w: &'a mut [f64],
+    /// |g|^2 at `n` (written by the kernel).
+    pub merit: f64,
+    /// Newton iterations taken.
+    pub iterations: usize,
+}
+
+/// Fraction of the distance to the boundary a step may take (as in the general loop).
+const FRACTION_TO_BOUNDARY: f64 = super::basis::FRACTION_TO_BOUNDARY;
+
+impl<const M: usize, const N: usize> SmallSystem<M, N> {
+    /// A system of the given rows (coefficients over the species, and gas mole changes) whose
+    /// sums of logarithms are taken as the logarithm of one product where the coefficients
+    /// allow it (see [`SmallSystem::gradient`]).
+    pub fn new(nu: [[f64; N]; M], dnu: [f64; M]) -> SmallSystem<M, N> {
+        let mut powers = Powers {
+            numerator: [[0; N]; M],
+            denominator: [[0; N]; M],
+        };
+        let mut whole = true;
+        for k in 0..M {
+            for i in 0..N {
+                let v = nu[k][i];
+                let e = v as i8;
+                whole &= f64::from(e) == v && v.abs() <= MAX_POWER;
+                powers.numerator[k][i] = e.max(0) as u8;
+                powers.denominator[k][i] = (-e).max(0) as u8;
+            }
+        }
+        SmallSystem {
+            nu,
+            dnu,
+            powers: whole.then_some(powers),
+            mole_change: dnu.iter().any(|d| *d != 0.0),
+        }
+    }
+
+    /// Gradient g_k = sum_i nu_ki ln n_i + dnu_k (ln(P/P0) - ln n_T) - ln K_k into `g`, and
+    /// the total n_T; returns |g|^2.
+    ///
+    /// With whole coefficients the sum of logarithms is the logarithm of one quotient of
+    /// products (ln(n_CO n_H2^3 / (n_CH4 n_H2O)) for reforming): one logarithm a reaction
+    /// instead of one a species, the logarithms being most of a Newton step's cost. The
+    /// quotient carries a few units of round-off (1e-15 in g, far below the 1e-11 tolerance);
+    /// where a product would leave the normal range the logarithms are summed one by one.
+    #[inline(always)]
+    fn gradient(&self, at: &Conditions<M>, n: &[f64; N], g: &mut [f64; M], total: &mut f64) -> f64 {
+        let mut sum = 0.0;
+        for &v in n {
+            sum += v;
+        }
+        *total = sum + at.inert;
+        let ln_total = if self.mole_change { total.ln() } else { 0.0 };
+        // n_i^e for e = 0..=4 (the rest of the row unused).
+        let mut power = [[1.0f64; 8]; N];
+        if self.powers.is_some() {
+            for i in 0..N {
+                let x = n[i];
+                let x2 = x * x;
+                power[i][1] = x;
+                power[i][2] = x2;
+                power[i][3] = x2 * x;
+                power[i][4] = x2 * x2;
+            }
+        }
+        let mut merit = 0.0;
+        for k in 0..M {
+            let s = match &self.powers {
+                Some(powers) => {
+                    let (mut num, mut den) = (1.0f64, 1.0f64);
+                    for i in 0..N {
+                        num *= power[i][usize::from(powers.numerator[k][i]) & 7];
+                        den *= power[i][usize::from(powers.denominator[k][i]) & 7];
+                    }
+                    let q = num / den;
+                    if (1e-280..1e280).contains(&num)
+                        && (1e-280..1e280).contains(&den)
+                        && q.is_normal()
+                    {
+                        q.ln()
+                    } else {
+                        self.log_sum(k, n)
+                    }
+                }
+                None => self.log_sum(k, n),
+            };
+            let r = s + self.dnu[k] * (at.ln_p - ln_total) - at.ln_k[k];
+            g[k] = r;
+            merit += r * r;
+        }
+        merit
+    }
+
+    /// sum_i nu_ki ln n_i, one logarithm a species. Kept out of line: inlined, its logarithms
+    /// were computed ahead on every call whether the quotient needed them or not.
+    #[cold]
+    #[inline(never)]
+    fn log_sum(&self, k: usize, n: &[f64; N]) -> f64 {
+        let mut s = 0.0;
+        for i in 0..N {
+            if self.nu[k][i] != 0.0 {
+                s += self.nu[k][i] * n[i].ln();
+            }
+        }
+        s
+    }
+
+    /// Newton direction H d = -g by the closed form of the general loop's 1 x 1 or 2 x 2
+    /// Hessian; `None` where the general loop would leave the closed form (amounts spanning
+    /// eight decades or more, or a Hessian that is not positive definite).
+    #[inline(always)]
+    fn direction(&self, n: &[f64; N], total: f64, g: &[f64; M]) -> Option<[f64; M]> {
+        let (mut smallest, mut largest) = (f64::INFINITY, 0.0f64);
+        let inv_total = 1.0 / total;
+        let mut step = [0.0f64; M];
+        if M == 1 {
+            let mut h00 = 0.0;
+            for i in 0..N {
+                let (ni, a) = (n[i], self.nu[0][i]);
+                smallest = if ni < smallest { ni } else { smallest };
+                largest = if ni > largest { ni } else { largest };
+                h00 += a * a / ni;
+            }
+            let h = h00 - self.dnu[0] * self.dnu[0] * inv_total;
+            if !(largest < 1e8 * smallest && h > 0.0 && h.is_finite()) {
+                return None;
+            }
+            step[0] = -g[0] / h;
+        } else {
+            let (mut h00, mut h01, mut h11) = (0.0, 0.0, 0.0);
+            for i in 0..N {
+                let (ni, a, b) = (n[i], self.nu[0][i], self.nu[1][i]);
+                smallest = if ni < smallest { ni } else { smallest };
+                largest = if ni > largest { ni } else { largest };
+                let w = 1.0 / ni;
+                h00 += a * a * w;
+                h01 += a * b * w;
+                h11 += b * b * w;
+            }
+            let (d0, d1) = (self.dnu[0], self.dnu[1]);
+            let a0 = h00 - d0 * d0 * inv_total;
+            let a1 = h01 - d0 * d1 * inv_total;
+            let a3 = h11 - d1 * d1 * inv_total;
+            let det = a0 * a3 - a1 * a1;
+            if !(largest < 1e8 * smallest && a0 > 0.0 && det > 1e-10 * a0 * a3 && det.is_finite()) {
+                return None;
+            }
+            let (b0, b1) = (-g[0], -g[1]);
+            step[0] = (a3 * b0 - a1 * b1) / det;
+            step[1] = (a0 * b1 - a1 * b0) / det;
+        }
+        Some(step)
+    }
+
+    /// The gradient at `state.n`, then Newton iterations until every |g_k| is within
+    /// `tolerance`, `limit` iterations are taken, or an iteration needs the general loop (left
+    /// undone). True when converged.
+    pub fn iterate(
+        &self,
+        at: &Conditions<M>,
+        state: &mut SmallState<'_>,
+        tolerance: f64,
+        limit: usize,
+        min_step: f64,
+    ) -> bool {
+        let mut n = [0.0f64; N];
+        n.copy_from_slice(&state.n[..N]);
+        let mut g = [0.0f64; M];
+        let mut total = 0.0;
+        let mut merit = self.gradient(at, &n, &mut g, &mut total);
+        let mut converged = g.iter().all(|r| r.abs() <= tolerance);
+        while !converged && state.iterations < limit {
+            let Some(step) = self.direction(&n, total, &g) else {
+                break;
+            };
+            let mut dn = [0.0f64; N];
+            let mut alpha: f64 = 1.0;
+            for i in 0..N {
+                let mut d = 0.0;
+                for k in 0..M {
+                    d += self.nu[k][i] * step[k];
+                }
+                dn[i] = d;
+                if d < 0.0 {
+                    alpha = alpha.min(FRACTION_TO_BOUNDARY * n[i] / -d);
+                }
+            }
+            let mut trial = [0.0f64; N];
+            let mut trial_g = [0.0f64; M];
+            let mut trial_total = 0.0;
+            let mut accepted = false;
+            while alpha > min_step {
+                let mut positive = true;
+                for i in 0..N {
+                    trial[i] = n[i] + alpha * dn[i];
+                    positive &= trial[i] > 0.0;
+                }
+                if positive {
+                    let m = self.gradient(at, &trial, &mut trial_g, &mut trial_total);
+                    if m < (1.0 - 1e-4 * alpha) * merit || m == 0.0 {
+                        merit = m;
+                        accepted = true;
+                        break;
+                    }
+                }
+                alpha *= 0.5;
+            }
+            if !accepted {
+                break;
+            }
+            state.iterations += 1;
+            n = trial;
+            g = trial_g;
+            total = trial_total;
+            for k in 0..M {
+                state.w[k] += alpha * step[k];
+            }
+            converged = g.iter().all(|r| r.abs() <= tolerance);
+        }
+        state.n[..N].copy_from_slice(&n);
+        state.g[..M].copy_from_slice(&g);
+        state.merit = merit;
+        converged
+    }
+}
+
+/// The kernel of an extent system, prepared once from its rows when it has one or two reactions
+/// over four to six species.
+#[derive(Debug, Clone)]
+pub enum Prepared {
+    /// One reaction over four species (a shift converter).
+    R1S4(SmallSystem<1, 4>),
+    /// One reaction over five species.
+    R1S5(SmallSystem<1, 5>),
+    /// One reaction over six species.
+    R1S6(SmallSystem<1, 6>),
+    /// Two reactions over four species.
+    R2S4(SmallSystem<2, 4>),
+    /// Two reactions over five species (reforming with shift; a methanator).
+    R2S5(SmallSystem<2, 5>),
+    /// Two reactions over six species.
+    R2S6(SmallSystem<2, 6>),
+}
+
+impl Prepared {
+    /// The kernel of `nr` rows over `ns` species (row-major `nu`, gas mole changes `dnu`), or
+    /// `None` for a size it does not take.
+    pub fn new(nu: &[f64], dnu: &[f64], nr: usize, ns: usize) -> Option<Prepared> {
+        fn rows<const M: usize, const N: usize>(nu: &[f64], dnu: &[f64]) -> SmallSystem<M, N> {
+            let mut a = [[0.0; N]; M];
+            let mut d = [0.0; M];
+            for k in 0..M {
+                a[k].copy_from_slice(&nu[k * N..(k + 1) * N]);
+                d[k] = dnu[k];
+            }
+            SmallSystem::new(a, d)
+        }
+        if nu.len() != nr * ns || dnu.len() != nr {
+            return None;
+        }
+        Some(match (nr, ns) {
+            (1, 4) => Prepared::R1S4(rows(nu, dnu)),
+            (1, 5) => Prepared::R1S5(rows(nu, dnu)),
+            (1, 6) => Prepared::R1S6(rows(nu, dnu)),
+            (2, 4) => Prepared::R2S4(rows(nu, dnu)),
+            (2, 5) => Prepared::R2S5(rows(nu, dnu)),
+            (2, 6) => Prepared::R2S6(rows(nu, dnu)),
+            _ => return None,
+        })
+    }
+
+    /// [`SmallSystem::iterate`] at `ln_k` (one per reaction), `inert` and `ln_p`.
+    pub fn iterate(
+        &self,
+        (ln_k, inert, ln_p): (&[f64], f64, f64),
+        state: &mut SmallState<'_>,
+        tolerance: f64,
+        limit: usize,
+        min_step: f64,
+    ) -> bool {
+        fn at<const M: usize>(ln_k: &[f64], inert: f64, ln_p: f64) -> Conditions<M> {
+            let mut k = [0.0; M];
+            k.copy_from_slice(&ln_k[..M]);
+            Conditions {
+                ln_k: k,
+                inert,
+                ln_p,
+            }
+        }
+        match self {
+            Prepared::R1S4(s) => {
+                s.iterate(&at(ln_k, inert, ln_p), state, tolerance, limit, min_step)
+            }
+            Prepared::R1S5(s) => {
+                s.iterate(&at(ln_k, inert, ln_p), state, tolerance, limit, min_step)
+            }
+            Prepared::R1S6(s) => {
+                s.iterate(&at(ln_k, inert, ln_p), state, tolerance, limit, min_step)
+            }
+            Prepared::R2S4(s) => {
+                s.iterate(&at(ln_k, inert, ln_p), state, tolerance, limit, min_step)
+            }
+            Prepared::R2S5(s) => {
+                s.iterate(&at(ln_k, inert, ln_p), state, tolerance, limit, min_step)
+            }
+            Prepared::R2S6(s) => {
+                s.iterate(&at(ln_k, inert, ln_p), state, tolerance, limit, min_step)
+            }
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// g_k = sum_i nu_ki ln n_i + dnu_k (ln(P/P0) - ln n_T) - ln K_k, written out (the
+    /// definition of the module documentation of `extents.rs`).
+    fn direct<const M: usize, const N: usize>(
+        nu: &[[f64; N]; M],
+        at: &Conditions<M>,
+        n: &[f64; N],
+    ) -> [f64; M] {
+        let total: f64 = n.iter().sum::<f64>() + at.inert;
+        let mut g = [0.0; M];
+        for k in 0..M {
+            let dnu: f64 = nu[k].iter().sum();
+            let s: f64 = (0..N).map(|i| nu[k][i] * n[i].ln()).sum();
+            g[k] = s + dnu * (at.ln_p - total.ln()) - at.ln_k[k];
+        }
+        g
+    }
+
+    fn check<const M: usize, const N: usize>(nu: [[f64; N]; M], n: [f64; N], whole: bool) {
+        let dnu = nu.map(|r| r.iter().sum());
+        let system = SmallSystem::new(nu, dnu);
+        assert_eq!(system.powers.is_some(), whole);
+        let at = Conditions {
+            ln_k: [1.5; M],
+            inert: 0.07,
+            ln_p: 3.3,
+        };
+        let mut g = [0.0; M];
+        let mut total = 0.0;
+        let merit = system.gradient(&at, &n, &mut g, &mut total);
+        let want = direct(&nu, &at, &n);
+        for k in 0..M {
+            // A few units of round-off on terms of magnitude up to 1e3.
+            assert!((g[k] - want[k]).abs() <= 1e-12, "{g:?} against {want:?}");
+        }
+        assert!((merit - want.iter().map(|r| r * r).sum::<f64>()).abs() <= 1e-9 * merit.max(1.0));
+        assert!((total - (n.iter().sum::<f64>() + 0.07)).abs() <= 1e-15);
+    }
+
+    #[test]
+    fn the_gradient_is_the_sum_of_logarithms_whichever_way_it_is_taken() {
+        // Reforming and shift over CH4, H2O, CO, H2, CO2: whole powers, one quotient each.
+        let rs = [[-1.0, -1.0, 1.0, 3.0, 0.0], [0.0, -1.0, -1.0, 1.0, 1.0]];
+        check(rs, [0.1, 0.4, 0.2, 0.5, 0.1], true);
+        check(rs, [1e-9, 2.0, 3e-7, 2.5, 0.3], true);
+        // Products beyond the normal range: the logarithms summed one by one.
+        check(rs, [0.3, 0.6, 1e-200, 1e-200, 0.05], true);
+        check(rs, [1e-150, 1e-150, 0.3, 0.6, 0.05], true);
+        // CO2 methanation (a power of four) and a lone shift.
+        check(
+            [[0.0, 2.0, 1.0, -4.0, -1.0]],
+            [0.01, 0.3, 0.02, 0.6, 0.005],
+            true,
+        );
+        check([[-1.0, -1.0, 1.0, 1.0]], [0.09, 0.34, 0.056, 0.48], true);
+        // A half coefficient, or a power above four: no whole powers, logarithms throughout.
+        check([[-1.0, -0.5, 1.0, 2.0]], [0.4, 0.3, 0.01, 0.02], false);
+        check([[-1.0, -5.0, 1.0, 2.0]], [0.4, 0.3, 0.01, 0.02], false);
+    }
+
+    #[test]
+    fn a_species_count_or_reaction_count_outside_the_kernel_is_refused() {
+        let row = [-1.0, -1.0, 1.0, 1.0, 0.0, 0.0, 0.0];
+        assert!(Prepared::new(&row[..4], &[0.0], 1, 4).is_some());
+        assert!(Prepared::new(&row[..6], &[0.0], 1, 6).is_some());
+        assert!(Prepared::new(&row[..3], &[0.0], 1, 3).is_none());
+        assert!(Prepared::new(&row, &[0.0], 1, 7).is_none());
+        // Lengths that do not match the sizes.
+        assert!(Prepared::new(&row[..5], &[0.0], 1, 4).is_none());
+        assert!(Prepared::new(&row[..4], &[0.0, 0.0], 1, 4).is_none());
+    }
+}
