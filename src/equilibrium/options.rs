@@ -55,15 +55,17 @@ impl Default for SolverOptions {
 impl SolverOptions {
     /// True when every tolerance is positive and finite and every limit at least one.
     pub fn is_valid(&self) -> bool {
-        let positive = |v: f64| v > 0.0 && v.is_finite();
+        // Non-short-circuit `&`: every stage solve asks, and the branch-free form is a few
+        // instructions.
+        let positive = |v: f64| (v > 0.0) & (v < f64::INFINITY);
         positive(self.extent_tolerance)
-            && positive(self.extent_reported_tolerance)
-            && positive(self.energy_tolerance)
-            && positive(self.temperature_step_tolerance_k)
-            && positive(self.fugacity_tolerance)
-            && self.fugacity_iteration_limit >= 1
-            && self.extent_iteration_limit >= 1
-            && self.temperature_iteration_limit >= 1
+            & positive(self.extent_reported_tolerance)
+            & positive(self.energy_tolerance)
+            & positive(self.temperature_step_tolerance_k)
+            & positive(self.fugacity_tolerance)
+            & (self.fugacity_iteration_limit >= 1)
+            & (self.extent_iteration_limit >= 1)
+            & (self.temperature_iteration_limit >= 1)
     }
 }
 

@@ -25,8 +25,6 @@ pub struct SmallSystem<const M: usize, const N: usize> {
     /// The coefficients as powers of the numerator and the denominator, when every one is a
     /// whole number of magnitude at most [`MAX_POWER`].
     powers: Option<Powers<M, N>>,
-    /// True when a working reaction changes the number of moles.
-    mole_change: bool,
 }
 
 /// What changes from solve to solve: ln K of each working reaction, the amount of gas species
@@ -47,6 +45,9 @@ pub struct Conditions<const M: usize> {
 struct Powers<const M: usize, const N: usize> {
     numerator: [[u8; N]; M],
     denominator: [[u8; N]; M],
+    /// The power of the total amount: -dnu_k on its side (ln y_i = ln n_i - ln n_T).
+    total_numerator: [u8; M],
+    total_denominator: [u8; M],
 }
 
 /// Largest coefficient magnitude taken as repeated products in the gradient.
@@ -77,8 +78,16 @@ impl<const M: usize, const N: usize> SmallSystem<M, N> {
         let mut powers = Powers {
             numerator: [[0; N]; M],
             denominator: [[0; N]; M],
+            total_numerator: [0; M],
+            total_denominator: [0; M],
         };
         let mut whole = true;
+        for k in 0..M {
+            let e = dnu[k] as i8;
+            whole &= f64::from(e) == dnu[k] && dnu[k].abs() <= MAX_POWER;
+            powers.total_numerator[k] = (-e).max(0) as u8;
+            powers.total_denominator[k] = e.max(0) as u8;
+        }
         for k in 0..M {
             for i in 0..N {
                 let v = nu[k][i];
@@ -92,16 +101,16 @@ impl<const M: usize, const N: usize> SmallSystem<M, N> {
             nu,
             dnu,
             powers: whole.then_some(powers),
-            mole_change: dnu.iter().any(|d| *d != 0.0),
         }
     }
 
     /// Gradient g_k = sum_i nu_ki ln n_i + dnu_k (ln(P/P0) - ln n_T) - ln K_k into `g`, and
     /// the total n_T; returns |g|^2.
     ///
-    /// With whole coefficients the sum of logarithms is the logarithm of one quotient of
-    /// products (ln(n_CO n_H2^3 / (n_CH4 n_H2O)) for reforming): one logarithm a reaction
-    /// instead of one a species, the logarithms being most of a Newton step's cost. The
+    /// With whole coefficients the sum of logarithms, with the total's, is the logarithm of one
+    /// quotient of products (ln(n_CO n_H2^3 / (n_CH4 n_H2O n_T^2)) for reforming): one
+    /// logarithm a reaction instead of one a species and one for the total, the logarithms
+    /// being most of a Newton step's cost. The
     /// quotient carries a few units of round-off (1e-15 in g, far below the 1e-11 tolerance);
     /// where a product would leave the normal range the logarithms are summed one by one.
     #[inline(always)]
@@ -111,59 +120,66 @@ impl<const M: usize, const N: usize> SmallSystem<M, N> {
             sum += v;
         }
         *total = sum + at.inert;
-        let ln_total = if self.mole_change { total.ln() } else { 0.0 };
-        // n_i^e for e = 0..=4 (the rest of the row unused).
-        let mut power = [[1.0f64; 8]; N];
-        if self.powers.is_some() {
-            for i in 0..N {
-                let x = n[i];
-                let x2 = x * x;
-                power[i][1] = x;
-                power[i][2] = x2;
-                power[i][3] = x2 * x;
-                power[i][4] = x2 * x2;
-            }
-        }
         let mut merit = 0.0;
+        let Some(powers) = &self.powers else {
+            for k in 0..M {
+                let r = self.log_sum(k, n, *total) + self.dnu[k] * at.ln_p - at.ln_k[k];
+                g[k] = r;
+                merit += r * r;
+            }
+            return merit;
+        };
+        // x^e for e = 0..=4 of every amount and of the total (the rest of a row unused).
+        let table = |x: f64| {
+            let x2 = x * x;
+            [1.0, x, x2, x2 * x, x2 * x2, 1.0, 1.0, 1.0]
+        };
+        let mut power = [[1.0f64; 8]; N];
+        for i in 0..N {
+            power[i] = table(n[i]);
+        }
+        let total_power = table(*total);
+        // Every quotient first, then the logarithms one after the other.
+        let mut quotient = [0.0f64; M];
+        let mut in_range = [false; M];
         for k in 0..M {
-            let s = match &self.powers {
-                Some(powers) => {
-                    let (mut num, mut den) = (1.0f64, 1.0f64);
-                    for i in 0..N {
-                        num *= power[i][usize::from(powers.numerator[k][i]) & 7];
-                        den *= power[i][usize::from(powers.denominator[k][i]) & 7];
-                    }
-                    let q = num / den;
-                    if (1e-280..1e280).contains(&num)
-                        && (1e-280..1e280).contains(&den)
-                        && q.is_normal()
-                    {
-                        q.ln()
-                    } else {
-                        self.log_sum(k, n)
-                    }
-                }
-                None => self.log_sum(k, n),
+            let mut num = total_power[usize::from(powers.total_numerator[k]) & 7];
+            let mut den = total_power[usize::from(powers.total_denominator[k]) & 7];
+            for i in 0..N {
+                num *= power[i][usize::from(powers.numerator[k][i]) & 7];
+                den *= power[i][usize::from(powers.denominator[k][i]) & 7];
+            }
+            quotient[k] = num / den;
+            in_range[k] = (1e-280..1e280).contains(&num)
+                && (1e-280..1e280).contains(&den)
+                && quotient[k].is_normal();
+        }
+        for k in 0..M {
+            let s = if in_range[k] {
+                quotient[k].ln()
+            } else {
+                self.log_sum(k, n, *total)
             };
-            let r = s + self.dnu[k] * (at.ln_p - ln_total) - at.ln_k[k];
+            let r = s + self.dnu[k] * at.ln_p - at.ln_k[k];
             g[k] = r;
             merit += r * r;
         }
         merit
     }
 
-    /// sum_i nu_ki ln n_i, one logarithm a species. Kept out of line: inlined, its logarithms
-    /// were computed ahead on every call whether the quotient needed them or not.
+    /// sum_i nu_ki ln n_i - dnu_k ln n_T, one logarithm a species. Kept out of line: inlined,
+    /// its logarithms were computed ahead on every call whether the quotient needed them or
+    /// not.
     #[cold]
     #[inline(never)]
-    fn log_sum(&self, k: usize, n: &[f64; N]) -> f64 {
+    fn log_sum(&self, k: usize, n: &[f64; N], total: f64) -> f64 {
         let mut s = 0.0;
         for i in 0..N {
             if self.nu[k][i] != 0.0 {
                 s += self.nu[k][i] * n[i].ln();
             }
         }
-        s
+        s - self.dnu[k] * total.ln()
     }
 
     /// Newton direction H d = -g by the closed form of the general loop's 1 x 1 or 2 x 2

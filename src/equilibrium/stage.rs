@@ -596,7 +596,10 @@ impl EquilibriumStage {
             out.outlet_flows[i] = solution.amounts[k];
         }
         let h_in = ctx.inlet_enthalpy;
-        let h_out = self.enthalpy_of(&ctx, &solution.amounts, temperature_k)
+        // H/RT of the stage's species at the outlet: those of the last equilibrium evaluated
+        // when it was there (it always is once solved), else evaluated again.
+        let h_rt = (run.solution_temperature_k == temperature_k).then_some(&run.h_rt);
+        let h_out = self.enthalpy_of(&ctx, &solution.amounts, temperature_k, h_rt)
             + if ctx.real_gas.is_empty() {
                 0.0
             } else {
@@ -647,14 +650,24 @@ impl EquilibriumStage {
         Ok(())
     }
 
-    /// Enthalpy (W) of the stage's species at `amounts` plus the inerts, at `t` (in range).
-    fn enthalpy_of(&self, ctx: &Context<'_>, amounts: &[f64], t: f64) -> f64 {
+    /// Enthalpy (W) of the stage's species at `amounts` plus the inerts, at `t` (in range);
+    /// `h_rt`: H/RT of the stage's species at `t` when already known.
+    fn enthalpy_of(
+        &self,
+        ctx: &Context<'_>,
+        amounts: &[f64],
+        t: f64,
+        h_rt: Option<&[f64; MAX_STAGE_SPECIES]>,
+    ) -> f64 {
         let rt = R_GAS * t;
-        let local: f64 = amounts
-            .iter()
-            .zip(&self.nasa)
-            .map(|(n, nasa)| n * nasa.h_rt(t))
-            .sum();
+        let local: f64 = match h_rt {
+            Some(h_rt) => amounts.iter().zip(h_rt).map(|(n, h)| n * h).sum(),
+            None => amounts
+                .iter()
+                .zip(&self.nasa)
+                .map(|(n, nasa)| n * nasa.h_rt(t))
+                .sum(),
+        };
         let inert: f64 = ctx.inerts.iter().map(|(n, nasa)| n * nasa.h_rt(t)).sum();
         rt * (local + inert)
     }
