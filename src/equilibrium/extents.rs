@@ -45,6 +45,8 @@ pub struct ExtentSystem {
     dnu: Vec<f64>,
     /// For each reaction, the species with a non-zero coefficient.
     members: Vec<Vec<usize>>,
+    /// For each species: does a reaction change it?
+    used: Vec<bool>,
     /// Identity of this system's coefficients (shared by its clones), so that a workspace can
     /// keep the rows it loaded from it.
     id: u64,
@@ -167,6 +169,9 @@ impl ExtentSystem {
             nu,
             dnu,
             members,
+            used: (0..n_species)
+                .map(|i| rows.iter().any(|r| r[i] != 0.0))
+                .collect(),
             id: NEXT_SYSTEM_ID.fetch_add(1, std::sync::atomic::Ordering::Relaxed),
         })
     }
@@ -234,12 +239,19 @@ impl ExtentSystem {
                 reason: format!("expected {ns} amounts and {nr} ln K values"),
             });
         }
-        let scale = inlet.iter().sum::<f64>() + inert;
+        // One pass: a negative amount shows in the smallest, one that is not finite in the
+        // total (NaN and infinities propagate), and likewise for ln K.
+        let (mut total, mut smallest) = (0.0f64, 0.0f64);
+        for &v in inlet {
+            total += v;
+            smallest = if v < smallest { v } else { smallest };
+        }
+        let scale = total + inert;
+        let ln_k_sum: f64 = ln_k.iter().sum();
         if !(scale > 0.0 && scale.is_finite())
-            || inlet.iter().any(|n| !(*n >= 0.0 && n.is_finite()))
+            || !(smallest >= 0.0)
             || !(inert >= 0.0)
-            || ln_k.iter().any(|k| !k.is_finite())
-            || !ln_p.is_finite()
+            || !(ln_k_sum + ln_p).is_finite()
         {
             return Err(Error::InvalidValue {
                 field: "equilibrium inlet".into(),
@@ -274,10 +286,13 @@ impl ExtentSystem {
             for j in 0..nr {
                 xi[j] = guess[j] / scale;
             }
-            for i in 0..ns {
-                n[i] = n0[i] + (0..nr).map(|j| self.nu(j, i) * xi[j]).sum::<f64>();
+            n.copy_from_slice(n0);
+            for (row, x) in self.nu.chunks_exact(ns).zip(xi.iter()) {
+                for (v, nu) in n.iter_mut().zip(row) {
+                    *v += nu * x;
+                }
             }
-            warm = (0..nr).all(|j| self.members[j].iter().all(|&i| n[i] > 0.0));
+            warm = n.iter().zip(&self.used).all(|(v, used)| *v > 0.0 || !used);
         }
         if !warm {
             n.copy_from_slice(n0);

@@ -1081,32 +1081,38 @@ impl<'a> Context<'a> {
         let rt_in = R_GAS * t_in;
         let mut h = 0.0;
         let mut out_of_range = None;
+        // The stage's own species bound the range whether present or not; the others only
+        // when present.
+        for nasa in &stage.nasa {
+            t_min = t_min.max(nasa.t_min_k);
+            t_max = t_max.min(nasa.t_max_k);
+        }
         for (i, (n, &member)) in inlet.flows.iter().zip(&stage.member).enumerate() {
-            if *n == 0.0 && !member {
+            if !(*n > 0.0) {
                 continue;
             }
             let sp = db.by_index(i);
-            t_min = t_min.max(sp.nasa7.t_min_k);
-            t_max = t_max.min(sp.nasa7.t_max_k);
-            if *n > 0.0 {
-                if !sp.nasa7.in_range(t_in) && out_of_range.is_none() {
-                    out_of_range = Some(i);
+            if !member {
+                t_min = t_min.max(sp.nasa7.t_min_k);
+                t_max = t_max.min(sp.nasa7.t_max_k);
+            }
+            if !sp.nasa7.in_range(t_in) && out_of_range.is_none() {
+                out_of_range = Some(i);
+            }
+            h += n * (rt_in * sp.nasa7.h_rt(t_in));
+            if !member {
+                if sp.phase != Phase::Gas {
+                    return Err(Error::InvalidValue {
+                        field: format!("inlet flow of {}", sp.name),
+                        value: format!("{n} mol/s"),
+                        reason: "a solid cannot pass through a gas equilibrium stage".into(),
+                    });
                 }
-                h += n * (rt_in * sp.nasa7.h_rt(t_in));
-                if !member {
-                    if sp.phase != Phase::Gas {
-                        return Err(Error::InvalidValue {
-                            field: format!("inlet flow of {}", sp.name),
-                            value: format!("{n} mol/s"),
-                            reason: "a solid cannot pass through a gas equilibrium stage".into(),
-                        });
-                    }
-                    feed.inerts.push((*n, sp.nasa7.clone()));
-                    if real_gas {
-                        feed.real_gas_inerts.push(fugacity::component(sp)?);
-                    }
-                    inert += n;
+                feed.inerts.push((*n, sp.nasa7.clone()));
+                if real_gas {
+                    feed.real_gas_inerts.push(fugacity::component(sp)?);
                 }
+                inert += n;
             }
         }
         if let Some(i) = out_of_range {
