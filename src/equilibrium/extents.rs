@@ -248,11 +248,12 @@ impl ExtentSystem {
         }
         let scale = total + inert;
         let ln_k_sum: f64 = ln_k.iter().sum();
-        if !(scale > 0.0 && scale.is_finite())
-            || !(smallest >= 0.0)
-            || !(inert >= 0.0)
-            || !(ln_k_sum + ln_p).is_finite()
-        {
+        let valid = scale > 0.0
+            && scale.is_finite()
+            && smallest >= 0.0
+            && inert >= 0.0
+            && (ln_k_sum + ln_p).is_finite();
+        if !valid {
             return Err(Error::InvalidValue {
                 field: "equilibrium inlet".into(),
                 value: format!("{inlet:?} (+{inert} inert), ln K {ln_k:?}, ln(P/P0) {ln_p}"),
