@@ -113,11 +113,22 @@ pub(crate) fn check_inlets(
                 ),
             ));
         }
-        if let Some((i, v)) = s
-            .flows
-            .iter()
-            .enumerate()
-            .find(|(_, v)| !(v.is_finite() && **v >= 0.0))
+        // One branch-free pass: a negative flow shows in the smallest, one that is not finite
+        // in the sum (NaN and infinities propagate); the culprit is looked for only then.
+        let (mut total, mut smallest) = (0.0f64, 0.0f64);
+        for &v in &s.flows {
+            total += v;
+            smallest = if v < smallest { v } else { smallest };
+        }
+        let suspect = !(smallest >= 0.0 && total.is_finite());
+        if let Some((i, v)) = suspect
+            .then(|| {
+                s.flows
+                    .iter()
+                    .enumerate()
+                    .find(|(_, v)| !(v.is_finite() && **v >= 0.0))
+            })
+            .flatten()
         {
             return Err(spec_error(
                 unit,
