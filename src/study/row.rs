@@ -119,6 +119,7 @@ impl RowWriter {
 /// up (so every number keeps the text it always had); they are turned into text eight and four
 /// at a time within one integer (SWAR: one lane per digit), and every piece of the text is
 /// copied with a fixed length, so no copy of variable length (a `memcpy` call) is made.
+#[inline]
 pub fn format_number(v: f64, out: &mut [u8; 32]) -> usize {
     if !v.is_finite() {
         return 0;
@@ -197,7 +198,7 @@ pub fn format_number(v: f64, out: &mut [u8; 32]) -> usize {
 
 /// The decimal exponent of `a` (positive, finite) and its twelve significant digits rounded
 /// half up, `10^11 <= digits < 10^12`.
-#[inline]
+#[inline(always)]
 fn twelve_digits(a: f64) -> (i32, u64) {
     // Decimal exponent: floor(e2 log10 2) from the binary exponent (78913 / 2^18 is log10 2 to
     // 6 digits), then one comparison, instead of a logarithm.

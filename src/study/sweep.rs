@@ -20,7 +20,7 @@
 //! [`Observer`] (the command line shows a progress bar and catches Ctrl-C there); on a stop it
 //! finishes the rows already made, so the output holds whole rows only.
 
-use std::io::Write;
+use std::io::{IoSlice, Write};
 use std::sync::atomic::{AtomicBool, Ordering};
 use std::sync::mpsc::sync_channel;
 
@@ -281,11 +281,16 @@ impl<'a> Sweep<'a> {
                 let (mut rows, mut failed, mut warned) = (0u64, 0u64, 0u64);
                 let mut kept = Kept::default();
                 for chunk in rx {
+                    // One vectored write for the chunk: a buffered writer hands a chunk larger
+                    // than its buffer straight to the file instead of copying it in.
+                    let mut slices: Vec<IoSlice<'_>> =
+                        chunk.iter().map(|b| IoSlice::new(&b.bytes)).collect();
+                    if let Err(e) = write_all_vectored(&mut inner, &mut slices) {
+                        stop.store(true, Ordering::Relaxed);
+                        return Err(io_error(e));
+                    }
+                    drop(slices);
                     for block in chunk {
-                        if let Err(e) = inner.write_all(&block.bytes) {
-                            stop.store(true, Ordering::Relaxed);
-                            return Err(io_error(e));
-                        }
                         rows += block.rows;
                         failed += block.failed;
                         warned += block.warned;
@@ -496,6 +501,23 @@ pub fn one_line(e: &Error) -> String {
         source = s.source();
     }
     text.replace(['\n', '\r'], " ")
+}
+
+/// Write every byte of `slices` (`Write::write_all` for vectored writes).
+fn write_all_vectored<W: Write>(
+    out: &mut W,
+    mut slices: &mut [IoSlice<'_>],
+) -> std::io::Result<()> {
+    IoSlice::advance_slices(&mut slices, 0);
+    while !slices.is_empty() {
+        match out.write_vectored(slices) {
+            Ok(0) => return Err(std::io::ErrorKind::WriteZero.into()),
+            Ok(n) => IoSlice::advance_slices(&mut slices, n),
+            Err(e) if e.kind() == std::io::ErrorKind::Interrupted => {}
+            Err(e) => return Err(e),
+        }
+    }
+    Ok(())
 }
 
 fn io_error(e: std::io::Error) -> Error {
