@@ -141,7 +141,8 @@ impl ResultPath {
                 index,
                 key,
             } => unit(u).and_then(|r| {
-                let at = |f: &&crate::units::Figure| f.key == key;
+                // The key is most often the very same static text: compared by address first.
+                let at = |f: &&crate::units::Figure| std::ptr::eq(f.key, key) || f.key == key;
                 r.figures
                     .get(index)
                     .filter(at)
