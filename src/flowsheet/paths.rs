@@ -189,6 +189,7 @@ impl Reader {
 
     /// The value of `path` in `r` (the result given to [`Reader::start`]); the same as
     /// [`ResultPath::get`].
+    #[inline(always)]
     pub fn get(&mut self, db: &SpeciesDb, r: &FlowsheetResult, path: &ResultPath) -> Option<f64> {
         let ResultSlot::DryPercent { stream, species } = path.slot else {
             return path.get(db, r);

@@ -18,11 +18,14 @@
 /// Significant digits of a number in a row.
 pub const DIGITS: i32 = 12;
 
-/// Builds the rows of a block in one buffer.
+/// Builds the rows of a block in one buffer, kept from block to block: its room is zeroed once
+/// when it grows, so writing a field is a copy of fixed length and a new end, never a clearing.
 #[derive(Debug, Default)]
 pub struct RowWriter {
-    /// The rows so far.
-    pub bytes: Vec<u8>,
+    /// Room for the rows; the rows so far are the first `len` bytes.
+    buf: Vec<u8>,
+    /// Bytes written.
+    len: usize,
     /// True before the first field of a row.
     at_start: bool,
 }
@@ -50,14 +53,46 @@ impl RowWriter {
     /// An empty writer.
     pub fn new() -> RowWriter {
         RowWriter {
-            bytes: Vec::new(),
+            buf: Vec::new(),
+            len: 0,
             at_start: true,
         }
     }
 
+    /// The rows so far.
+    pub fn bytes(&self) -> &[u8] {
+        &self.buf[..self.len]
+    }
+
+    /// The rows so far, as a vector of their own; the writer starts again empty, keeping its
+    /// room.
+    pub fn take(&mut self) -> Vec<u8> {
+        let rows = self.buf[..self.len].to_vec();
+        self.len = 0;
+        self.at_start = true;
+        rows
+    }
+
+    /// The room for `n` more bytes, from the end of what is written.
+    #[inline]
+    fn room(&mut self, n: usize) -> &mut [u8] {
+        let need = self.len + n;
+        if self.buf.len() < need {
+            self.grow(need);
+        }
+        &mut self.buf[self.len..need]
+    }
+
+    #[cold]
+    fn grow(&mut self, need: usize) {
+        let size = need.max(2 * self.buf.len()).max(4096);
+        self.buf.resize(size, 0);
+    }
+
     fn separator(&mut self) {
         if !self.at_start {
-            self.bytes.push(b',');
+            self.room(1)[0] = b',';
+            self.len += 1;
         }
         self.at_start = false;
     }
@@ -78,14 +113,50 @@ impl RowWriter {
         self.field(&cache.text, cache.len as usize);
     }
 
-    /// The first `len` bytes of `text` as a field: all 32 copied (a copy of fixed length) and
-    /// the rest cut off again.
+    /// One number field per cache, the values taken in turn from `values` (one per cache),
+    /// each text reused from its cache while the value stays the same: the same bytes as
+    /// [`RowWriter::cached_number`] for each, with the room for all of them made once.
+    #[inline]
+    pub fn cached_numbers(
+        &mut self,
+        values: impl Iterator<Item = f64>,
+        caches: &mut [CachedNumber],
+    ) {
+        if caches.is_empty() {
+            return;
+        }
+        let mut comma = usize::from(!self.at_start);
+        // At most a comma and 32 bytes of text each.
+        let room = self.room(caches.len() * 33);
+        let mut at = 0;
+        for (v, cache) in values.zip(caches.iter_mut()) {
+            if v.to_bits() != cache.bits {
+                cache.bits = v.to_bits();
+                cache.len = format_number(v, &mut cache.text) as u8;
+            }
+            room[at] = b',';
+            at += comma;
+            comma = 1;
+            room[at..at + 32].copy_from_slice(&cache.text);
+            at += cache.len as usize;
+        }
+        self.len += at;
+        self.at_start = false;
+    }
+
+    /// The first `len` bytes of `text` as a field: all 32 copied (a copy of fixed length), the
+    /// end set after the first `len`.
     #[inline]
     fn field(&mut self, text: &[u8; 32], len: usize) {
         self.separator();
-        let end = self.bytes.len() + len;
-        self.bytes.extend_from_slice(text);
-        self.bytes.truncate(end);
+        self.room(32).copy_from_slice(text);
+        self.len += len;
+    }
+
+    /// Bytes as they are.
+    fn put(&mut self, bytes: &[u8]) {
+        self.room(bytes.len()).copy_from_slice(bytes);
+        self.len += bytes.len();
     }
 
     /// A text field, quoted as RFC 4180 requires.
@@ -100,15 +171,15 @@ impl RowWriter {
             let _ = w.write_record([s]);
             let mut quoted = w.into_inner().unwrap_or_default();
             quoted.pop();
-            self.bytes.extend_from_slice(&quoted);
+            self.put(&quoted);
         } else {
-            self.bytes.extend_from_slice(s.as_bytes());
+            self.put(s.as_bytes());
         }
     }
 
     /// End the row.
     pub fn end(&mut self) {
-        self.bytes.push(b'\n');
+        self.put(b"\n");
         self.at_start = true;
     }
 }
@@ -636,9 +707,44 @@ mod tests {
         w.number(2.0);
         w.end();
         assert_eq!(
-            String::from_utf8(w.bytes).unwrap(),
+            String::from_utf8(w.bytes().to_vec()).unwrap(),
             "ok,1.5,\"a, \"\"b\"\"\"\n2\n"
         );
+    }
+
+    #[test]
+    fn many_cached_numbers_as_one_at_a_time() {
+        let rows: [&[f64]; 4] = [
+            &[1.25, 0.0, -3.5e-9, f64::NAN],
+            &[1.25, 2.0, -3.5e-9, 1e300],
+            &[f64::NAN, 2.0, 123456789.0, 1e300],
+            &[f64::NAN, f64::NAN, f64::NAN, f64::NAN],
+        ];
+        for leading_field in [false, true] {
+            let (mut one, mut many) = (RowWriter::new(), RowWriter::new());
+            let mut one_cache = vec![CachedNumber::default(); 4];
+            let mut many_cache = vec![CachedNumber::default(); 4];
+            for values in rows {
+                if leading_field {
+                    one.text("ok");
+                    many.text("ok");
+                }
+                for (v, c) in values.iter().zip(one_cache.iter_mut()) {
+                    one.cached_number(*v, c);
+                }
+                many.cached_numbers(values.iter().copied(), &mut many_cache);
+                one.end();
+                many.end();
+            }
+            assert_eq!(
+                String::from_utf8(many.bytes().to_vec()).unwrap(),
+                String::from_utf8(one.bytes().to_vec()).unwrap()
+            );
+        }
+        let mut w = RowWriter::new();
+        w.cached_numbers([0.5, 2.0].into_iter(), &mut [CachedNumber::default(); 2]);
+        w.end();
+        assert_eq!(String::from_utf8(w.bytes().to_vec()).unwrap(), "0.5,2\n");
     }
 
     #[test]
@@ -650,7 +756,7 @@ mod tests {
             w.end();
         }
         assert_eq!(
-            String::from_utf8(w.bytes).unwrap(),
+            String::from_utf8(w.bytes().to_vec()).unwrap(),
             "1.25\n1.25\n2.5\n\n2.5\n"
         );
     }

@@ -23,6 +23,7 @@
 use std::io::{IoSlice, Write};
 use std::sync::atomic::{AtomicBool, Ordering};
 use std::sync::mpsc::sync_channel;
+use std::sync::Mutex;
 
 use rayon::prelude::*;
 
@@ -155,6 +156,8 @@ struct ThreadState {
     /// The text of each result column's last value.
     cache: Vec<CachedNumber>,
     reader: Reader,
+    /// The rows of the block being solved.
+    row: RowWriter,
 }
 
 impl<'a> Sweep<'a> {
@@ -273,6 +276,11 @@ impl<'a> Sweep<'a> {
         let (first_block, end_block) = (start / BLOCK, end.div_ceil(BLOCK));
         let stop_writing = AtomicBool::new(false);
         let defaults = self.base.clone();
+        // One state per worker thread for the whole run (its workspace, caches and row room
+        // made once), rather than one per piece of work the thread pool splits off.
+        let states: Vec<Mutex<Option<ThreadState>>> = (0..rayon::current_num_threads().max(1))
+            .map(|_| Mutex::new(None))
+            .collect();
         std::thread::scope(|scope| -> Result<()> {
             let (tx, rx) = sync_channel::<Vec<BlockOut>>(1);
             let stop = &stop_writing;
@@ -313,10 +321,12 @@ impl<'a> Sweep<'a> {
                 let upto = (block + CHUNK_BLOCKS).min(end_block);
                 let chunk: Vec<BlockOut> = (block..upto)
                     .into_par_iter()
-                    .map_init(
-                        || self.thread_state(&defaults),
-                        |state, b| self.run_block(state, &defaults, b, start, end),
-                    )
+                    .map(|b| {
+                        let slot = rayon::current_thread_index().unwrap_or(0) % states.len();
+                        let mut state = states[slot].lock().unwrap_or_else(|e| e.into_inner());
+                        let state = state.get_or_insert_with(|| self.thread_state(&defaults));
+                        self.run_block(state, &defaults, b, start, end)
+                    })
                     .collect();
                 if tx.send(chunk).is_err() {
                     break;
@@ -351,6 +361,7 @@ impl<'a> Sweep<'a> {
             outcomes: Vec::new(),
             cache: vec![CachedNumber::default(); self.columns.len()],
             reader: Reader::default(),
+            row: RowWriter::new(),
         }
     }
 
@@ -373,9 +384,6 @@ impl<'a> Sweep<'a> {
             warned: 0,
             kept: Kept::default(),
         };
-        let mut row = RowWriter::new();
-        row.bytes
-            .reserve((hi - lo) as usize * (self.columns.len() + 8) * 14);
         st.ws.forget();
         for i in first..hi {
             self.cases.case(i, &mut st.shown, &mut st.si);
@@ -393,15 +401,14 @@ impl<'a> Sweep<'a> {
                 joined,
                 cache,
                 reader,
+                row,
                 ..
             } = st;
             let solved = solved.as_ref().map(|()| ws.result());
-            self.write_row(
-                &mut row, shown, solved, codes, joined, cache, reader, &mut out,
-            );
+            self.write_row(row, shown, solved, codes, joined, cache, reader, &mut out);
             out.rows += 1;
         }
-        out.bytes = row.bytes;
+        out.bytes = st.row.take();
         out
     }
 
@@ -465,10 +472,11 @@ impl<'a> Sweep<'a> {
                 }
                 row.text(joined);
                 reader.start(result);
-                for (c, cached) in self.columns.iter().zip(cache.iter_mut()) {
-                    let v = reader.get(self.db, result, c).unwrap_or(f64::NAN);
-                    row.cached_number(v, cached);
-                }
+                let values = self
+                    .columns
+                    .iter()
+                    .map(|c| reader.get(self.db, result, c).unwrap_or(f64::NAN));
+                row.cached_numbers(values, cache);
                 for k in &self.keep {
                     out.kept
                         .results
