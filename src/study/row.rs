@@ -18,8 +18,9 @@
 /// Significant digits of a number in a row.
 pub const DIGITS: i32 = 12;
 
-/// Builds the rows of a block in one buffer, kept from block to block: its room is zeroed once
-/// when it grows, so writing a field is a copy of fixed length and a new end, never a clearing.
+/// Builds the rows of a block in one buffer whose room is zeroed only when it grows (buffers
+/// are handed over and back, [`RowWriter::hand_over`]), so writing a field is a copy of fixed
+/// length and a new end, never a clearing.
 #[derive(Debug, Default)]
 pub struct RowWriter {
     /// Room for the rows; the rows so far are the first `len` bytes.
@@ -64,13 +65,14 @@ impl RowWriter {
         &self.buf[..self.len]
     }
 
-    /// The rows so far, as a vector of their own; the writer starts again empty, keeping its
-    /// room.
-    pub fn take(&mut self) -> Vec<u8> {
-        let rows = self.buf[..self.len].to_vec();
-        self.len = 0;
+    /// Hand over the rows so far: the buffer holding them and their length (the bytes after
+    /// it are room, of no meaning). The writer starts again empty in `room`, a buffer handed
+    /// over before (its bytes are overwritten) or a new one.
+    pub fn hand_over(&mut self, room: Vec<u8>) -> (Vec<u8>, usize) {
+        let rows = std::mem::replace(&mut self.buf, room);
+        let len = std::mem::replace(&mut self.len, 0);
         self.at_start = true;
-        rows
+        (rows, len)
     }
 
     /// The room for `n` more bytes, from the end of what is written.

@@ -41,6 +41,9 @@ pub const BLOCK: u64 = 32;
 /// Blocks handed to the threads at a time (and written together).
 const CHUNK_BLOCKS: u64 = 32;
 
+/// Row buffers kept for reuse at most (a chunk's worth and one more).
+const SPARE_ROOMS: usize = 2 * CHUNK_BLOCKS as usize;
+
 /// The K-th of N equal slices of a case list (K from 1).
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct Shard {
@@ -135,7 +138,9 @@ pub struct Sweep<'a> {
 
 /// One block's rows and counts.
 struct BlockOut {
+    /// The rows are the first `len` bytes; the buffer goes back to the threads for reuse.
     bytes: Vec<u8>,
+    len: usize,
     rows: u64,
     failed: u64,
     warned: u64,
@@ -281,6 +286,9 @@ impl<'a> Sweep<'a> {
         let states: Vec<Mutex<Option<ThreadState>>> = (0..rayon::current_num_threads().max(1))
             .map(|_| Mutex::new(None))
             .collect();
+        // Row buffers written out, handed back to the threads (no new room to zero).
+        let spare_rooms: Mutex<Vec<Vec<u8>>> = Mutex::new(Vec::new());
+        let spare_rooms = &spare_rooms;
         std::thread::scope(|scope| -> Result<()> {
             let (tx, rx) = sync_channel::<Vec<BlockOut>>(1);
             let stop = &stop_writing;
@@ -291,14 +299,20 @@ impl<'a> Sweep<'a> {
                 for chunk in rx {
                     // One vectored write for the chunk: a buffered writer hands a chunk larger
                     // than its buffer straight to the file instead of copying it in.
-                    let mut slices: Vec<IoSlice<'_>> =
-                        chunk.iter().map(|b| IoSlice::new(&b.bytes)).collect();
+                    let mut slices: Vec<IoSlice<'_>> = chunk
+                        .iter()
+                        .map(|b| IoSlice::new(&b.bytes[..b.len]))
+                        .collect();
                     if let Err(e) = write_all_vectored(&mut inner, &mut slices) {
                         stop.store(true, Ordering::Relaxed);
                         return Err(io_error(e));
                     }
                     drop(slices);
+                    let mut spare = spare_rooms.lock().unwrap_or_else(|e| e.into_inner());
                     for block in chunk {
+                        if spare.len() < SPARE_ROOMS {
+                            spare.push(block.bytes);
+                        }
                         rows += block.rows;
                         failed += block.failed;
                         warned += block.warned;
@@ -325,7 +339,12 @@ impl<'a> Sweep<'a> {
                         let slot = rayon::current_thread_index().unwrap_or(0) % states.len();
                         let mut state = states[slot].lock().unwrap_or_else(|e| e.into_inner());
                         let state = state.get_or_insert_with(|| self.thread_state(&defaults));
-                        self.run_block(state, &defaults, b, start, end)
+                        let room = spare_rooms
+                            .lock()
+                            .unwrap_or_else(|e| e.into_inner())
+                            .pop()
+                            .unwrap_or_default();
+                        self.run_block(state, &defaults, b, start, end, room)
                     })
                     .collect();
                 if tx.send(chunk).is_err() {
@@ -374,11 +393,13 @@ impl<'a> Sweep<'a> {
         b: u64,
         start: u64,
         end: u64,
+        room: Vec<u8>,
     ) -> BlockOut {
         let first = b * BLOCK;
         let (lo, hi) = (first.max(start), ((b + 1) * BLOCK).min(end));
         let mut out = BlockOut {
             bytes: Vec::new(),
+            len: 0,
             rows: 0,
             failed: 0,
             warned: 0,
@@ -408,7 +429,7 @@ impl<'a> Sweep<'a> {
             self.write_row(row, shown, solved, codes, joined, cache, reader, &mut out);
             out.rows += 1;
         }
-        out.bytes = st.row.take();
+        (out.bytes, out.len) = st.row.hand_over(room);
         out
     }
 
