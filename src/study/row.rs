@@ -18,15 +18,13 @@
 /// Significant digits of a number in a row.
 pub const DIGITS: i32 = 12;
 
-/// Builds the rows of a block in one buffer whose room is zeroed only when it grows (buffers
-/// are handed over and back, [`RowWriter::hand_over`]), so writing a field is a copy of fixed
-/// length and a new end, never a clearing.
+/// Builds the rows of a block in one buffer; a buffer handed over with its rows
+/// ([`RowWriter::finish`]) can come back to be filled again ([`RowWriter::begin`]), so a
+/// block's rows need no new memory.
 #[derive(Debug, Default)]
 pub struct RowWriter {
-    /// Room for the rows; the rows so far are the first `len` bytes.
-    buf: Vec<u8>,
-    /// Bytes written.
-    len: usize,
+    /// The rows so far.
+    bytes: Vec<u8>,
     /// True before the first field of a row.
     at_start: bool,
 }
@@ -36,16 +34,32 @@ pub struct RowWriter {
 pub struct CachedNumber {
     bits: u64,
     len: u8,
-    text: [u8; 32],
+    /// A comma, then the text: a field with or without its separator is one copy of fixed
+    /// length from the first or the second byte.
+    text: [u8; 33],
 }
 
 impl Default for CachedNumber {
     fn default() -> CachedNumber {
         // NaN with a payload no computation makes: never equal to a value met.
+        let mut text = [0; 33];
+        text[0] = b',';
         CachedNumber {
             bits: 0x7ff8_dead_beef_0001,
             len: 0,
-            text: [0; 32],
+            text,
+        }
+    }
+}
+
+impl CachedNumber {
+    /// Make the text of `v` unless it is the one held.
+    #[inline]
+    fn update(&mut self, v: f64) {
+        if v.to_bits() != self.bits {
+            self.bits = v.to_bits();
+            let [_, text @ ..] = &mut self.text;
+            self.len = format_number(v, text) as u8;
         }
     }
 }
@@ -54,65 +68,48 @@ impl RowWriter {
     /// An empty writer.
     pub fn new() -> RowWriter {
         RowWriter {
-            buf: Vec::new(),
-            len: 0,
+            bytes: Vec::new(),
             at_start: true,
         }
     }
 
     /// The rows so far.
     pub fn bytes(&self) -> &[u8] {
-        &self.buf[..self.len]
+        &self.bytes
     }
 
-    /// Hand over the rows so far: the buffer holding them and their length (the bytes after
-    /// it are room, of no meaning). The writer starts again empty in `room`, a buffer handed
-    /// over before (its bytes are overwritten) or a new one.
-    pub fn hand_over(&mut self, room: Vec<u8>) -> (Vec<u8>, usize) {
-        let rows = std::mem::replace(&mut self.buf, room);
-        let len = std::mem::replace(&mut self.len, 0);
+    /// Start again empty in `room` (a buffer of rows handed over before, cleared, or a new
+    /// one), with room for `extra` bytes at least.
+    pub fn begin(&mut self, mut room: Vec<u8>, extra: usize) {
+        room.clear();
+        room.reserve(extra);
+        self.bytes = room;
         self.at_start = true;
-        (rows, len)
     }
 
-    /// The room for `n` more bytes, from the end of what is written.
-    #[inline]
-    fn room(&mut self, n: usize) -> &mut [u8] {
-        let need = self.len + n;
-        if self.buf.len() < need {
-            self.grow(need);
-        }
-        &mut self.buf[self.len..need]
-    }
-
-    #[cold]
-    fn grow(&mut self, need: usize) {
-        let size = need.max(2 * self.buf.len()).max(4096);
-        self.buf.resize(size, 0);
+    /// Hand over the rows so far; the writer is left empty.
+    pub fn finish(&mut self) -> Vec<u8> {
+        self.at_start = true;
+        std::mem::take(&mut self.bytes)
     }
 
     fn separator(&mut self) {
         if !self.at_start {
-            self.room(1)[0] = b',';
-            self.len += 1;
+            self.bytes.push(b',');
         }
         self.at_start = false;
     }
 
     /// A number field.
     pub fn number(&mut self, v: f64) {
-        let mut text = [0u8; 32];
-        let n = format_number(v, &mut text);
-        self.field(&text, n);
+        let mut cache = CachedNumber::default();
+        self.cached_number(v, &mut cache);
     }
 
     /// A number field, its text taken from `cache` when the value is the one before.
     pub fn cached_number(&mut self, v: f64, cache: &mut CachedNumber) {
-        if v.to_bits() != cache.bits {
-            cache.bits = v.to_bits();
-            cache.len = format_number(v, &mut cache.text) as u8;
-        }
-        self.field(&cache.text, cache.len as usize);
+        cache.update(v);
+        self.field(cache);
     }
 
     /// One number field per cache, the values taken in turn from `values` (one per cache),
@@ -124,41 +121,25 @@ impl RowWriter {
         values: impl Iterator<Item = f64>,
         caches: &mut [CachedNumber],
     ) {
-        if caches.is_empty() {
-            return;
-        }
-        let mut comma = usize::from(!self.at_start);
         // At most a comma and 32 bytes of text each.
-        let room = self.room(caches.len() * 33);
-        let mut at = 0;
+        self.bytes.reserve(caches.len() * 33);
         for (v, cache) in values.zip(caches.iter_mut()) {
-            if v.to_bits() != cache.bits {
-                cache.bits = v.to_bits();
-                cache.len = format_number(v, &mut cache.text) as u8;
-            }
-            room[at] = b',';
-            at += comma;
-            comma = 1;
-            room[at..at + 32].copy_from_slice(&cache.text);
-            at += cache.len as usize;
+            cache.update(v);
+            self.field(cache);
         }
-        self.len += at;
-        self.at_start = false;
     }
 
-    /// The first `len` bytes of `text` as a field: all 32 copied (a copy of fixed length), the
-    /// end set after the first `len`.
+    /// The cached text as a field: 32 bytes copied (a copy of fixed length) from the comma or
+    /// from the text, the end then set after the text.
     #[inline]
-    fn field(&mut self, text: &[u8; 32], len: usize) {
-        self.separator();
-        self.room(32).copy_from_slice(text);
-        self.len += len;
-    }
-
-    /// Bytes as they are.
-    fn put(&mut self, bytes: &[u8]) {
-        self.room(bytes.len()).copy_from_slice(bytes);
-        self.len += bytes.len();
+    fn field(&mut self, cache: &CachedNumber) {
+        let comma = usize::from(!self.at_start);
+        self.at_start = false;
+        let end = self.bytes.len() + comma + cache.len as usize;
+        let from = 1 - comma;
+        let chunk: &[u8; 32] = cache.text[from..from + 32].try_into().unwrap_or(&[0; 32]);
+        self.bytes.extend_from_slice(chunk);
+        self.bytes.truncate(end);
     }
 
     /// A text field, quoted as RFC 4180 requires.
@@ -173,15 +154,15 @@ impl RowWriter {
             let _ = w.write_record([s]);
             let mut quoted = w.into_inner().unwrap_or_default();
             quoted.pop();
-            self.put(&quoted);
+            self.bytes.extend_from_slice(&quoted);
         } else {
-            self.put(s.as_bytes());
+            self.bytes.extend_from_slice(s.as_bytes());
         }
     }
 
     /// End the row.
     pub fn end(&mut self) {
-        self.put(b"\n");
+        self.bytes.push(b'\n');
         self.at_start = true;
     }
 }
@@ -207,7 +188,7 @@ pub fn format_number(v: f64, out: &mut [u8; 32]) -> usize {
     // The digits, padded with '0' so that any 16 bytes from the first 16 are text.
     let mut text = [b'0'; 32];
     let (high, low) = (digits / 10_000, digits % 10_000);
-    let (high_lanes, low_lanes) = (digit_lanes8(high), digit_lanes4(low as u32));
+    let (high_lanes, low_lanes) = (digit_lanes8(high as u32), digit_lanes4(low as u32));
     text[..8].copy_from_slice(&(high_lanes | ASCII8).to_le_bytes());
     text[8..12].copy_from_slice(&(low_lanes | ASCII4).to_le_bytes());
     // Significant digits without trailing zeros: the zero lanes at the high end (the first
@@ -324,9 +305,9 @@ const ASCII4: u32 = 0x3030_3030;
 
 /// The eight decimal digits of `x < 10^8`, one a byte, the first in the lowest byte.
 #[inline]
-fn digit_lanes8(x: u64) -> u64 {
+fn digit_lanes8(x: u32) -> u64 {
     // Two lanes of 32 bits: the first four digits low, the last four high.
-    let v = (x / 10_000) | ((x % 10_000) << 32);
+    let v = u64::from(x / 10_000) | (u64::from(x % 10_000) << 32);
     // Each lane below 10^4 into two 16-bit lanes below 100: q = v / 100 by 5243 / 2^19 (exact
     // below 43 699), the remainder beside it.
     let q = ((v * 5243) >> 19) & 0x0000_007f_0000_007f;
@@ -378,6 +359,17 @@ static POW10: [f64; 310] = {
     table
 };
 
+/// 1 / 10^k for 0 <= k <= 300, each the quotient of 1 by [`pow10`]`(k)`, made at compile time.
+static INVERSE_POW10: [f64; 301] = {
+    let mut table = [0.0; 301];
+    let mut k = 0;
+    while k < 301 {
+        table[k] = 1.0 / POW10[k];
+        k += 1;
+    }
+    table
+};
+
 /// The powers of ten a double holds exactly.
 const EXACT_POW10: [f64; 23] = [
     1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16,
@@ -400,7 +392,7 @@ fn pow10_signed(k: i32) -> f64 {
     if k >= 0 {
         pow10(k.min(309))
     } else if k >= -300 {
-        1.0 / pow10(-k)
+        INVERSE_POW10[(-k) as usize]
     } else {
         1e-300 / pow10(-k - 300)
     }
@@ -557,6 +549,11 @@ mod tests {
     fn the_table_holds_the_powers_the_multiplications_give() {
         for k in 0..=340 {
             assert_eq!(pow10(k).to_bits(), reference_pow10(k).to_bits(), "10^{k}");
+            assert_eq!(
+                pow10_signed(-k).to_bits(),
+                reference_pow10_signed(-k).to_bits(),
+                "10^-{k}"
+            );
         }
     }
 

@@ -138,9 +138,8 @@ pub struct Sweep<'a> {
 
 /// One block's rows and counts.
 struct BlockOut {
-    /// The rows are the first `len` bytes; the buffer goes back to the threads for reuse.
+    /// The rows; the buffer goes back to the threads for reuse.
     bytes: Vec<u8>,
-    len: usize,
     rows: u64,
     failed: u64,
     warned: u64,
@@ -299,10 +298,8 @@ impl<'a> Sweep<'a> {
                 for chunk in rx {
                     // One vectored write for the chunk: a buffered writer hands a chunk larger
                     // than its buffer straight to the file instead of copying it in.
-                    let mut slices: Vec<IoSlice<'_>> = chunk
-                        .iter()
-                        .map(|b| IoSlice::new(&b.bytes[..b.len]))
-                        .collect();
+                    let mut slices: Vec<IoSlice<'_>> =
+                        chunk.iter().map(|b| IoSlice::new(&b.bytes)).collect();
                     if let Err(e) = write_all_vectored(&mut inner, &mut slices) {
                         stop.store(true, Ordering::Relaxed);
                         return Err(io_error(e));
@@ -399,12 +396,13 @@ impl<'a> Sweep<'a> {
         let (lo, hi) = (first.max(start), ((b + 1) * BLOCK).min(end));
         let mut out = BlockOut {
             bytes: Vec::new(),
-            len: 0,
             rows: 0,
             failed: 0,
             warned: 0,
             kept: Kept::default(),
         };
+        st.row
+            .begin(room, (hi - lo) as usize * (self.columns.len() + 8) * 14);
         st.ws.forget();
         for i in first..hi {
             self.cases.case(i, &mut st.shown, &mut st.si);
@@ -429,7 +427,7 @@ impl<'a> Sweep<'a> {
             self.write_row(row, shown, solved, codes, joined, cache, reader, &mut out);
             out.rows += 1;
         }
-        (out.bytes, out.len) = st.row.hand_over(room);
+        out.bytes = st.row.finish();
         out
     }
 
