@@ -14,6 +14,15 @@
 //! whole case costs 31 200 instructions, and the 20 000-case sweep of
 //! `tools/bench_sweep_vs_cantera.py` ran in 37 ms instead of 57 ms. Twelve digits keep a
 //! relative 5e-13, far below any plant measurement.
+//!
+//! Later, with the same text for every number: the twelve digits turned into text eight and
+//! four at a time in one integer, the powers of ten read from a table, every piece copied with
+//! a fixed length (no `memcpy` call), a cached text stored after its comma, and the row
+//! buffers reused. Callgrind, instructions a case as the difference of 4000 and 2000 cases:
+//! `flowsheets/demo-train.yaml` varying `units.hts.approach.shift` (375 columns) from 275 100
+//! to 249 800, the number writer from about 227 instructions a number written (its copy calls
+//! included) to about 158; `flowsheets/single-reformer.yaml` with `carbon-path-points: 0` varying
+//! the outlet temperature (59 columns) from 33 600 to 30 200.
 
 /// Significant digits of a number in a row.
 pub const DIGITS: i32 = 12;
@@ -721,8 +730,8 @@ mod tests {
         ];
         for leading_field in [false, true] {
             let (mut one, mut many) = (RowWriter::new(), RowWriter::new());
-            let mut one_cache = vec![CachedNumber::default(); 4];
-            let mut many_cache = vec![CachedNumber::default(); 4];
+            let mut one_cache = [CachedNumber::default(); 4];
+            let mut many_cache = [CachedNumber::default(); 4];
             for values in rows {
                 if leading_field {
                     one.text("ok");
