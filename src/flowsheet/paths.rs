@@ -141,7 +141,8 @@ impl ResultPath {
                 index,
                 key,
             } => unit(u).and_then(|r| {
-                let at = |f: &&crate::units::Figure| f.key == key;
+                // The key is most often the very same static text: compared by address first.
+                let at = |f: &&crate::units::Figure| std::ptr::eq(f.key, key) || f.key == key;
                 r.figures
                     .get(index)
                     .filter(at)
@@ -188,6 +189,7 @@ impl Reader {
 
     /// The value of `path` in `r` (the result given to [`Reader::start`]); the same as
     /// [`ResultPath::get`].
+    #[inline(always)]
     pub fn get(&mut self, db: &SpeciesDb, r: &FlowsheetResult, path: &ResultPath) -> Option<f64> {
         let ResultSlot::DryPercent { stream, species } = path.slot else {
             return path.get(db, r);

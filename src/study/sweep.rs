@@ -20,9 +20,10 @@
 //! [`Observer`] (the command line shows a progress bar and catches Ctrl-C there); on a stop it
 //! finishes the rows already made, so the output holds whole rows only.
 
-use std::io::Write;
+use std::io::{IoSlice, Write};
 use std::sync::atomic::{AtomicBool, Ordering};
 use std::sync::mpsc::sync_channel;
+use std::sync::Mutex;
 
 use rayon::prelude::*;
 
@@ -39,6 +40,9 @@ pub const BLOCK: u64 = 32;
 
 /// Blocks handed to the threads at a time (and written together).
 const CHUNK_BLOCKS: u64 = 32;
+
+/// Row buffers kept for reuse at most (a chunk's worth and one more).
+const SPARE_ROOMS: usize = 2 * CHUNK_BLOCKS as usize;
 
 /// The K-th of N equal slices of a case list (K from 1).
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -134,6 +138,7 @@ pub struct Sweep<'a> {
 
 /// One block's rows and counts.
 struct BlockOut {
+    /// The rows; the buffer goes back to the threads for reuse.
     bytes: Vec<u8>,
     rows: u64,
     failed: u64,
@@ -155,6 +160,8 @@ struct ThreadState {
     /// The text of each result column's last value.
     cache: Vec<CachedNumber>,
     reader: Reader,
+    /// The rows of the block being solved.
+    row: RowWriter,
 }
 
 impl<'a> Sweep<'a> {
@@ -273,6 +280,14 @@ impl<'a> Sweep<'a> {
         let (first_block, end_block) = (start / BLOCK, end.div_ceil(BLOCK));
         let stop_writing = AtomicBool::new(false);
         let defaults = self.base.clone();
+        // One state per worker thread for the whole run (its workspace, caches and row room
+        // made once), rather than one per piece of work the thread pool splits off.
+        let states: Vec<Mutex<Option<ThreadState>>> = (0..rayon::current_num_threads().max(1))
+            .map(|_| Mutex::new(None))
+            .collect();
+        // Row buffers written out, handed back to the threads (no new room to zero).
+        let spare_rooms: Mutex<Vec<Vec<u8>>> = Mutex::new(Vec::new());
+        let spare_rooms = &spare_rooms;
         std::thread::scope(|scope| -> Result<()> {
             let (tx, rx) = sync_channel::<Vec<BlockOut>>(1);
             let stop = &stop_writing;
@@ -281,10 +296,19 @@ impl<'a> Sweep<'a> {
                 let (mut rows, mut failed, mut warned) = (0u64, 0u64, 0u64);
                 let mut kept = Kept::default();
                 for chunk in rx {
+                    // One vectored write for the chunk: a buffered writer hands a chunk larger
+                    // than its buffer straight to the file instead of copying it in.
+                    let mut slices: Vec<IoSlice<'_>> =
+                        chunk.iter().map(|b| IoSlice::new(&b.bytes)).collect();
+                    if let Err(e) = write_all_vectored(&mut inner, &mut slices) {
+                        stop.store(true, Ordering::Relaxed);
+                        return Err(io_error(e));
+                    }
+                    drop(slices);
+                    let mut spare = spare_rooms.lock().unwrap_or_else(|e| e.into_inner());
                     for block in chunk {
-                        if let Err(e) = inner.write_all(&block.bytes) {
-                            stop.store(true, Ordering::Relaxed);
-                            return Err(io_error(e));
+                        if spare.len() < SPARE_ROOMS {
+                            spare.push(block.bytes);
                         }
                         rows += block.rows;
                         failed += block.failed;
@@ -308,10 +332,17 @@ impl<'a> Sweep<'a> {
                 let upto = (block + CHUNK_BLOCKS).min(end_block);
                 let chunk: Vec<BlockOut> = (block..upto)
                     .into_par_iter()
-                    .map_init(
-                        || self.thread_state(&defaults),
-                        |state, b| self.run_block(state, &defaults, b, start, end),
-                    )
+                    .map(|b| {
+                        let slot = rayon::current_thread_index().unwrap_or(0) % states.len();
+                        let mut state = states[slot].lock().unwrap_or_else(|e| e.into_inner());
+                        let state = state.get_or_insert_with(|| self.thread_state(&defaults));
+                        let room = spare_rooms
+                            .lock()
+                            .unwrap_or_else(|e| e.into_inner())
+                            .pop()
+                            .unwrap_or_default();
+                        self.run_block(state, &defaults, b, start, end, room)
+                    })
                     .collect();
                 if tx.send(chunk).is_err() {
                     break;
@@ -346,6 +377,7 @@ impl<'a> Sweep<'a> {
             outcomes: Vec::new(),
             cache: vec![CachedNumber::default(); self.columns.len()],
             reader: Reader::default(),
+            row: RowWriter::new(),
         }
     }
 
@@ -358,6 +390,7 @@ impl<'a> Sweep<'a> {
         b: u64,
         start: u64,
         end: u64,
+        room: Vec<u8>,
     ) -> BlockOut {
         let first = b * BLOCK;
         let (lo, hi) = (first.max(start), ((b + 1) * BLOCK).min(end));
@@ -368,9 +401,8 @@ impl<'a> Sweep<'a> {
             warned: 0,
             kept: Kept::default(),
         };
-        let mut row = RowWriter::new();
-        row.bytes
-            .reserve((hi - lo) as usize * (self.columns.len() + 8) * 14);
+        st.row
+            .begin(room, (hi - lo) as usize * (self.columns.len() + 8) * 14);
         st.ws.forget();
         for i in first..hi {
             self.cases.case(i, &mut st.shown, &mut st.si);
@@ -388,15 +420,14 @@ impl<'a> Sweep<'a> {
                 joined,
                 cache,
                 reader,
+                row,
                 ..
             } = st;
             let solved = solved.as_ref().map(|()| ws.result());
-            self.write_row(
-                &mut row, shown, solved, codes, joined, cache, reader, &mut out,
-            );
+            self.write_row(row, shown, solved, codes, joined, cache, reader, &mut out);
             out.rows += 1;
         }
-        out.bytes = row.bytes;
+        out.bytes = st.row.finish();
         out
     }
 
@@ -460,10 +491,11 @@ impl<'a> Sweep<'a> {
                 }
                 row.text(joined);
                 reader.start(result);
-                for (c, cached) in self.columns.iter().zip(cache.iter_mut()) {
-                    let v = reader.get(self.db, result, c).unwrap_or(f64::NAN);
-                    row.cached_number(v, cached);
-                }
+                let values = self
+                    .columns
+                    .iter()
+                    .map(|c| reader.get(self.db, result, c).unwrap_or(f64::NAN));
+                row.cached_numbers(values, cache);
                 for k in &self.keep {
                     out.kept
                         .results
@@ -496,6 +528,23 @@ pub fn one_line(e: &Error) -> String {
         source = s.source();
     }
     text.replace(['\n', '\r'], " ")
+}
+
+/// Write every byte of `slices` (`Write::write_all` for vectored writes).
+fn write_all_vectored<W: Write>(
+    out: &mut W,
+    mut slices: &mut [IoSlice<'_>],
+) -> std::io::Result<()> {
+    IoSlice::advance_slices(&mut slices, 0);
+    while !slices.is_empty() {
+        match out.write_vectored(slices) {
+            Ok(0) => return Err(std::io::ErrorKind::WriteZero.into()),
+            Ok(n) => IoSlice::advance_slices(&mut slices, n),
+            Err(e) if e.kind() == std::io::ErrorKind::Interrupted => {}
+            Err(e) => return Err(e),
+        }
+    }
+    Ok(())
 }
 
 fn io_error(e: std::io::Error) -> Error {
