@@ -29,6 +29,14 @@ fn shipped() -> Vec<PathBuf> {
     files
 }
 
+/// How close a solve must come to the saved outputs, relative. The saved files hold converged
+/// answers; a solve that takes other steps to the same answer (the stack kernel's Chebyshev
+/// steps, a reordered sum) lands within the solver's own tolerances of them: 1e-11 in the ln
+/// of the equilibrium quotients, and 1e-10 of n R T in an adiabatic balance (about 1e-8 K).
+/// Measured: at most 7.8e-12 (the CO left after the low-temperature shift of
+/// `secondary-reformer-air`). A changed model moves these figures by far more.
+const SAVED: f64 = 1e-9;
+
 fn close(got: f64, want: f64, rel: f64) -> bool {
     (got - want).abs() <= rel * want.abs().max(1e-300) || (got == 0.0 && want == 0.0)
 }
@@ -57,20 +65,19 @@ fn shipped_flowsheets_give_the_saved_streams_and_duties() {
         for s in &r.streams {
             let want = &streams[&s.name];
             let st = &s.stream;
-            // 1e-12 relative: the same numbers, up to the last bits of a reordered sum.
             assert!(close(
                 st.temperature_k,
                 want["temperature_K"].as_f64().unwrap(),
-                1e-12
+                SAVED
             ));
             assert!(close(
                 st.pressure_pa / 1e5,
                 want["pressure_bar"].as_f64().unwrap(),
-                1e-12
+                SAVED
             ));
             let h_kw = st.enthalpy_w(&db).unwrap() / 1e3;
             assert!(
-                close(h_kw, want["enthalpy_kW"].as_f64().unwrap(), 1e-12),
+                close(h_kw, want["enthalpy_kW"].as_f64().unwrap(), SAVED),
                 "{name} {}: enthalpy {h_kw}",
                 s.name
             );
@@ -78,7 +85,7 @@ fn shipped_flowsheets_give_the_saved_streams_and_duties() {
                 let i = db.index_of(species).unwrap();
                 let got = st.flows[i] * 3.6;
                 assert!(
-                    close(got, v.as_f64().unwrap(), 1e-12),
+                    close(got, v.as_f64().unwrap(), SAVED),
                     "{name} {} {species}: {got} vs {v}",
                     s.name
                 );
@@ -87,7 +94,7 @@ fn shipped_flowsheets_give_the_saved_streams_and_duties() {
         for u in &r.units {
             let want = saved["units"][&u.name]["duty_kW"].as_f64().unwrap();
             assert!(
-                close(u.result.duty_w / 1e3, want, 1e-12),
+                close(u.result.duty_w / 1e3, want, SAVED),
                 "{name} {}: duty",
                 u.name
             );

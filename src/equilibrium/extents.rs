@@ -277,15 +277,18 @@ impl ExtentSystem {
         out.extents.resize(nr, 0.0);
         let n = &mut out.amounts[..];
         let xi = &mut out.extents[..];
+        // One division: the rest are multiplications (divisions lie on the solve's critical
+        // path).
+        let inv_scale = 1.0 / scale;
         for i in 0..ns {
-            n0[i] = inlet[i] / scale;
+            n0[i] = inlet[i] * inv_scale;
         }
-        let inert = inert / scale;
+        let inert = inert * inv_scale;
 
         let mut warm = false;
         if let Some(guess) = guess.filter(|g| g.len() == nr) {
             for j in 0..nr {
-                xi[j] = guess[j] / scale;
+                xi[j] = guess[j] * inv_scale;
             }
             n.copy_from_slice(n0);
             for (row, x) in self.nu.chunks_exact(ns).zip(xi.iter()) {

@@ -690,10 +690,9 @@ impl EquilibriumStage {
         // Species values at the stream temperature, shared by reactions without an approach.
         let h_rt = &mut run.h_rt;
         let mut g_rt = [0.0f64; MAX_STAGE_SPECIES];
-        let ln_t = t.ln();
+        let (ln_t, inv_t) = (t.ln(), 1.0 / t);
         for k in 0..ns {
-            h_rt[k] = self.nasa[k].h_rt(t);
-            g_rt[k] = self.nasa[k].g_rt_ln(t, ln_t);
+            (h_rt[k], g_rt[k]) = self.nasa[k].h_rt_and_g_rt(t, ln_t, inv_t);
         }
         let h_rt = &run.h_rt;
         for (j, r) in self.reactions.iter().enumerate() {
@@ -705,7 +704,7 @@ impl EquilibriumStage {
             run.equilibrium_temperatures_k[j] = t - s * approach;
             if approach == 0.0 {
                 ln_k[j] = -(0..ns).map(|k| self.system.nu(j, k) * g_rt[k]).sum::<f64>();
-                dlnk_dt[j] = dh_rt / t; // dH/(R T^2) = (H/RT)/T
+                dlnk_dt[j] = dh_rt * inv_t; // dH/(R T^2) = (H/RT)/T
                 continue;
             }
             let t_eq = t - s * approach;
@@ -1079,6 +1078,7 @@ impl<'a> Context<'a> {
         let mut t_max: f64 = f64::INFINITY;
         // Inlet enthalpy, W, over the species present (their ranges checked after the loop).
         let rt_in = R_GAS * t_in;
+        let inv_t_in = 1.0 / t_in;
         let mut h = 0.0;
         let mut out_of_range = None;
         // The stage's own species bound the range whether present or not; the others only
@@ -1099,7 +1099,7 @@ impl<'a> Context<'a> {
             if !sp.nasa7.in_range(t_in) && out_of_range.is_none() {
                 out_of_range = Some(i);
             }
-            h += n * (rt_in * sp.nasa7.h_rt(t_in));
+            h += n * (rt_in * sp.nasa7.h_rt_with_inverse(t_in, inv_t_in));
             if !member {
                 if sp.phase != Phase::Gas {
                     return Err(Error::InvalidValue {

@@ -755,20 +755,41 @@ fn options_and_termination_reasons() {
     assert_eq!(r.termination, StageTermination::Converged);
     assert!(r.converged() && r.energy_residual <= 1e-10);
     // An energy tolerance below the round-off floor: the bracket narrows first, and the result
-    // says so instead of claiming convergence.
+    // says so instead of claiming convergence (unless the residual happens to come out exactly
+    // zero, which meets any tolerance; a few inlet temperatures make sure the first is seen).
     let strict = SolverOptions {
         energy_tolerance: 1e-300,
         ..defaults
     };
-    let r = sh
-        .solve_with_options(&db, inlet, EnergyMode::Adiabatic, None, &strict)
-        .unwrap();
-    assert_eq!(r.termination, StageTermination::ResidualAboveTolerance);
-    assert!(!r.converged());
-    assert_eq!(
-        r.temperature_search.map(|s| s.termination),
-        Some(Termination::BracketNarrowed)
-    );
+    let mut narrowed = 0;
+    for t_in in [623.15, 624.15, 625.15, 626.15] {
+        let inlet = StageInlet {
+            temperature_k: t_in,
+            ..inlet
+        };
+        let r = sh
+            .solve_with_options(&db, inlet, EnergyMode::Adiabatic, None, &strict)
+            .unwrap();
+        if r.converged() {
+            assert_eq!(r.energy_residual, 0.0);
+            continue;
+        }
+        // The search may stop on its own residual at exactly zero while the balance of the
+        // reported streams (summed in another order) is a few 1e-15 off: still not converged.
+        assert_eq!(r.termination, StageTermination::ResidualAboveTolerance);
+        let search = r.temperature_search.map(|s| s.termination);
+        assert!(
+            matches!(
+                search,
+                Some(Termination::BracketNarrowed | Termination::Converged)
+            ),
+            "{search:?}"
+        );
+        if search == Some(Termination::BracketNarrowed) {
+            narrowed += 1;
+        }
+    }
+    assert!(narrowed >= 1);
     // One extent iteration cannot reach 1e-11 from a cold start: an error that says why.
     let one = SolverOptions {
         extent_iteration_limit: 1,

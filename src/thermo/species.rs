@@ -68,12 +68,26 @@ impl Nasa7 {
     #[inline]
     pub fn h_rt(&self, t: f64) -> f64 {
         let a = self.coefficients(t);
-        // Constant reciprocals rather than divisions: one division a call instead of three
-        // (a stage evaluates these a few dozen times a solve).
-        const THIRD: f64 = 1.0 / 3.0;
-        const FIFTH: f64 = 1.0 / 5.0;
-        a[0] + t * (a[1] * 0.5 + t * (a[2] * THIRD + t * (a[3] * 0.25 + t * (a[4] * FIFTH))))
-            + a[5] / t
+        h_polynomial(a, t) + a[5] / t
+    }
+
+    /// H/(RT) at `t` K with 1/t given (no division; no range check).
+    #[inline]
+    pub fn h_rt_with_inverse(&self, t: f64, inv_t: f64) -> f64 {
+        let a = self.coefficients(t);
+        h_polynomial(a, t) + a[5] * inv_t
+    }
+
+    /// H/(RT) and G/(RT) at `t` K with ln(t) and 1/t given (one selection of the coefficients
+    /// and no division: a stage takes both for every species at each temperature it visits).
+    #[inline]
+    pub fn h_rt_and_g_rt(&self, t: f64, ln_t: f64, inv_t: f64) -> (f64, f64) {
+        let a = self.coefficients(t);
+        let a5_t = a[5] * inv_t;
+        (
+            h_polynomial(a, t) + a5_t,
+            g_polynomial(a, t, ln_t) + a5_t - a[6],
+        )
     }
 
     /// S/R at `t` K and the standard pressure (no range check).
@@ -94,14 +108,29 @@ impl Nasa7 {
     #[inline]
     pub fn g_rt_ln(&self, t: f64, ln_t: f64) -> f64 {
         let a = self.coefficients(t);
-        const SIXTH: f64 = 1.0 / 6.0;
-        const TWELFTH: f64 = 1.0 / 12.0;
-        const TWENTIETH: f64 = 1.0 / 20.0;
-        a[0] * (1.0 - ln_t)
-            - t * (a[1] * 0.5 + t * (a[2] * SIXTH + t * (a[3] * TWELFTH + t * (a[4] * TWENTIETH))))
-            + a[5] / t
-            - a[6]
+        g_polynomial(a, t, ln_t) + a[5] / t - a[6]
     }
+}
+
+/// H/(RT) of the NASA form less its a6/T term: a1 + a2 T/2 + a3 T^2/3 + a4 T^3/4 + a5 T^4/5
+/// (McBride, Zehe & Gordon, NASA/TP-2002-211556), with constant reciprocals rather than
+/// divisions (a stage evaluates these a few dozen times a solve).
+#[inline]
+fn h_polynomial(a: &[f64; 7], t: f64) -> f64 {
+    const THIRD: f64 = 1.0 / 3.0;
+    const FIFTH: f64 = 1.0 / 5.0;
+    a[0] + t * (a[1] * 0.5 + t * (a[2] * THIRD + t * (a[3] * 0.25 + t * (a[4] * FIFTH))))
+}
+
+/// G/(RT) of the NASA form less its a6/T - a7 terms: a1 (1 - ln T) - a2 T/2 - a3 T^2/6
+/// - a4 T^3/12 - a5 T^4/20.
+#[inline]
+fn g_polynomial(a: &[f64; 7], t: f64, ln_t: f64) -> f64 {
+    const SIXTH: f64 = 1.0 / 6.0;
+    const TWELFTH: f64 = 1.0 / 12.0;
+    const TWENTIETH: f64 = 1.0 / 20.0;
+    a[0] * (1.0 - ln_t)
+        - t * (a[1] * 0.5 + t * (a[2] * SIXTH + t * (a[3] * TWELFTH + t * (a[4] * TWENTIETH))))
 }
 
 /// One species: identity, composition and thermochemistry.
