@@ -56,10 +56,12 @@ struct Powers<const M: usize, const N: usize> {
 }
 
 /// The Hessian of a Newton step, kept for a second right-hand side: H_00, H_01 and H_11 (one
-/// reaction: H_00 alone) and the reciprocal of its determinant (of H_00).
+/// reaction: H_00 alone), the reciprocal of its determinant (of H_00), and of the total.
 struct Hessian {
     h: [f64; 3],
     inv_det: f64,
+    /// 1 / n_T at the point it was taken.
+    inv_total: f64,
 }
 
 impl Hessian {
@@ -219,16 +221,23 @@ impl<const M: usize, const N: usize> SmallSystem<M, N> {
     /// would leave the closed form (amounts spanning eight decades or more, or a Hessian that is
     /// not positive definite).
     #[inline(always)]
-    fn direction(&self, n: &[f64; N], total: f64, g: &[f64; M]) -> Option<([f64; M], Hessian)> {
+    fn direction(
+        &self,
+        n: &[f64; N],
+        total: f64,
+        g: &[f64; M],
+    ) -> Option<([f64; M], Hessian, [f64; N])> {
         let (mut smallest, mut largest) = (f64::INFINITY, 0.0f64);
         let inv_total = 1.0 / total;
+        let mut inv_n = [0.0f64; N];
         let hessian = if M == 1 {
             let mut h00 = 0.0;
             for i in 0..N {
                 let (ni, a) = (n[i], self.nu[0][i]);
                 smallest = if ni < smallest { ni } else { smallest };
                 largest = if ni > largest { ni } else { largest };
-                h00 += a * a / ni;
+                inv_n[i] = 1.0 / ni;
+                h00 += a * a * inv_n[i];
             }
             let h = h00 - self.dnu[0] * self.dnu[0] * inv_total;
             if !(largest < 1e8 * smallest && h > 0.0 && h.is_finite()) {
@@ -237,6 +246,7 @@ impl<const M: usize, const N: usize> SmallSystem<M, N> {
             Hessian {
                 h: [h, 0.0, 0.0],
                 inv_det: 1.0 / h,
+                inv_total,
             }
         } else {
             let (mut h00, mut h01, mut h11) = (0.0, 0.0, 0.0);
@@ -245,6 +255,7 @@ impl<const M: usize, const N: usize> SmallSystem<M, N> {
                 smallest = if ni < smallest { ni } else { smallest };
                 largest = if ni > largest { ni } else { largest };
                 let w = 1.0 / ni;
+                inv_n[i] = w;
                 h00 += a * a * w;
                 h01 += a * b * w;
                 h11 += b * b * w;
@@ -260,13 +271,14 @@ impl<const M: usize, const N: usize> SmallSystem<M, N> {
             Hessian {
                 h: [a0, a1, a3],
                 inv_det: 1.0 / det,
+                inv_total,
             }
         };
         let mut minus_g = [0.0f64; M];
         for k in 0..M {
             minus_g[k] = -g[k];
         }
-        Some((hessian.solve(minus_g), hessian))
+        Some((hessian.solve(minus_g), hessian, inv_n))
     }
 
     /// The Chebyshev correction of a Newton step `newton` whose amount changes are `dn`
@@ -279,18 +291,17 @@ impl<const M: usize, const N: usize> SmallSystem<M, N> {
         &self,
         hessian: &Hessian,
         newton: &[f64; M],
-        n: &[f64; N],
+        inv_n: &[f64; N],
         dn: &[f64; N],
-        total: f64,
     ) -> [f64; M] {
         let mut dn_total = 0.0;
         for k in 0..M {
             dn_total += self.dnu[k] * newton[k];
         }
-        let relative_total = dn_total / total;
+        let relative_total = dn_total * hessian.inv_total;
         let mut relative = [0.0f64; N];
         for i in 0..N {
-            let r = dn[i] / n[i];
+            let r = dn[i] * inv_n[i];
             relative[i] = r * r;
         }
         let mut rhs = [0.0f64; M];
@@ -348,7 +359,7 @@ impl<const M: usize, const N: usize> SmallSystem<M, N> {
         let mut merit = self.gradient(at, &n, &mut g, &mut total);
         let mut converged = g.iter().all(|r| r.abs() <= tolerance);
         while !converged && state.iterations < limit {
-            let Some((newton, hessian)) = self.direction(&n, total, &g) else {
+            let Some((newton, hessian, inv_n)) = self.direction(&n, total, &g) else {
                 break;
             };
             let (newton_dn, newton_alpha) = self.amount_change(&newton, &n);
@@ -359,7 +370,7 @@ impl<const M: usize, const N: usize> SmallSystem<M, N> {
             let (mut step, mut dn, mut alpha) = (newton, newton_dn, newton_alpha);
             let mut corrected = false;
             if near {
-                step = self.chebyshev(&hessian, &newton, &n, &newton_dn, total);
+                step = self.chebyshev(&hessian, &newton, &inv_n, &newton_dn);
                 (dn, alpha) = self.amount_change(&step, &n);
                 corrected = true;
             }
