@@ -262,6 +262,12 @@ impl ExtentSystem {
                     .into(),
             });
         }
+        if let (Some(kernel), Some(guess)) = (&self.small, guess.filter(|g| g.len() == nr)) {
+            let problem = (inlet, inert, scale, ln_k, ln_p, guess);
+            if Self::warm_small(kernel, problem, options, out) {
+                return Ok(());
+            }
+        }
         // One buffer for every work vector: n0 | ln_n | dn | trial | g | trial_g | step |
         // hessian; the amounts and extents live in `out`.
         let ExtentWork { buffer, basis } = work;
@@ -447,6 +453,64 @@ impl ExtentSystem {
             *v *= scale;
         }
         Ok(())
+    }
+
+    /// A warm start by the stack kernel alone, without the general loop's buffers and basis:
+    /// true when it converged (`out` then holds the answer, as the general loop would have
+    /// written it); false, with `out` to be overwritten, when the start leaves an amount at zero
+    /// or below or the kernel stops short (the general loop then solves from the start).
+    fn warm_small(
+        kernel: &Prepared,
+        (inlet, inert, scale, ln_k, ln_p, guess): (&[f64], f64, f64, &[f64], f64, &[f64]),
+        options: &SolverOptions,
+        out: &mut ExtentSolution,
+    ) -> bool {
+        let (ns, nr) = (inlet.len(), guess.len());
+        let rows = kernel.rows();
+        let inv_scale = 1.0 / scale;
+        let mut w = [0.0f64; linalg::MAX_DIM];
+        let mut g = [0.0f64; linalg::MAX_DIM];
+        out.amounts.resize(ns, 0.0);
+        for (i, n) in out.amounts.iter_mut().enumerate() {
+            let mut v = inlet[i] * inv_scale;
+            for j in 0..nr {
+                v += rows[j * ns + i] * (guess[j] * inv_scale);
+            }
+            *n = v;
+        }
+        if !out.amounts.iter().all(|v| *v > 0.0) {
+            return false;
+        }
+        let mut state = SmallState {
+            n: &mut out.amounts,
+            g: &mut g[..nr],
+            w: &mut w[..nr],
+            merit: 0.0,
+            iterations: 0,
+        };
+        let tolerance = options.extent_tolerance;
+        let limit = options.extent_iteration_limit;
+        let at = (ln_k, inert * inv_scale, ln_p);
+        if !kernel.iterate(at, &mut state, tolerance, limit, MIN_STEP) {
+            return false;
+        }
+        out.iterations = state.iterations;
+        out.extents.clear();
+        out.extents
+            .extend((0..nr).map(|j| (guess[j] * inv_scale + w[j]) * scale));
+        for v in out.amounts.iter_mut() {
+            *v *= scale;
+        }
+        out.residuals.clear();
+        out.residuals.extend_from_slice(&g[..nr]);
+        out.frozen.clear();
+        out.frozen.resize(nr, false);
+        out.termination = if max_abs(&g[..nr]) <= options.extent_reported_tolerance {
+            StageTermination::Converged
+        } else {
+            StageTermination::ResidualAboveTolerance
+        };
+        true
     }
 
     /// Load the working basis of the given active reactions with their ln K.

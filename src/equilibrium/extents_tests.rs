@@ -407,3 +407,36 @@ fn a_warm_start_takes_the_chebyshev_step_and_one_iteration_fewer() {
         slow.iterations
     );
 }
+
+#[test]
+fn a_warm_start_the_kernel_cannot_take_goes_to_the_general_loop() {
+    let rs = reforming_and_shift();
+    let inlet = [0.27, 0.82, 0.0, 0.01, 0.002];
+    let cold = rs.solve(&inlet, 0.004, &[5.5, -0.2], 3.3, None).unwrap();
+    // A start that would drive methane below zero: refused as a start, same answer.
+    let warm = rs
+        .solve(&inlet, 0.004, &[5.5, -0.2], 3.3, Some(&[0.5, 0.0]))
+        .unwrap();
+    assert!(warm.converged());
+    for (a, b) in warm.amounts.iter().zip(&cold.amounts) {
+        assert!((a - b).abs() <= 1e-12 * a.max(*b));
+    }
+    assert_eq!(warm.frozen, vec![false, false]);
+    assert_eq!(warm.residuals.len(), 2);
+    // A methanator-like start whose methane is 1e-12 of the total: amounts over more than
+    // eight decades, which the kernel leaves to the general loop's QR path; the answer is the
+    // general loop's.
+    let inlet = [1e-12, 0.3, 1e-3, 0.7, 1e-3];
+    let ln_k = [-30.0, 8.0];
+    let first = rs.solve(&inlet, 0.0, &ln_k, 3.0, None).unwrap();
+    let warm = rs
+        .solve(&inlet, 0.0, &[-30.2, 8.1], 3.0, Some(&first.extents))
+        .unwrap();
+    let slow = general_only(&rs)
+        .solve(&inlet, 0.0, &[-30.2, 8.1], 3.0, Some(&first.extents))
+        .unwrap();
+    assert!(warm.converged() && slow.converged());
+    for (a, b) in warm.amounts.iter().zip(&slow.amounts) {
+        assert!((a - b).abs() <= 1e-9 * a.max(*b), "{warm:?} {slow:?}");
+    }
+}

@@ -463,6 +463,18 @@ impl Prepared {
         })
     }
 
+    /// The coefficient rows, row-major (one row per reaction over the species).
+    pub fn rows(&self) -> &[f64] {
+        match self {
+            Prepared::R1S4(s) => s.nu.as_flattened(),
+            Prepared::R1S5(s) => s.nu.as_flattened(),
+            Prepared::R1S6(s) => s.nu.as_flattened(),
+            Prepared::R2S4(s) => s.nu.as_flattened(),
+            Prepared::R2S5(s) => s.nu.as_flattened(),
+            Prepared::R2S6(s) => s.nu.as_flattened(),
+        }
+    }
+
     /// [`SmallSystem::iterate`] at `ln_k` (one per reaction), `inert` and `ln_p`.
     pub fn iterate(
         &self,
