@@ -554,6 +554,15 @@ impl ExtentSystem {
             return false;
         }
         out[..nr].fill(0.0);
+        if let Some(kernel) = &self.small {
+            // Every reaction active: the kernel's closed form, without the basis; where it
+            // gives up (amounts over eight decades), the general way below.
+            if !solution.frozen.iter().any(|f| *f)
+                && kernel.solve_hessian(&solution.amounts, inert, &rhs[..nr], &mut out[..nr])
+            {
+                return true;
+            }
+        }
         let mut active = [0usize; linalg::MAX_DIM];
         let mut na = 0;
         for j in 0..nr {

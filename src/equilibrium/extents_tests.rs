@@ -440,3 +440,41 @@ fn a_warm_start_the_kernel_cannot_take_goes_to_the_general_loop() {
         assert!((a - b).abs() <= 1e-9 * a.max(*b), "{warm:?} {slow:?}");
     }
 }
+
+#[test]
+fn the_kernel_sensitivity_is_the_general_one() {
+    // d xi / d lnK = H^-1 rhs: the kernel's closed form and the general basis's factorisation
+    // of the same Hessian agree, for two reactions and for one.
+    let rs = reforming_and_shift();
+    let sol = rs
+        .solve(
+            &[0.27, 0.82, 0.0, 0.01, 0.002],
+            0.004,
+            &[5.5, -0.2],
+            3.3,
+            None,
+        )
+        .unwrap();
+    let rhs = [0.0209, -0.0031];
+    let (mut fast, mut slow) = ([0.0; 2], [0.0; 2]);
+    assert!(rs.sensitivity(&sol, 0.004, &rhs, &mut fast, &mut ExtentWork::default()));
+    assert!(general_only(&rs).sensitivity(
+        &sol,
+        0.004,
+        &rhs,
+        &mut slow,
+        &mut ExtentWork::default()
+    ));
+    for (a, b) in fast.iter().zip(&slow) {
+        assert!((a - b).abs() <= 1e-12 * b.abs(), "{fast:?} {slow:?}");
+    }
+    // One reaction: 1 CO + 1 H2O at K = 1 (Smith, Van Ness & Abbott, 7th ed., Example 13.5),
+    // H = sum nu^2 / n = 4 / 0.5 = 8.
+    let s = shift_only();
+    let sol = s
+        .solve(&[1.0, 1.0, 0.0, 0.0], 0.0, &[0.0], 0.0, None)
+        .unwrap();
+    let mut out = [0.0];
+    assert!(s.sensitivity(&sol, 0.0, &[1.0], &mut out, &mut ExtentWork::default()));
+    assert!((out[0] - 0.125).abs() < 1e-12, "{out:?}");
+}

@@ -463,6 +463,48 @@ impl Prepared {
         })
     }
 
+    /// H x = rhs at `amounts` (every one positive) with `inert` more in the total, by the
+    /// kernel's closed form, into `x`: the sensitivity of the equilibrium extents to ln K.
+    /// False, with `x` untouched, where the kernel's Newton step would give up (amounts spanning
+    /// eight decades or more, a Hessian not positive definite, an amount not positive).
+    pub fn solve_hessian(&self, amounts: &[f64], inert: f64, rhs: &[f64], x: &mut [f64]) -> bool {
+        fn solve<const M: usize, const N: usize>(
+            s: &SmallSystem<M, N>,
+            (amounts, inert, rhs, x): (&[f64], f64, &[f64], &mut [f64]),
+        ) -> bool {
+            if amounts.len() != N || rhs.len() != M || x.len() != M {
+                return false;
+            }
+            let mut n = [0.0f64; N];
+            n.copy_from_slice(amounts);
+            if !n.iter().all(|v| *v > 0.0) {
+                return false;
+            }
+            let total = n.iter().sum::<f64>() + inert;
+            // The Newton step of gradient -rhs is H^-1 rhs.
+            let mut minus = [0.0f64; M];
+            for k in 0..M {
+                minus[k] = -rhs[k];
+            }
+            match s.direction(&n, total, &minus) {
+                Some((solved, _, _)) => {
+                    x.copy_from_slice(&solved);
+                    true
+                }
+                None => false,
+            }
+        }
+        let args = (amounts, inert, rhs, x);
+        match self {
+            Prepared::R1S4(s) => solve(s, args),
+            Prepared::R1S5(s) => solve(s, args),
+            Prepared::R1S6(s) => solve(s, args),
+            Prepared::R2S4(s) => solve(s, args),
+            Prepared::R2S5(s) => solve(s, args),
+            Prepared::R2S6(s) => solve(s, args),
+        }
+    }
+
     /// The coefficient rows, row-major (one row per reaction over the species).
     pub fn rows(&self) -> &[f64] {
         match self {
