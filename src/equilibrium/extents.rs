@@ -262,10 +262,19 @@ impl ExtentSystem {
                     .into(),
             });
         }
-        if let (Some(kernel), Some(guess)) = (&self.small, guess.filter(|g| g.len() == nr)) {
-            let problem = (inlet, inert, scale, ln_k, ln_p, guess);
-            if Self::warm_small(kernel, problem, options, out) {
-                return Ok(());
+        if let Some(kernel) = &self.small {
+            // A start the kernel can take: the caller's, or the inlet itself for a reaction
+            // solved in closed form (the shift).
+            const NO_EXTENTS: [f64; linalg::MAX_DIM] = [0.0; linalg::MAX_DIM];
+            let start = match guess.filter(|g| g.len() == nr) {
+                Some(g) => Some(g),
+                None => kernel.closed_form().then_some(&NO_EXTENTS[..nr]),
+            };
+            if let Some(start) = start {
+                let problem = (inlet, inert, scale, ln_k, ln_p, start);
+                if Self::warm_small(kernel, problem, options, out) {
+                    return Ok(());
+                }
             }
         }
         // One buffer for every work vector: n0 | ln_n | dn | trial | g | trial_g | step |

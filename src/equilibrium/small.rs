@@ -30,6 +30,10 @@ pub struct SmallSystem<const M: usize, const N: usize> {
     /// The coefficients as powers of the numerator and the denominator, when every one is a
     /// whole number of magnitude at most [`MAX_POWER`].
     powers: Option<Powers<M, N>>,
+    /// For one reaction of two reactants and two products, each with coefficient one, and no
+    /// mole change (the shift): the reactants' and the products' indices. Its equilibrium is
+    /// then found in closed form ([`SmallSystem::pair_extent`]) and Newton's steps only polish.
+    pair: Option<[usize; 4]>,
 }
 
 /// What changes from solve to solve: ln K of each working reaction, the amount of gas species
@@ -131,11 +135,51 @@ impl<const M: usize, const N: usize> SmallSystem<M, N> {
                 powers.denominator[k][i] = (-e).max(0) as u8;
             }
         }
+        // One reaction of two reactants and two products, each once, and no mole change (the
+        // water-gas shift): its equilibrium is the root of a quadratic.
+        let mut pair = None;
+        if M == 1 && dnu[0] == 0.0 {
+            let (mut reactants, mut products) = ([0usize; 2], [0usize; 2]);
+            let (mut r, mut p, mut other) = (0, 0, false);
+            for (i, &v) in nu[0].iter().enumerate() {
+                if v == -1.0 && r < 2 {
+                    reactants[r] = i;
+                    r += 1;
+                } else if v == 1.0 && p < 2 {
+                    products[p] = i;
+                    p += 1;
+                } else if v != 0.0 {
+                    other = true;
+                }
+            }
+            if r == 2 && p == 2 && !other {
+                pair = Some([reactants[0], reactants[1], products[0], products[1]]);
+            }
+        }
         SmallSystem {
             nu,
             dnu,
             powers: whole.then_some(powers),
+            pair,
         }
+    }
+
+    /// The extent that brings a reaction of [`SmallSystem::pair`]'s form to equilibrium from
+    /// `n`: with c, d the reactants, a, b the products and K = exp(ln K), the root in
+    /// (-min(a, b), min(c, d)) of (1 - K) x^2 + (a + b + K (c + d)) x + (ab - K cd) = 0, taken
+    /// as C/q with q = -(B + sqrt(B^2 - 4AC))/2 (the form without cancellation; Press et al.,
+    /// Numerical Recipes, 3rd ed., 5.6). `None` when it does not lie strictly inside.
+    #[inline(always)]
+    fn pair_extent(&self, [r0, r1, p0, p1]: [usize; 4], n: &[f64; N], ln_k: f64) -> Option<f64> {
+        let (c, d, a, b) = (n[r0], n[r1], n[p0], n[p1]);
+        let k = ln_k.exp();
+        let quad = 1.0 - k;
+        let lin = a + b + k * (c + d);
+        let constant = a * b - k * c * d;
+        let q = -0.5 * (lin + (lin * lin - 4.0 * quad * constant).max(0.0).sqrt());
+        let x = constant / q;
+        let inside = x > -a.min(b) && x < c.min(d) && x.is_finite();
+        inside.then_some(x)
     }
 
     /// Gradient g_k = sum_i nu_ki ln n_i + dnu_k (ln(P/P0) - ln n_T) - ln K_k into `g`, and
@@ -356,6 +400,18 @@ impl<const M: usize, const N: usize> SmallSystem<M, N> {
         n.copy_from_slice(&state.n[..N]);
         let mut g = [0.0f64; M];
         let mut total = 0.0;
+        if let Some(pair) = self.pair {
+            if let Some(x) = self.pair_extent(pair, &n, at.ln_k[0]) {
+                let mut moved = n;
+                for i in 0..N {
+                    moved[i] += self.nu[0][i] * x;
+                }
+                if moved.iter().all(|v| *v > 0.0) {
+                    n = moved;
+                    state.w[0] += x;
+                }
+            }
+        }
         let mut merit = self.gradient(at, &n, &mut g, &mut total);
         let mut converged = g.iter().all(|r| r.abs() <= tolerance);
         while !converged && state.iterations < limit {
@@ -505,6 +561,17 @@ impl Prepared {
         }
     }
 
+    /// True when the kernel finds the equilibrium in closed form (a lone shift), so that any
+    /// start with every amount present serves.
+    pub fn closed_form(&self) -> bool {
+        match self {
+            Prepared::R1S4(s) => s.pair.is_some(),
+            Prepared::R1S5(s) => s.pair.is_some(),
+            Prepared::R1S6(s) => s.pair.is_some(),
+            _ => false,
+        }
+    }
+
     /// The coefficient rows, row-major (one row per reaction over the species).
     pub fn rows(&self) -> &[f64] {
         match self {
@@ -619,6 +686,50 @@ mod tests {
         // A half coefficient, or a power above four: no whole powers, logarithms throughout.
         check([[-1.0, -0.5, 1.0, 2.0]], [0.4, 0.3, 0.01, 0.02], false);
         check([[-1.0, -5.0, 1.0, 2.0]], [0.4, 0.3, 0.01, 0.02], false);
+    }
+
+    #[test]
+    fn the_shift_equilibrium_is_the_root_of_a_quadratic() {
+        // Species CO, H2O, CO2, H2. Smith, Van Ness & Abbott, Introduction to Chemical
+        // Engineering Thermodynamics, 7th ed., Example 13.5: K = 1 from 1 CO + 1 H2O reacts half;
+        // from 1 CO + 2 H2O two thirds of the CO.
+        let shift = SmallSystem::<1, 4>::new([[-1.0, -1.0, 1.0, 1.0]], [0.0]);
+        let pair = shift.pair.unwrap();
+        let x = shift
+            .pair_extent(pair, &[1.0, 1.0, 1e-300, 1e-300], 0.0)
+            .unwrap();
+        assert!((x - 0.5).abs() < 1e-15, "{x}");
+        let x = shift
+            .pair_extent(pair, &[1.0, 2.0, 1e-300, 1e-300], 0.0)
+            .unwrap();
+        assert!((x - 2.0 / 3.0).abs() < 1e-15, "{x}");
+        // Any K, either side of one, from any start: the quotient of the moved amounts is K
+        // (to round-off), and the move runs backward when the start lies beyond equilibrium.
+        for (n, ln_k) in [
+            ([0.09, 0.34, 0.056, 0.48], 3.2),
+            ([0.09, 0.34, 0.056, 0.48], -2.0),
+            ([0.002, 0.25, 0.12, 0.6], 5.0),
+            ([0.3, 0.3, 0.3, 0.3], 0.7),
+        ] {
+            let x = shift.pair_extent(pair, &n, ln_k).unwrap();
+            let q = ((n[2] + x) * (n[3] + x) / ((n[0] - x) * (n[1] - x))).ln();
+            assert!((q - ln_k).abs() < 1e-12, "{n:?} {ln_k}: {q}");
+        }
+        // Only the shift's form has the closed form.
+        assert!(SmallSystem::<2, 5>::new(
+            [[-1.0, -1.0, 1.0, 3.0, 0.0], [0.0, -1.0, -1.0, 1.0, 1.0]],
+            [2.0, 0.0]
+        )
+        .pair
+        .is_none());
+        assert!(SmallSystem::<1, 4>::new([[-2.0, 1.0, 1.0, 0.0]], [0.0])
+            .pair
+            .is_none());
+        assert!(
+            SmallSystem::<1, 5>::new([[-1.0, -1.0, 1.0, 3.0, 0.0]], [2.0])
+                .pair
+                .is_none()
+        );
     }
 
     #[test]
