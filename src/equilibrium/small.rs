@@ -492,6 +492,20 @@ pub enum Prepared {
     R2S6(SmallSystem<2, 6>),
 }
 
+/// `$body` with `$s` bound to the system inside whichever size `$prepared` holds.
+macro_rules! each_size {
+    ($prepared:expr, $s:ident => $body:expr) => {
+        match $prepared {
+            Prepared::R1S4($s) => $body,
+            Prepared::R1S5($s) => $body,
+            Prepared::R1S6($s) => $body,
+            Prepared::R2S4($s) => $body,
+            Prepared::R2S5($s) => $body,
+            Prepared::R2S6($s) => $body,
+        }
+    };
+}
+
 impl Prepared {
     /// The kernel of `nr` rows over `ns` species (row-major `nu`, gas mole changes `dnu`), or
     /// `None` for a size it does not take.
@@ -551,37 +565,18 @@ impl Prepared {
             }
         }
         let args = (amounts, inert, rhs, x);
-        match self {
-            Prepared::R1S4(s) => solve(s, args),
-            Prepared::R1S5(s) => solve(s, args),
-            Prepared::R1S6(s) => solve(s, args),
-            Prepared::R2S4(s) => solve(s, args),
-            Prepared::R2S5(s) => solve(s, args),
-            Prepared::R2S6(s) => solve(s, args),
-        }
+        each_size!(self, s => solve(s, args))
     }
 
     /// True when the kernel finds the equilibrium in closed form (a lone shift), so that any
     /// start with every amount present serves.
     pub fn closed_form(&self) -> bool {
-        match self {
-            Prepared::R1S4(s) => s.pair.is_some(),
-            Prepared::R1S5(s) => s.pair.is_some(),
-            Prepared::R1S6(s) => s.pair.is_some(),
-            _ => false,
-        }
+        each_size!(self, s => s.pair.is_some())
     }
 
     /// The coefficient rows, row-major (one row per reaction over the species).
     pub fn rows(&self) -> &[f64] {
-        match self {
-            Prepared::R1S4(s) => s.nu.as_flattened(),
-            Prepared::R1S5(s) => s.nu.as_flattened(),
-            Prepared::R1S6(s) => s.nu.as_flattened(),
-            Prepared::R2S4(s) => s.nu.as_flattened(),
-            Prepared::R2S5(s) => s.nu.as_flattened(),
-            Prepared::R2S6(s) => s.nu.as_flattened(),
-        }
+        each_size!(self, s => s.nu.as_flattened())
     }
 
     /// [`SmallSystem::iterate`] at `ln_k` (one per reaction), `inert` and `ln_p`.
@@ -602,26 +597,7 @@ impl Prepared {
                 ln_p,
             }
         }
-        match self {
-            Prepared::R1S4(s) => {
-                s.iterate(&at(ln_k, inert, ln_p), state, tolerance, limit, min_step)
-            }
-            Prepared::R1S5(s) => {
-                s.iterate(&at(ln_k, inert, ln_p), state, tolerance, limit, min_step)
-            }
-            Prepared::R1S6(s) => {
-                s.iterate(&at(ln_k, inert, ln_p), state, tolerance, limit, min_step)
-            }
-            Prepared::R2S4(s) => {
-                s.iterate(&at(ln_k, inert, ln_p), state, tolerance, limit, min_step)
-            }
-            Prepared::R2S5(s) => {
-                s.iterate(&at(ln_k, inert, ln_p), state, tolerance, limit, min_step)
-            }
-            Prepared::R2S6(s) => {
-                s.iterate(&at(ln_k, inert, ln_p), state, tolerance, limit, min_step)
-            }
-        }
+        each_size!(self, s => s.iterate(&at(ln_k, inert, ln_p), state, tolerance, limit, min_step))
     }
 }
 
