@@ -14,11 +14,12 @@
 //! loop carries on from the same state.
 //!
 //! Hand-written on purpose (callgrind instructions a solve, `examples/profile_stage.rs`, the
-//! general loop alone -> with this kernel): reforming + shift warm-started from a 5 K neighbour
-//! 9 530 -> 5 910; the same from cold 12 650 -> 8 270; adiabatic shift 28 700 -> 17 800 (these
-//! include the stage's own savings of the same change: one division in the NASA polynomials,
-//! the outlet enthalpy from the last equilibrium's H/RT). Criterion medians, one run:
-//! 677 -> 381 ns, 953 -> 557 ns and 2.02 -> 1.29 us.
+//! general loop alone -> with this kernel and the stage's own savings of the same change: one
+//! division in the NASA polynomials, the outlet enthalpy from the last equilibrium's H/RT):
+//! reforming + shift warm-started from a 5 K neighbour 9 530 -> 5 540; the same from cold
+//! 12 650 -> 8 410; adiabatic shift 28 700 -> 11 400. Criterion medians, one run alternated
+//! with the general loop's release: 0.72-0.77 -> 0.42-0.51 us, 1.02-1.07 -> 0.67-0.71 us and
+//! 2.03-2.21 -> 0.81 us (DEVELOPERS.md, Tests and benchmarks).
 
 /// The working reactions of one solve, copied onto the stack.
 #[derive(Debug, Clone)]
